@@ -1,0 +1,161 @@
+// Package grid holds the regular latitude-longitude grid that drygrid maps
+// onto: its spec, cell centres and edges, cell areas on the WGS84 ellipsoid,
+// and typed rasters. It imports no other package of the project.
+package grid
+
+import (
+	"errors"
+	"fmt"
+	"math"
+)
+
+// Spec is a regular lat-lon grid in degrees (EPSG:4326), rows from north to
+// south and columns from west to east. Cells are areas (GeoTIFF PixelIsArea):
+// cell (col, row) spans [West+col*Res, West+(col+1)*Res] in longitude and
+// [North-(row+1)*Res, North-row*Res] in latitude.
+//
+// A grid that crosses the antimeridian has West < 180 < East: its longitudes
+// run east past 180 (RFC 7946 section 5.2 bboxes with west > east map to this).
+type Spec struct {
+	West  float64 // longitude of the western edge, in [-180, 180)
+	North float64 // latitude of the northern edge, at most 90
+	Res   float64 // cell size in degrees, the same in both axes
+	Cols  int
+	Rows  int
+}
+
+// snapTol absorbs floating-point noise when snapping edges to multiples of
+// the resolution (0.3/0.1 is 2.9999999999999996, not 3).
+const snapTol = 1e-9
+
+// NewSpec builds a grid covering the bbox west, south, east, north at
+// resolution res, with every edge snapped outward to a multiple of res.
+// west > east means the bbox crosses the antimeridian. Latitudes are kept
+// inside [-90, 90] and the width inside 360 degrees.
+func NewSpec(west, south, east, north, res float64) (Spec, error) {
+	for _, v := range []float64{west, south, east, north, res} {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return Spec{}, errors.New("grid: bbox and resolution must be finite numbers")
+		}
+	}
+	if res <= 0 || res > 90 {
+		return Spec{}, fmt.Errorf("grid: resolution %g deg must be in (0, 90]", res)
+	}
+	if south < -90 || north > 90 || south >= north {
+		return Spec{}, fmt.Errorf("grid: south %g and north %g must satisfy -90 <= south < north <= 90", south, north)
+	}
+	if west < -180 || west > 360 || east < -180 || east > 360 {
+		return Spec{}, fmt.Errorf("grid: west %g and east %g must lie in [-180, 360]", west, east)
+	}
+	if west == east {
+		return Spec{}, fmt.Errorf("grid: west and east are both %g: the bbox has no width", west)
+	}
+	if west >= 180 {
+		west -= 360
+	}
+	if east > 180 {
+		east -= 360
+	}
+	if west > east {
+		east += 360 // crosses the antimeridian
+	}
+	w := multiple(math.Floor(west/res+snapTol), res)
+	e := multiple(math.Ceil(east/res-snapTol), res)
+	s := multiple(math.Floor(south/res+snapTol), res)
+	n := multiple(math.Ceil(north/res-snapTol), res)
+	// Keep inside the poles: the outermost whole multiples of res within +/-90.
+	if n > 90 {
+		n = multiple(math.Floor(90/res+snapTol), res)
+	}
+	if s < -90 {
+		s = multiple(math.Ceil(-90/res-snapTol), res)
+	}
+	cols := int(math.Round((e - w) / res))
+	maxCols := int(math.Floor(360/res + snapTol))
+	if cols > maxCols {
+		cols = maxCols
+	}
+	rows := int(math.Round((n - s) / res))
+	if cols < 1 || rows < 1 {
+		return Spec{}, fmt.Errorf("grid: bbox %g,%g,%g,%g at %g deg holds no whole cell", west, south, east, north, res)
+	}
+	if w < -180 {
+		w += 360
+	}
+	return Spec{West: w, North: n, Res: res, Cols: cols, Rows: rows}, nil
+}
+
+// multiple is k*res, computed as k/(1/res) when 1/res is a whole number so
+// that decimal resolutions give the nearest float64 (3/10 is 0.3, 3*0.1 is
+// 0.30000000000000004).
+func multiple(k, res float64) float64 {
+	if inv := math.Round(1 / res); math.Abs(1/res-inv) < snapTol*inv {
+		return k / inv
+	}
+	return k * res
+}
+
+// Global is the whole-Earth grid at resolution res (res should divide 180).
+func Global(res float64) (Spec, error) { return NewSpec(-180, -90, 180, 90, res) }
+
+// Len is the number of cells.
+func (s Spec) Len() int { return s.Cols * s.Rows }
+
+// East is the longitude of the eastern edge; above 180 when the grid crosses
+// the antimeridian.
+func (s Spec) East() float64 { return s.West + float64(s.Cols)*s.Res }
+
+// South is the latitude of the southern edge.
+func (s Spec) South() float64 { return s.North - float64(s.Rows)*s.Res }
+
+// CrossesAntimeridian reports whether the grid runs east past 180.
+func (s Spec) CrossesAntimeridian() bool { return s.East() > 180+snapTol*s.Res }
+
+// Center is the centre of cell (col, row): longitude (possibly above 180 on
+// a grid crossing the antimeridian) and latitude.
+func (s Spec) Center(col, row int) (lon, lat float64) {
+	return s.West + (float64(col)+0.5)*s.Res, s.North - (float64(row)+0.5)*s.Res
+}
+
+// RowLats gives the northern and southern edge latitudes of a row.
+func (s Spec) RowLats(row int) (north, south float64) {
+	return s.North - float64(row)*s.Res, s.North - float64(row+1)*s.Res
+}
+
+// Index is the offset of cell (col, row) in a row-major raster.
+func (s Spec) Index(col, row int) int { return row*s.Cols + col }
+
+// Cell finds the cell holding the point lon, lat (any longitude form); ok is
+// false outside the grid. Points on an inner edge belong to the cell east or
+// south of it; the grid's eastern and southern edges belong to the last cell.
+func (s Spec) Cell(lon, lat float64) (col, row int, ok bool) {
+	x := math.Mod(lon-s.West, 360)
+	if x < 0 {
+		x += 360
+	}
+	fc := x / s.Res
+	fr := (s.North - lat) / s.Res
+	col, row = int(math.Floor(fc)), int(math.Floor(fr))
+	if col == s.Cols && fc-float64(s.Cols) < snapTol {
+		col--
+	}
+	if row == s.Rows && fr-float64(s.Rows) < snapTol {
+		row--
+	}
+	if fr < 0 || col < 0 || col >= s.Cols || row < 0 || row >= s.Rows {
+		return 0, 0, false
+	}
+	return col, row, true
+}
+
+// GeoTransform is the GDAL affine transform of the grid:
+// x = gt[0] + col*gt[1], y = gt[3] + row*gt[5] at cell corners.
+func (s Spec) GeoTransform() [6]float64 {
+	return [6]float64{s.West, s.Res, 0, s.North, 0, -s.Res}
+}
+
+// String is a one-line description for summaries and logs.
+func (s Spec) String() string {
+	return fmt.Sprintf("%d x %d cells of %g deg, west %g south %g east %g north %g",
+		s.Cols, s.Rows, s.Res, s.West, s.South(), s.East(), s.North)
+}
