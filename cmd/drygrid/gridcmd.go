@@ -1,0 +1,181 @@
+package main
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+	"strings"
+
+	"github.com/spf13/cobra"
+
+	"drygrid/interp"
+	"drygrid/station"
+)
+
+// gridFlags are the flags of `drygrid grid` that shape one run.
+type gridFlags struct {
+	stations    string
+	kind        string
+	valueColumn string
+	idColumn    string
+	latColumn   string
+	lonColumn   string
+	res         float64
+	bbox        string
+	power       float64
+	neighbors   int
+	radiusKm    float64
+	minStations int
+	scheme      string
+	regions     string
+	regionKey   string
+	layers      string
+	simplifyKm  float64
+	title       string
+	out         string
+}
+
+func newGridCmd() *cobra.Command {
+	var f gridFlags
+	cmd := &cobra.Command{
+		Use:   "grid --stations FILE --out DIR",
+		Short: "Interpolate station SPI or percentiles onto a grid and write the map layers",
+		Long: `grid reads one value per station (an SPI, or a percentile of the window's precipitation),
+interpolates it by inverse-distance weighting on the sphere onto a lat-lon grid, masks cells
+with fewer than --min-stations stations within --radius-km, classifies the cells into
+severity bands and writes the layers into --out:
+
+  index.tif         Float32 z (SPI units), no data -9999, Cloud Optimized GeoTIFF
+  bands.tif         UInt8 band codes with a colour table, 0 = no data
+  bands.geojson     one dissolved MultiPolygon per band (RFC 7946)
+  stations.geojson  one Point per station read
+  regions.csv/json  area in each band per region (with --regions)
+  map.png           a picture for reports
+  map.html          a self-contained web page
+
+Percentiles are turned into z = Phi^-1(p/100) (p clamped to [0.1, 99.9]) before
+interpolation, so index.tif always holds z.
+
+The layers are interpolated estimates, not official drought declarations.`,
+		Example: `  # SPI per station to all layers at 0.1 deg over the stations' extent
+  drygrid grid --stations spi.csv --out layers/
+
+  # percentiles, a fixed bbox crossing the antimeridian, only the rasters
+  drygrid grid --stations pct.tsv --kind percentile --bbox 170,-50,-170,-30 \
+      --res 0.05 --layers index,bands --out layers/
+
+  # area in drought per district
+  drygrid grid --stations spi.csv --regions districts.geojson --region-key name --out layers/`,
+		Args: cobra.NoArgs,
+		RunE: func(cmd *cobra.Command, _ []string) error {
+			job, err := f.job()
+			if err != nil {
+				return err
+			}
+			_, err = runGrid(job, cmd.ErrOrStderr())
+			return err
+		},
+	}
+	fl := cmd.Flags()
+	fl.StringVar(&f.stations, "stations", "", "station value table (CSV or TSV, optionally .gz) with id, latitude, longitude and the value (required)")
+	fl.StringVar(&f.kind, "kind", "spi", "what the values are: spi or percentile")
+	fl.StringVar(&f.valueColumn, "value-column", "", "name of the value column (default: the column named like --kind)")
+	fl.StringVar(&f.idColumn, "id-column", "", "name of the station id column (default: station|id|station_id|site)")
+	fl.StringVar(&f.latColumn, "lat-column", "", "name of the latitude column (default: latitude|lat)")
+	fl.StringVar(&f.lonColumn, "lon-column", "", "name of the longitude column (default: longitude|lon|long|lng)")
+	fl.Float64Var(&f.res, "res", 0.1, "cell size in degrees")
+	fl.StringVar(&f.bbox, "bbox", "", "W,S,E,N in degrees; W > E crosses the antimeridian (default: the stations' extent widened by --radius-km)")
+	fl.Float64Var(&f.power, "power", 2, "IDW power: weights are distance^-power")
+	fl.IntVar(&f.neighbors, "neighbors", 12, "use at most this many nearest stations per cell")
+	fl.Float64Var(&f.radiusKm, "radius-km", 300, "search radius in km (great-circle)")
+	fl.IntVar(&f.minStations, "min-stations", 3, "a cell with fewer stations within the radius is no data")
+	fl.StringVar(&f.scheme, "scheme", "", "band scheme file (TOML; default: the nine built-in bands; see 'drygrid scheme --example')")
+	fl.StringVar(&f.regions, "regions", "", "regions GeoJSON (Polygon/MultiPolygon features) for area-in-drought statistics")
+	fl.StringVar(&f.regionKey, "region-key", "", "feature property naming each region (default: id, then name)")
+	fl.StringVar(&f.layers, "layers", "all", "layers to write: "+strings.Join(allLayers, ","))
+	fl.Float64Var(&f.simplifyKm, "simplify-km", 0, "simplify band polygons to this tolerance in km (0: exact cell edges)")
+	fl.StringVar(&f.title, "title", "", "title for the picture and the page")
+	fl.StringVar(&f.out, "out", "", "output directory (required; created if missing)")
+	return cmd
+}
+
+// job checks the flags and turns them into a run description.
+func (f gridFlags) job() (gridJob, error) {
+	var j gridJob
+	if f.stations == "" {
+		return j, usagef("--stations FILE is required")
+	}
+	if f.out == "" {
+		return j, usagef("--out DIR is required")
+	}
+	kind := station.Kind(strings.ToLower(f.kind))
+	if kind != station.KindSPI && kind != station.KindPercentile {
+		return j, usagef("--kind must be spi or percentile, not %q", f.kind)
+	}
+	if !(f.res > 0 && f.res <= 10) {
+		return j, usagef("--res %g: must be in (0, 10] degrees", f.res)
+	}
+	if f.simplifyKm < 0 || math.IsNaN(f.simplifyKm) {
+		return j, usagef("--simplify-km %g: must be 0 or more", f.simplifyKm)
+	}
+	p := interp.Params{Power: f.power, Neighbors: f.neighbors, RadiusKm: f.radiusKm, MinStations: f.minStations}
+	if err := p.Validate(); err != nil {
+		return j, usageError{err}
+	}
+	layers, err := parseLayers(f.layers)
+	if err != nil {
+		return j, err
+	}
+	if f.regions == "" {
+		if strings.Contains(f.layers, "regions") {
+			return j, usagef("--layers regions needs --regions FILE.geojson")
+		}
+		delete(layers, "regions")
+	}
+	j = gridJob{
+		Stations: f.stations,
+		Values: station.ValueOptions{Kind: kind, ValueColumn: f.valueColumn,
+			IDColumn: f.idColumn, LatColumn: f.latColumn, LonColumn: f.lonColumn},
+		Res: f.res, Params: p, Scheme: f.scheme, Regions: f.regions, RegionKey: f.regionKey,
+		Layers: layers, SimplifyKm: f.simplifyKm, Title: f.title, Out: f.out,
+	}
+	if f.bbox != "" {
+		b, err := parseBBox(f.bbox)
+		if err != nil {
+			return j, err
+		}
+		j.BBox = &b
+	}
+	return j, nil
+}
+
+// parseBBox reads "W,S,E,N".
+func parseBBox(s string) ([4]float64, error) {
+	var b [4]float64
+	parts := strings.Split(s, ",")
+	if len(parts) != 4 {
+		return b, usagef("--bbox %q: want W,S,E,N (four numbers in degrees)", s)
+	}
+	for i, p := range parts {
+		v, err := strconv.ParseFloat(strings.TrimSpace(p), 64)
+		if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
+			return b, usagef("--bbox %q: %q is not a number", s, p)
+		}
+		b[i] = v
+	}
+	if b[1] >= b[3] {
+		return b, usagef("--bbox %q: south %g must be below north %g", s, b[1], b[3])
+	}
+	if b[1] < -90 || b[3] > 90 {
+		return b, usagef("--bbox %q: latitudes must lie in [-90, 90]", s)
+	}
+	if b[0] < -180 || b[0] > 360 || b[2] < -180 || b[2] > 360 {
+		return b, usagef("--bbox %q: longitudes must lie in [-180, 360]", s)
+	}
+	if b[0] == b[2] {
+		return b, usagef("--bbox %q: west equals east", s)
+	}
+	return b, nil
+}
+
+var _ = fmt.Sprintf

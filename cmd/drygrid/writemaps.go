@@ -1,0 +1,105 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"math"
+	"os"
+
+	"drygrid/export"
+	"drygrid/grid"
+)
+
+// writeRegions writes regions.csv and regions.json.
+func (w *layerWriter) writeRegions() error {
+	stats, s := w.res.Regions, w.res.Scheme
+	if err := writeStream(w.path("regions.csv"), func(out io.Writer) error {
+		return export.WriteRegionsCSV(out, stats, s)
+	}); err != nil {
+		return err
+	}
+	meta := export.RegionsMeta{Source: "drygrid grid --stations " + w.job.Stations, Regions: w.job.Regions, Grid: w.res.Spec.String()}
+	return writeStream(w.path("regions.json"), func(out io.Writer) error {
+		return export.WriteRegionsJSON(out, stats, s, meta)
+	})
+}
+
+// subtitle describes the run's parameters under the title.
+func (w *layerWriter) subtitle() string {
+	if w.job.Subtitle != "" {
+		return w.job.Subtitle
+	}
+	p := w.job.Params
+	return fmt.Sprintf("IDW power %g, %d neighbours within %g km, at least %d stations; %d stations; %g deg grid",
+		p.Power, p.Neighbors, p.RadiusKm, p.MinStations, len(w.res.Values.Stations), w.res.Spec.Res)
+}
+
+func (w *layerWriter) title() string {
+	if w.job.Title != "" {
+		return w.job.Title
+	}
+	return fmt.Sprintf("%s: %s", "drygrid", w.job.Values.Kind)
+}
+
+// writePicture writes map.png.
+func (w *layerWriter) writePicture() error {
+	in := export.PictureInput{Bands: w.res.Bands, Scheme: w.res.Scheme,
+		Title: w.title(), Subtitle: w.subtitle(), Caution: export.MapCaution}
+	for _, s := range w.res.Values.Stations {
+		in.Stations = append(in.Stations, export.PicturePoint{Lon: s.Lon, Lat: s.Lat})
+	}
+	for _, r := range w.regions {
+		in.Regions = append(in.Regions, export.PictureRegion{Name: r.Key, Geom: r.Geom})
+	}
+	return export.WritePicture(w.path("map.png"), in, export.PictureOptions{})
+}
+
+// writePage writes map.html with the layers inline.
+func (w *layerWriter) writePage() error {
+	bands, err := w.bandsGeoJSON()
+	if err != nil {
+		return err
+	}
+	stations, err := w.stationsGeoJSON()
+	if err != nil {
+		return err
+	}
+	spec := w.res.Spec
+	in := export.PageInput{Title: w.title(), Subtitle: w.subtitle(), Caution: export.MapCaution,
+		Scheme: w.res.Scheme, BandsGeoJSON: bands, StationsGeoJSON: stations,
+		BBox: [4]float64{spec.West, spec.South(), spec.East(), spec.North}}
+	if w.job.Regions != "" {
+		b, err := os.ReadFile(w.job.Regions)
+		if err != nil {
+			return fmt.Errorf("regions: %w", err)
+		}
+		in.RegionsGeoJSON = b
+		in.Regions = pageRows(w.res.Regions, w)
+	}
+	return export.WritePage(w.path("map.html"), in)
+}
+
+// pageRows turns zonal statistics into the page's table rows.
+func pageRows(stats []grid.ZonalStats, w *layerWriter) []export.PageRegionRow {
+	rows := make([]export.PageRegionRow, 0, len(stats))
+	for _, z := range stats {
+		r := export.PageRegionRow{Name: z.Key, AreaKm2: z.AreaKm2, SharePct: map[string]float64{}, MeanZ: math.NaN()}
+		if z.AreaKm2 > 0 {
+			r.CoveredPct = 100 * z.CoveredKm2 / z.AreaKm2
+		}
+		if z.HasMeanZ {
+			r.MeanZ = z.MeanZ
+		}
+		if z.CoveredKm2 > 0 {
+			for _, b := range w.res.Scheme.Bands {
+				share := 100 * z.CodeKm2[b.Code] / z.CoveredKm2
+				r.SharePct[b.Key] = share
+				if b.Drought {
+					r.InDroughtPct += share
+				}
+			}
+		}
+		rows = append(rows, r)
+	}
+	return rows
+}
