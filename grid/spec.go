@@ -28,6 +28,11 @@ type Spec struct {
 // the resolution (0.3/0.1 is 2.9999999999999996, not 3).
 const snapTol = 1e-9
 
+// maxCells bounds the grid size (2^36, about 6.9e10 cells: a global grid at
+// 0.001 deg fits) so that an absurdly fine resolution is an error, not an
+// integer overflow or an allocation failure.
+const maxCells = 1 << 36
+
 // NewSpec builds a grid covering the bbox west, south, east, north at
 // resolution res, with every edge snapped outward to a multiple of res.
 // west > east means the bbox crosses the antimeridian. Latitudes are kept
@@ -50,13 +55,18 @@ func NewSpec(west, south, east, north, res float64) (Spec, error) {
 	if west == east {
 		return Spec{}, fmt.Errorf("grid: west and east are both %g: the bbox has no width", west)
 	}
+	w0, e0 := west, east      // as given, for messages
+	whole := east-west >= 360 // e.g. 0,360 or -180,180: all longitudes
 	if west >= 180 {
 		west -= 360
 	}
 	if east > 180 {
 		east -= 360
 	}
-	if west > east {
+	switch {
+	case whole:
+		east = west + 360
+	case west > east:
 		east += 360 // crosses the antimeridian
 	}
 	w := multiple(math.Floor(west/res+snapTol), res)
@@ -70,14 +80,14 @@ func NewSpec(west, south, east, north, res float64) (Spec, error) {
 	if s < -90 {
 		s = multiple(math.Ceil(-90/res-snapTol), res)
 	}
-	cols := int(math.Round((e - w) / res))
-	maxCols := int(math.Floor(360/res + snapTol))
-	if cols > maxCols {
-		cols = maxCols
+	fc := min(math.Round((e-w)/res), math.Floor(360/res+snapTol))
+	fr := math.Round((n - s) / res)
+	if !(fc*fr <= maxCells) { // also catches NaN from a subnormal res
+		return Spec{}, fmt.Errorf("grid: bbox %g,%g,%g,%g at %g deg needs %.4g cells, more than %d", w0, south, e0, north, res, fc*fr, maxCells)
 	}
-	rows := int(math.Round((n - s) / res))
+	cols, rows := int(fc), int(fr)
 	if cols < 1 || rows < 1 {
-		return Spec{}, fmt.Errorf("grid: bbox %g,%g,%g,%g at %g deg holds no whole cell", west, south, east, north, res)
+		return Spec{}, fmt.Errorf("grid: bbox %g,%g,%g,%g at %g deg holds no whole cell", w0, south, e0, north, res)
 	}
 	if w < -180 {
 		w += 360
@@ -103,10 +113,21 @@ func (s Spec) Len() int { return s.Cols * s.Rows }
 
 // East is the longitude of the eastern edge; above 180 when the grid crosses
 // the antimeridian.
-func (s Spec) East() float64 { return s.West + float64(s.Cols)*s.Res }
+func (s Spec) East() float64 { return s.edge(s.West, float64(s.Cols)) }
 
 // South is the latitude of the southern edge.
-func (s Spec) South() float64 { return s.North - float64(s.Rows)*s.Res }
+func (s Spec) South() float64 { return s.edge(s.North, -float64(s.Rows)) }
+
+// edge is from + n*Res; when from is a whole multiple of Res (as NewSpec
+// makes it) the sum is formed as a multiple too, so that decimal
+// resolutions give clean edges (-118.7, not -118.70000000000002).
+func (s Spec) edge(from, n float64) float64 {
+	k := from / s.Res
+	if rk := math.Round(k); math.Abs(k-rk) < snapTol*max(1, math.Abs(k)) {
+		return multiple(rk+n, s.Res)
+	}
+	return from + n*s.Res
+}
 
 // CrossesAntimeridian reports whether the grid runs east past 180.
 func (s Spec) CrossesAntimeridian() bool { return s.East() > 180+snapTol*s.Res }
@@ -135,6 +156,11 @@ func (s Spec) Cell(lon, lat float64) (col, row int, ok bool) {
 	}
 	fc := x / s.Res
 	fr := (s.North - lat) / s.Res
+	// Compare as floats first: NaN, Inf or a huge value must not reach the
+	// int conversion, whose result is then implementation-defined.
+	if !(fc >= 0 && fc < float64(s.Cols)+1 && fr >= 0 && fr < float64(s.Rows)+1) {
+		return 0, 0, false
+	}
 	col, row = int(math.Floor(fc)), int(math.Floor(fr))
 	if col == s.Cols && fc-float64(s.Cols) < snapTol {
 		col--

@@ -5,6 +5,7 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"strings"
 
 	"github.com/spf13/cobra"
 
@@ -70,10 +71,18 @@ func runDemo(out string, stderr io.Writer) error {
 		Title:  fmt.Sprintf("%s: SPI, %s %d", sc.Name, sc.Window, sc.TargetYear),
 		Out:    out,
 	}
-	job.Params.RadiusKm = 120
+	job.Params.RadiusKm = sc.RadiusKm
 	_, err = runGrid(job, stderr)
 	if err == nil {
 		fmt.Fprintf(stderr, "demo: open %s in a browser; the data are invented\n", filepath.Join(out, "map.html"))
 	}
 	return err
+}
+
+// capitalize upper-cases the first letter of a title.
+func capitalize(s string) string {
+	if s == "" {
+		return s
+	}
+	return strings.ToUpper(s[:1]) + s[1:]
 }
