@@ -68,7 +68,7 @@ func runDemo(out string, stderr io.Writer) error {
 		Params:   interp.DefaultParams(),
 		Regions:  districts, RegionKey: "name",
 		Layers: layers,
-		Title:  fmt.Sprintf("%s: SPI, %s %d", sc.Name, sc.Window, sc.TargetYear),
+		Title:  fmt.Sprintf("%s: SPI, %s %d", capitalize(sc.Name), sc.Window, sc.TargetYear),
 		Out:    out,
 	}
 	job.Params.RadiusKm = sc.RadiusKm
