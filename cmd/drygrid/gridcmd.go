@@ -2,12 +2,15 @@ package main
 
 import (
 	"fmt"
+	"io"
 	"math"
 	"strconv"
 	"strings"
+	"time"
 
 	"github.com/spf13/cobra"
 
+	"drygrid/export"
 	"drygrid/interp"
 	"drygrid/station"
 )
@@ -32,6 +35,8 @@ type gridFlags struct {
 	layers      string
 	simplifyKm  float64
 	title       string
+	history     string
+	date        string
 	out         string
 }
 
@@ -72,8 +77,11 @@ The layers are interpolated estimates, not official drought declarations.`,
 			if err != nil {
 				return err
 			}
-			_, err = runGrid(job, cmd.ErrOrStderr())
-			return err
+			res, err := runGrid(job, cmd.ErrOrStderr())
+			if err != nil {
+				return err
+			}
+			return appendHistory(f.history, f.date, res, cmd.ErrOrStderr())
 		},
 	}
 	fl := cmd.Flags()
@@ -95,6 +103,8 @@ The layers are interpolated estimates, not official drought declarations.`,
 	fl.StringVar(&f.layers, "layers", "all", "layers to write: "+strings.Join(allLayers, ","))
 	fl.Float64Var(&f.simplifyKm, "simplify-km", 0, "simplify band polygons to this tolerance in km (0: exact cell edges)")
 	fl.StringVar(&f.title, "title", "", "title for the picture and the page")
+	fl.StringVar(&f.history, "history", "", "append the day's region rows to this CSV (with --regions); re-running a date replaces its rows")
+	fl.StringVar(&f.date, "date", "", "date of the history rows, YYYY-MM-DD (default: today, UTC)")
 	fl.StringVar(&f.out, "out", "", "output directory (required; created if missing)")
 	return cmd
 }
@@ -125,6 +135,14 @@ func (f gridFlags) job() (gridJob, error) {
 	layers, err := parseLayers(f.layers)
 	if err != nil {
 		return j, err
+	}
+	if f.history != "" && f.regions == "" {
+		return j, usagef("--history needs --regions FILE.geojson")
+	}
+	if f.date != "" {
+		if _, err := time.Parse("2006-01-02", f.date); err != nil {
+			return j, usagef("--date %q: want YYYY-MM-DD", f.date)
+		}
 	}
 	if f.regions == "" {
 		if strings.Contains(f.layers, "regions") {
@@ -178,4 +196,17 @@ func parseBBox(s string) ([4]float64, error) {
 	return b, nil
 }
 
-var _ = fmt.Sprintf
+// appendHistory adds the run's region rows to the history file.
+func appendHistory(path, date string, res *gridResult, stderr io.Writer) error {
+	if path == "" {
+		return nil
+	}
+	if date == "" {
+		date = time.Now().UTC().Format("2006-01-02")
+	}
+	if err := export.AppendHistory(path, date, res.Regions, res.Scheme); err != nil {
+		return err
+	}
+	fmt.Fprintf(stderr, "history: %d rows for %s in %s\n", len(res.Regions), date, path)
+	return nil
+}
