@@ -66,8 +66,8 @@ func (s *Scheme) MaxCode() uint8 {
 }
 
 // Validate checks that codes are unique and non-zero, keys are unique and
-// non-empty, colours parse, and the bands, in order, tile the whole real line
-// with no gap or overlap.
+// non-empty, colours are exactly "#rrggbb", and the bands, in order, tile the
+// whole real line with no gap or overlap, meeting at finite cut points.
 func (s *Scheme) Validate() error {
 	if len(s.Bands) == 0 {
 		return fmt.Errorf("scheme %q: no bands", s.Name)
@@ -83,9 +83,11 @@ func (s *Scheme) Validate() error {
 		if b.Key == "" || keys[b.Key] {
 			return fmt.Errorf("scheme %q band %d: key %q is empty or used twice", s.Name, i+1, b.Key)
 		}
-		var r, g, bl uint8
-		if n, err := fmt.Sscanf(b.Color, "#%02x%02x%02x", &r, &g, &bl); err != nil || n != 3 || len(b.Color) != 7 {
+		if _, ok := parseHexColor(b.Color); !ok {
 			return fmt.Errorf("scheme %q band %s: colour %q is not #rrggbb", s.Name, b.Key, b.Color)
+		}
+		if math.IsNaN(b.Min) || math.IsNaN(b.Max) {
+			return fmt.Errorf("scheme %q band %s: bound is NaN", s.Name, b.Key)
 		}
 		codes[b.Code], keys[b.Key] = true, true
 		if i == 0 && !math.IsInf(b.Min, -1) {
@@ -99,6 +101,9 @@ func (s *Scheme) Validate() error {
 		}
 		if i > 0 {
 			p := s.Bands[i-1]
+			if math.IsInf(b.Min, 0) {
+				return fmt.Errorf("scheme %q: bands %s and %s meet at %g; inner cut points must be finite", s.Name, p.Key, b.Key, b.Min)
+			}
 			if p.Max != b.Min || p.MaxInclusive == b.MinInclusive {
 				return fmt.Errorf("scheme %q: bands %s and %s must meet at one cut point, included in exactly one of them", s.Name, p.Key, b.Key)
 			}

@@ -1,0 +1,138 @@
+package export
+
+import (
+	"sync"
+	"sync/atomic"
+)
+
+// cogMaxOverviewSide is the longest side of the smallest overview: overviews
+// halve the image until both sides are at most this (GDAL's COG driver stops
+// at its 512 px block size the same way).
+const cogMaxOverviewSide = 512
+
+// cogLevelSizes gives the width and height of each overview level, the
+// first being half the image. Sizes round up, as GDAL's overviews do
+// (DIV_ROUND_UP in gcore/gdaldefaultoverviews.cpp), so level k has
+// ceil(cols/2^k) x ceil(rows/2^k) pixels. An image that already fits in
+// 512 x 512 has none.
+func cogLevelSizes(cols, rows int) [][2]int {
+	var out [][2]int
+	for f := 2; ; f *= 2 {
+		pc, pr := cogCeilDiv(cols, f/2), cogCeilDiv(rows, f/2)
+		if max(pc, pr) <= cogMaxOverviewSide {
+			return out
+		}
+		out = append(out, [2]int{cogCeilDiv(cols, f), cogCeilDiv(rows, f)})
+	}
+}
+
+func cogCeilDiv(a, b int) int { return (a + b - 1) / b }
+
+// cogParallel runs fn(i) for i in [0, n) on up to workers goroutines. Each
+// i is handled by exactly one call, so results written to slot i do not
+// depend on the number of workers.
+func cogParallel(n, workers int, fn func(i int)) {
+	if workers > n {
+		workers = n
+	}
+	if workers <= 1 {
+		for i := 0; i < n; i++ {
+			fn(i)
+		}
+		return
+	}
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for w := 0; w < workers; w++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for {
+				i := int(next.Add(1) - 1)
+				if i >= n {
+					return
+				}
+				fn(i)
+			}
+		}()
+	}
+	wg.Wait()
+}
+
+// cogMeanOverview is the overview of data (cols x rows) reduced by factor f:
+// each pixel is the mean, in float64 rounded to float32, of the valid
+// full-resolution cells of its f x f block (blocks on the right and bottom
+// edges are cut short by the image). Cells equal to nodata or NaN are
+// skipped; a block with none valid is nodata.
+func cogMeanOverview(data []float32, cols, rows, f int, nodata float32, workers int) []float32 {
+	oc, or := cogCeilDiv(cols, f), cogCeilDiv(rows, f)
+	out := make([]float32, oc*or)
+	cogParallel(or, workers, func(oy int) {
+		sums := make([]float64, oc)
+		counts := make([]int32, oc)
+		y1 := min((oy+1)*f, rows)
+		for y := oy * f; y < y1; y++ {
+			row := data[y*cols : (y+1)*cols]
+			for ox := 0; ox < oc; ox++ {
+				x1 := min((ox+1)*f, cols)
+				s, n := sums[ox], counts[ox]
+				for _, v := range row[ox*f : x1] {
+					if v != nodata && v == v {
+						s += float64(v)
+						n++
+					}
+				}
+				sums[ox], counts[ox] = s, n
+			}
+		}
+		dst := out[oy*oc : (oy+1)*oc]
+		for ox := range dst {
+			if counts[ox] == 0 {
+				dst[ox] = nodata
+			} else {
+				dst[ox] = float32(sums[ox] / float64(counts[ox]))
+			}
+		}
+	})
+	return out
+}
+
+// cogModeOverview is the overview of codes (cols x rows) reduced by factor
+// f: each pixel is the most frequent code of its f x f block other than
+// nodata, the lowest such code on a tie, and nodata only when the whole
+// block is nodata. (Our rule; GDAL's MODE resampling breaks ties
+// differently.)
+func cogModeOverview(data []uint8, cols, rows, f int, nodata uint8, workers int) []uint8 {
+	oc, or := cogCeilDiv(cols, f), cogCeilDiv(rows, f)
+	out := make([]uint8, oc*or)
+	cogParallel(or, workers, func(oy int) {
+		var counts [256]int32
+		seen := make([]uint8, 0, 256)
+		y0, y1 := oy*f, min((oy+1)*f, rows)
+		for ox := 0; ox < oc; ox++ {
+			x0, x1 := ox*f, min((ox+1)*f, cols)
+			seen = seen[:0]
+			for y := y0; y < y1; y++ {
+				for _, v := range data[y*cols+x0 : y*cols+x1] {
+					if counts[v] == 0 {
+						seen = append(seen, v)
+					}
+					counts[v]++
+				}
+			}
+			best, bestN := nodata, int32(0)
+			for _, c := range seen {
+				n := counts[c]
+				counts[c] = 0
+				if c == nodata {
+					continue
+				}
+				if n > bestN || (n == bestN && c < best) {
+					best, bestN = c, n
+				}
+			}
+			out[oy*oc+ox] = best
+		}
+	})
+	return out
+}

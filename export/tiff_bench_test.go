@@ -1,0 +1,154 @@
+package export
+
+import (
+	"encoding/binary"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"path/filepath"
+	"testing"
+
+	"drygrid/classes"
+	"drygrid/grid"
+)
+
+// tiffCounter counts bytes written.
+type tiffCounter struct{ n int64 }
+
+func (c *tiffCounter) Write(p []byte) (int, error) { c.n += int64(len(p)); return len(p), nil }
+
+func tiffGlobalField(b testing.TB) *grid.Float32 {
+	s, err := grid.Global(0.1)
+	if err != nil {
+		b.Fatal(err)
+	}
+	return tiffTestField(s)
+}
+
+// BenchmarkEncodeIndexTIFFGlobal writes the COG of the global 0.1 deg index
+// raster (3600 x 1800 = 6.48 M cells, ~30 % no data) with the default
+// options (DESIGN.md target: no slower than GDAL's COG driver, size within
+// 10 %). The sub-benchmarks give the DEFLATE levels, for the choice of
+// DefaultTIFFLevel.
+func BenchmarkEncodeIndexTIFFGlobal(b *testing.B) {
+	r := tiffGlobalField(b)
+	for _, level := range []int{0, 1, 2, 3, 4, 6, 9} {
+		name := "default"
+		if level != 0 {
+			name = fmt.Sprintf("level%d", level)
+		}
+		b.Run(name, func(b *testing.B) {
+			opt := DefaultTIFFOptions()
+			if level != 0 {
+				opt.Level = level
+			}
+			b.SetBytes(int64(4 * len(r.Data)))
+			var c tiffCounter
+			cpu := tiffCPUSeconds()
+			for i := 0; i < b.N; i++ {
+				c.n = 0
+				if err := EncodeIndexTIFF(&c, r, opt); err != nil {
+					b.Fatal(err)
+				}
+			}
+			b.ReportMetric((tiffCPUSeconds()-cpu)/float64(b.N), "cpu-s/op")
+			b.ReportMetric(float64(c.n), "file-bytes")
+		})
+	}
+}
+
+// BenchmarkEncodeBandsTIFFGlobal writes the band raster of the same field,
+// without and with horizontal differencing (predictor 2), for the choice of
+// tiffBandsPredictor.
+func BenchmarkEncodeBandsTIFFGlobal(b *testing.B) {
+	s := classes.Default()
+	r := tiffTestBands(tiffGlobalField(b), s)
+	opt, _ := tiffNormalize(DefaultTIFFOptions())
+	for _, pred := range []int{1, 2} {
+		b.Run(fmt.Sprintf("predictor%d", pred), func(b *testing.B) {
+			var c tiffCounter
+			cpu := tiffCPUSeconds()
+			for i := 0; i < b.N; i++ {
+				c.n = 0
+				img := tiffNewImage(r.Spec, opt)
+				img.predictor, img.colormap, img.nodata = pred, tiffColorMap(s), "0"
+				img.levels = []*tiffLevel{{cols: r.Spec.Cols, rows: r.Spec.Rows, u8: r.Data}}
+				for k, sz := range cogLevelSizes(r.Spec.Cols, r.Spec.Rows) {
+					img.levels = append(img.levels, &tiffLevel{cols: sz[0], rows: sz[1],
+						u8: cogModeOverview(r.Data, r.Spec.Cols, r.Spec.Rows, 2<<k, 0, opt.Workers)})
+				}
+				if err := tiffCompressTiles(img.levels, img, opt); err != nil {
+					b.Fatal(err)
+				}
+				if err := tiffWrite(&c, img, opt); err != nil {
+					b.Fatal(err)
+				}
+			}
+			b.ReportMetric((tiffCPUSeconds()-cpu)/float64(b.N), "cpu-s/op")
+			b.ReportMetric(float64(c.n), "file-bytes")
+		})
+	}
+}
+
+// TestTIFFWriteBenchField is not a check: with DRYGRID_TIFF_BENCH_DIR set it
+// writes the benchmark raster raw (index.f32 with a GDAL VRT, index.vrt)
+// for the side-by-side with gdal_translate -of COG in BENCHMARKS.md.
+func TestTIFFWriteBenchField(t *testing.T) {
+	dir := os.Getenv("DRYGRID_TIFF_BENCH_DIR")
+	if dir == "" {
+		t.Skip("set DRYGRID_TIFF_BENCH_DIR to write the benchmark raster for the GDAL side-by-side")
+	}
+	r := tiffGlobalField(t)
+	raw := make([]byte, 4*len(r.Data))
+	for i, v := range r.Data {
+		binary.LittleEndian.PutUint32(raw[4*i:], math.Float32bits(v))
+	}
+	if err := os.WriteFile(filepath.Join(dir, "index.f32"), raw, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	gt := r.Spec.GeoTransform()
+	vrt := fmt.Sprintf(`<VRTDataset rasterXSize="%d" rasterYSize="%d">
+  <SRS>EPSG:4326</SRS>
+  <GeoTransform>%.17g, %.17g, 0, %.17g, 0, %.17g</GeoTransform>
+  <VRTRasterBand dataType="Float32" band="1" subClass="VRTRawRasterBand">
+    <NoDataValue>-9999</NoDataValue>
+    <SourceFilename relativeToVRT="1">index.f32</SourceFilename>
+    <ImageOffset>0</ImageOffset><PixelOffset>4</PixelOffset><LineOffset>%d</LineOffset>
+    <ByteOrder>LSB</ByteOrder>
+  </VRTRasterBand>
+</VRTDataset>
+`, r.Spec.Cols, r.Spec.Rows, gt[0], gt[1], gt[3], gt[5], 4*r.Spec.Cols)
+	if err := os.WriteFile(filepath.Join(dir, "index.vrt"), []byte(vrt), 0o644); err != nil {
+		t.Fatal(err)
+	}
+}
+
+// TestTIFFEncodeFromRaw is not a check either: with DRYGRID_TIFF_FROM_RAW
+// set to the directory written above it reads index.f32 and writes ours.tif
+// with the default options, the same work gdal_translate does from
+// index.vrt, for timing both under /usr/bin/time -v.
+func TestTIFFEncodeFromRaw(t *testing.T) {
+	dir := os.Getenv("DRYGRID_TIFF_FROM_RAW")
+	if dir == "" {
+		t.Skip("set DRYGRID_TIFF_FROM_RAW to encode the raw benchmark raster for the GDAL side-by-side")
+	}
+	s, err := grid.Global(0.1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	raw, err := os.ReadFile(filepath.Join(dir, "index.f32"))
+	if err != nil || len(raw) != 4*s.Len() {
+		t.Fatalf("index.f32: %d bytes, %v; want %d", len(raw), err, 4*s.Len())
+	}
+	r := &grid.Float32{Spec: s, Data: make([]float32, s.Len()), NoData: grid.NoDataIndex}
+	for i := range r.Data {
+		r.Data[i] = math.Float32frombits(binary.LittleEndian.Uint32(raw[4*i:]))
+	}
+	raw = nil
+	if err := WriteIndexTIFF(filepath.Join(dir, "ours.tif"), r, DefaultTIFFOptions()); err != nil {
+		t.Fatal(err)
+	}
+}
+
+var _ io.Writer = (*tiffCounter)(nil)

@@ -1,0 +1,144 @@
+package grid
+
+import (
+	"strings"
+	"testing"
+)
+
+const sqCCW = `[[0,0],[2,0],[2,1],[0,1],[0,0]]`
+const sqCW = `[[0,0],[0,1],[2,1],[2,0],[0,0]]`
+
+func fc(features ...string) string {
+	return `{"type":"FeatureCollection","features":[` + strings.Join(features, ",") + `]}`
+}
+
+func feat(idMember, props, geom string) string {
+	s := `{"type":"Feature",`
+	if idMember != "" {
+		s += `"id":` + idMember + `,`
+	}
+	return s + `"properties":` + props + `,"geometry":` + geom + `}`
+}
+
+func poly(rings ...string) string {
+	return `{"type":"Polygon","coordinates":[` + strings.Join(rings, ",") + `]}`
+}
+
+// TestParseRegionsErrors: every bad input is refused with a message naming
+// the file, the feature's index and key (team brief: errors carry context).
+func TestParseRegionsErrors(t *testing.T) {
+	ok := feat(`"a"`, `{}`, poly(sqCCW))
+	cases := []struct{ name, in, want string }{
+		{"not json", `{`, `regions f.geojson: not GeoJSON: unexpected end of JSON input`},
+		{"no type", `{}`, `regions f.geojson: no GeoJSON "type" member`},
+		{"point type", `{"type":"Point","coordinates":[0,0]}`, `regions f.geojson: GeoJSON type "Point" is not a FeatureCollection, Feature, Polygon or MultiPolygon`},
+		{"empty", fc(), `regions f.geojson: the FeatureCollection has no features`},
+		{"no geometry", fc(ok, feat(`"b"`, `{}`, `null`)), `regions f.geojson feature 1 (key "b"): no geometry`},
+		{"line", fc(feat(`"b"`, `{}`, `{"type":"LineString","coordinates":[[0,0],[1,1]]}`)), `regions f.geojson feature 0 (key "b"): geometry is a LineString, not a Polygon or MultiPolygon`},
+		{"unclosed ring", fc(ok, feat(``, `{"id":"south"}`, poly(sqCCW)), feat(``, `{"name":"north"}`, poly(`[[0,0],[1,0],[1,1],[0,1],[0,0.5]]`))), `regions f.geojson feature 2 (key "north"): ring 0 is not closed`},
+		{"hole unclosed", fc(feat(`7`, `{}`, poly(sqCCW, `[[0.5,0.2],[0.5,0.8],[0.8,0.8],[0.5,0.2],[0.6,0.2]]`))), `regions f.geojson feature 0 (key "7"): ring 1 is not closed`},
+		{"hole outside", fc(feat(`"h"`, `{}`, poly(sqCCW, `[[0.5,0.2],[2.5,0.2],[0.5,0.8],[0.5,0.2]]`))), `regions f.geojson feature 0 (key "h"): ring 1 (a hole) has position 1 outside the exterior ring`},
+		{"bowtie", fc(feat(`"x"`, `{}`, poly(`[[0,0],[1,1],[1,0],[0,1],[0,0]]`))), `regions f.geojson feature 0 (key "x"): ring 0 intersects itself (edges 0 and 2)`},
+		{"touching", fc(feat(`"x"`, `{}`, poly(`[[0,0],[2,0],[1,1],[2,2],[0,2],[1,1],[0,0]]`))), `regions f.geojson feature 0 (key "x"): ring 0 intersects itself (edges 1 and 4)`},
+		{"spike", fc(feat(`"x"`, `{}`, poly(`[[0,0],[2,0],[2,1],[2,0.5],[0,1],[0,0]]`))), `regions f.geojson feature 0 (key "x"): ring 0 intersects itself (edges 1 and 3)`},
+		{"short", fc(feat(`"x"`, `{}`, poly(`[[0,0],[1,0],[0,0]]`))), `regions f.geojson feature 0 (key "x"): ring 0 has 3 positions; a ring needs at least 4 (3 corners and the closing position)`},
+		{"flat", fc(feat(`"x"`, `{}`, poly(`[[0,0],[1,0],[2,0],[0,0]]`))), `regions f.geojson feature 0 (key "x"): ring 0 intersects itself (edges 0 and 2)`},
+		{"lat", fc(feat(`"x"`, `{}`, poly(`[[0,0],[1,0],[1,91],[0,0]]`))), `regions f.geojson feature 0 (key "x"): ring 0 position 2 has latitude 91 outside [-90, 90]`},
+		{"lon", fc(feat(`"x"`, `{}`, poly(`[[0,0],[400,0],[1,1],[0,0]]`))), `regions f.geojson feature 0 (key "x"): ring 0 position 1 has longitude 400 outside [-360, 360]`},
+		{"multi", fc(feat(`"m"`, `{}`, `{"type":"MultiPolygon","coordinates":[[`+sqCCW+`],[[[5,5],[6,5],[6,6],[5,6]]]]}`)), `regions f.geojson feature 0 (key "m"): polygon 1 ring 0 is not closed`},
+		{"no key", fc(feat(``, `{"label":"a"}`, poly(sqCCW))), `regions f.geojson feature 0: no "id" member or property and no "name" property to name the region (set --region-key)`},
+		{"no custom key", fc(feat(`"a"`, `{"name":"a"}`, poly(sqCCW))), "regions f.geojson feature 0: no \"district\" member or property to name the region"},
+		{"bad key type", fc(feat(`"a"`, `{"district":true}`, poly(sqCCW))), `regions f.geojson feature 0: key "district" is a bool, not a string or number`},
+		{"dup", fc(feat(`"a"`, `{}`, poly(sqCCW)), feat(``, `{"id":"a"}`, poly(sqCW))), `regions f.geojson feature 1 (key "a"): the key is also used by feature 0`},
+		{"not feature", fc(`{"type":"Polygon","coordinates":[]}`), `regions f.geojson feature 0: geojson: not a feature: type=Polygon`},
+	}
+	for _, c := range cases {
+		key := ""
+		if strings.Contains(c.name, "custom key") || strings.Contains(c.name, "key type") {
+			key = "district"
+		}
+		_, err := ParseRegions("f.geojson", []byte(c.in), key)
+		if err == nil || err.Error() != c.want {
+			t.Errorf("%s: error\n got %v\nwant %s", c.name, err, c.want)
+		}
+	}
+}
+
+// TestParseRegionsForms: RFC 7946 allows a FeatureCollection, a Feature or a
+// bare geometry; the key comes from the id member, the id property or name.
+func TestParseRegionsForms(t *testing.T) {
+	in := fc(
+		feat(`"east"`, `{"name":"ignored"}`, poly(sqCCW)),
+		feat(`12`, `{}`, poly(sqCW)),
+		feat(``, `{"id":"p-id"}`, poly(sqCCW)),
+		feat(``, `{"name":"by name"}`, `{"type":"MultiPolygon","coordinates":[[`+sqCW+`]]}`),
+	)
+	rs, err := ParseRegions("f", []byte(in), "")
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := []string{"east", "12", "p-id", "by name"}
+	for i, r := range rs {
+		if r.Key != want[i] || r.Index != i {
+			t.Errorf("feature %d: key %q index %d, want %q %d", i, r.Key, r.Index, want[i], i)
+		}
+		// Either input winding ends as a CCW exterior (shoelace area > 0).
+		if a := regSignedArea(r.Geom[0][0]); a != 2 {
+			t.Errorf("feature %d: exterior signed area %g, want +2 (CCW)", i, a)
+		}
+	}
+	rs, err = ParseRegions("f", []byte(fc(feat(`"east"`, `{"name":"ignored"}`, poly(sqCCW)))), "name")
+	if err != nil || rs[0].Key != "ignored" {
+		t.Fatalf("--region-key name: %v %v", rs, err)
+	}
+	one, err := ParseRegions("f", []byte(feat(`"solo"`, `{}`, poly(sqCW, `[[0.5,0.2],[1.5,0.2],[1.5,0.8],[0.5,0.8],[0.5,0.2]]`))), "")
+	if err != nil || len(one) != 1 || one[0].Key != "solo" {
+		t.Fatalf("single feature: %v %v", one, err)
+	}
+	if a := regSignedArea(one[0].Geom[0][1]); a >= 0 {
+		t.Errorf("hole signed area %g, want negative (CW)", a)
+	}
+	bare, err := ParseRegions("f", []byte(poly(sqCCW)), "")
+	if err != nil || len(bare) != 1 || bare[0].Key != "region" {
+		t.Fatalf("bare geometry: %v %v", bare, err)
+	}
+}
+
+func TestReadRegionsFile(t *testing.T) {
+	rs, err := ReadRegions("../testdata/regions/districts.geojson", "")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(rs) != 4 {
+		t.Fatalf("%d regions, want 4", len(rs))
+	}
+	if _, err := ReadRegions("../testdata/regions/missing.geojson", ""); err == nil || !strings.HasPrefix(err.Error(), "regions ../testdata/regions/missing.geojson: open") {
+		t.Errorf("missing file: %v", err)
+	}
+}
+
+func FuzzParseRegions(f *testing.F) {
+	f.Add([]byte(fc(feat(`"a"`, `{}`, poly(sqCCW)))), "")
+	f.Add([]byte(fc(feat(``, `{"name":"b"}`, poly(sqCW, `[[0.5,0.2],[0.5,0.8],[0.8,0.8],[0.5,0.2]]`)))), "name")
+	f.Add([]byte(poly(`[[0,0],[1,1],[1,0],[0,1],[0,0]]`)), "id")
+	f.Add([]byte(`{"type":"MultiPolygon","coordinates":[[[[170,0],[190,0],[190,5],[170,0]]]]}`), "")
+	f.Fuzz(func(t *testing.T, data []byte, key string) {
+		rs, err := ParseRegions("fuzz", data, key)
+		if err != nil {
+			return
+		}
+		s, _ := NewSpec(-180, -90, 180, 90, 5)
+		for _, r := range rs {
+			for _, p := range r.Geom {
+				if regSignedArea(p[0]) <= 0 {
+					t.Fatalf("exterior not CCW: %v", p[0])
+				}
+			}
+			for _, w := range Coverage(s, r.Geom) {
+				if w.Frac <= 0 || w.Frac > 1 || w.Cell < 0 || w.Cell >= s.Len() {
+					t.Fatalf("bad weight %+v", w)
+				}
+			}
+		}
+	})
+}

@@ -1,0 +1,220 @@
+package interp
+
+import (
+	"math"
+	"math/bits"
+	"runtime"
+	"sort"
+	"sync"
+	"sync/atomic"
+
+	"drygrid/grid"
+)
+
+// Grid interpolates every cell centre of spec into a raster whose masked
+// cells hold grid.NoDataIndex. Rows are spread over Params.Workers
+// goroutines (0 = GOMAXPROCS); each cell is computed the same way whatever
+// the split, so the raster is byte-identical for any worker count.
+// progress, when not nil, is called after each row with the number of rows
+// done so far, from one goroutine at a time and with rowsDone increasing.
+//
+// Per row there is one rtree query for the stations in the latitude band
+// of the search radius; they come back in longitude order, and each cell
+// scans only the longitude window its search circle can reach.
+func (ip *Interpolator) Grid(spec grid.Spec, progress func(rowsDone, rows int)) *grid.Float32 {
+	if spec.Cols <= 0 || spec.Rows <= 0 {
+		return &grid.Float32{Spec: spec, NoData: grid.NoDataIndex}
+	}
+	out := grid.NewFloat32(spec, grid.NoDataIndex)
+	colLon := make([]float64, spec.Cols)
+	colCos := make([]float64, spec.Cols)
+	colSin := make([]float64, spec.Cols)
+	for c := range colLon {
+		lon, _ := spec.Center(c, 0)
+		colLon[c] = normLon(lon)
+		colSin[c], colCos[c] = math.Sincos(colLon[c] * degToRad)
+	}
+	workers := ip.p.Workers
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	workers = min(workers, spec.Rows)
+
+	var next atomic.Int64
+	var mu sync.Mutex
+	done := 0
+	var wg sync.WaitGroup
+	for range workers {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			w := ip.newRowWork()
+			for {
+				row := int(next.Add(1) - 1)
+				if row >= spec.Rows {
+					return
+				}
+				_, lat := spec.Center(0, row)
+				ip.gridRow(w, lat, spec.Res, colLon, colCos, colSin, out.Data[row*spec.Cols:(row+1)*spec.Cols])
+				if progress != nil {
+					mu.Lock()
+					done++
+					progress(done, spec.Rows)
+					mu.Unlock()
+				}
+			}
+		}()
+	}
+	wg.Wait()
+	return out
+}
+
+// rowWork is one worker's scratch space.
+type rowWork struct {
+	bits  []uint64
+	ranks []int32
+	// Candidates of the row in longitude order, three times: shifted by
+	// -360, as they are, and shifted by +360, so that any window narrower
+	// than 360 degrees is one contiguous range.
+	lon []float64
+	st  []rowStation
+	c   *cands
+}
+
+// rowStation is a candidate of a row: unit vector, value and rank.
+type rowStation struct {
+	x, y, z, v float64
+	rk         int32
+}
+
+func (ip *Interpolator) newRowWork() *rowWork {
+	return &rowWork{bits: make([]uint64, (len(ip.val)+63)/64), c: newCands(ip.k)}
+}
+
+// rowCandidates collects, through the rtree, the ranks of the stations whose
+// latitude is within the search radius of lat, in ascending rank (that is
+// longitude) order.
+func (ip *Interpolator) rowCandidates(w *rowWork, lat float64) []int32 {
+	lo, hi := lat-ip.thetaDeg-lonEps, lat+ip.thetaDeg+lonEps
+	ip.tree.Search([2]float64{-181, lo}, [2]float64{181, hi}, func(_, _ [2]float64, r int32) bool {
+		w.bits[r>>6] |= 1 << (uint(r) & 63)
+		return true
+	})
+	w.ranks = w.ranks[:0]
+	for i, word := range w.bits {
+		for word != 0 {
+			t := bits.TrailingZeros64(word)
+			w.ranks = append(w.ranks, int32(i*64+t))
+			word &= word - 1
+		}
+		w.bits[i] = 0
+	}
+	return w.ranks
+}
+
+// gridRow fills one row of cells at latitude lat; colStep is the longitude
+// step between cell centres.
+func (ip *Interpolator) gridRow(w *rowWork, lat, colStep float64, colLon, colCos, colSin []float64, dst []float32) {
+	ranks := ip.rowCandidates(w, lat)
+	m := len(ranks)
+	if m < ip.p.MinStations {
+		return // already no data
+	}
+	dl := lonHalfWidth(lat, ip.theta)
+	full := dl > 179
+	copies := 3
+	if full {
+		copies = 1
+	}
+	w.lon, w.st = w.lon[:0], w.st[:0]
+	for c := range copies {
+		shift := 360 * float64(c-1)
+		if full {
+			shift = 0
+		}
+		for _, r := range ranks {
+			w.lon = append(w.lon, ip.lon[r]+shift)
+			w.st = append(w.st, rowStation{ip.x[r], ip.y[r], ip.z[r], ip.val[r], r})
+		}
+	}
+	sp, cp := math.Sincos(lat * degToRad)
+	c2max := ip.c2max
+	c := w.c
+	c.reset(len(w.lon) + 1)
+	cs := c.cs
+	lons, st := w.lon, w.st
+	lo, hi := 0, len(lons)
+	prev := math.Inf(1)
+	k := ip.k
+	kth := -1.0                                                 // k-th chord squared at the previous cell, when it had k or more
+	delta := 2 * cp * math.Sin(colStep*degToRad/2) * (1 + 1e-9) // chord between neighbouring cell centres
+	for col := range dst {
+		l := colLon[col]
+		if !full {
+			a, b := l-dl-lonEps, l+dl+lonEps
+			if l < prev {
+				lo = sort.SearchFloat64s(lons, a)
+				hi = lo + sort.Search(len(lons)-lo, func(i int) bool { return lons[lo+i] > b })
+			} else {
+				for lo < len(lons) && lons[lo] < a {
+					lo++
+				}
+				for hi < len(lons) && lons[hi] <= b {
+					hi++
+				}
+			}
+			prev = l
+		}
+		cx, cy, cz := cp*colCos[col], cp*colSin[col], sp
+		// The k-th nearest of the previous cell, delta away, bounds this
+		// cell's k-th nearest by sqrt(kth) + delta (triangle inequality):
+		// when at least k candidates lie within that, the k nearest are
+		// among them and the rest need not be kept. Otherwise, scan again
+		// out to the radius.
+		win := st[lo:hi]
+		thr := c2max
+		if kth >= 0 {
+			u := math.Sqrt(kth) + delta
+			thr = min(c2max, u*u)
+		}
+		n := scanWindow(win, cs, cx, cy, cz, thr)
+		if n < k && thr < c2max {
+			n = scanWindow(win, cs, cx, cy, cz, c2max)
+		}
+		if n < ip.p.MinStations {
+			kth = -1
+			continue
+		}
+		kth = -1
+		if n >= k {
+			if n > k {
+				ip.selectK(cs[:n], k)
+				n = k
+			}
+			kth = cs[0].d2
+			for i := 1; i < k; i++ {
+				kth = max(kth, cs[i].d2)
+			}
+		}
+		if v, _, ok := ip.estimate(c, n, cx, cy, cz); ok {
+			dst[col] = float32(v)
+		}
+	}
+}
+
+// scanWindow puts in cs the stations of win within chord squared c2max of
+// the unit vector (cx, cy, cz) and returns their number; cs must be at
+// least as long as win. A function of its own, so that the compiler keeps
+// the loop in registers.
+func scanWindow(win []rowStation, cs []cand, cx, cy, cz, c2max float64) int {
+	n := 0
+	cs = cs[:len(win)+1]
+	for j := range win {
+		s := &win[j]
+		dx, dy, dz := cx-s.x, cy-s.y, cz-s.z
+		d2 := dx*dx + dy*dy + dz*dz
+		cs[n] = cand{d2, s.v, s.rk}
+		n += b2i(d2 <= c2max) // branch-free: the test is unpredictable
+	}
+	return n
+}

@@ -1,0 +1,177 @@
+// Package interp grids station values by inverse-distance weighting on the
+// sphere (Shepard 1968), exactly as DESIGN.md states: great-circle distance
+// on a sphere of radius EarthRadiusKm; the Neighbors nearest stations within
+// RadiusKm, ties broken by input order; weight d^-power; a cell with fewer
+// than MinStations stations within the radius is no data (this coverage rule
+// comes first); otherwise a cell closer than 1 m to a station takes that
+// station's value. Neighbours are found through a tidwall/rtree index.
+// Output never depends on the number of workers.
+package interp
+
+import (
+	"cmp"
+	"errors"
+	"fmt"
+	"math"
+	"slices"
+
+	"github.com/tidwall/rtree"
+)
+
+// Point is one station: longitude in degrees (any form: -180..180 or
+// 0..360), latitude in degrees, and its value Z in SPI units.
+type Point struct {
+	Lon, Lat, Z float64
+}
+
+// exactKm is the distance below which a cell takes a station's value (1 m).
+const exactKm = 0.001
+
+// lonEps widens longitude and latitude search windows (degrees) so that
+// rounding in the bounds never drops a station; the chord test decides.
+const lonEps = 1e-9
+
+// Interpolator holds the stations, ordered by longitude, and their rtree
+// index. It is built once by New and is safe for concurrent use.
+type Interpolator struct {
+	p        Params
+	theta    float64 // search radius as a central angle, radians
+	thetaDeg float64 // the same in degrees
+	c2max    float64 // chord length squared of the search radius (unit sphere)
+	fast     bool    // power 2 and c2max <= 0.01: the series path of estimate
+	k        int     // Neighbors, at most the number of stations (sizes the buffers)
+
+	// Stations in longitude order (rank r), ties by input order.
+	lon     []float64
+	x, y, z []float64 // unit vectors
+	val     []float64
+	id      []int32 // input index
+
+	tree rtree.RTreeG[int32] // (lon, lat) points -> rank
+}
+
+// New validates the parameters and the points and builds the index.
+func New(pts []Point, p Params) (*Interpolator, error) {
+	if err := p.Validate(); err != nil {
+		return nil, err
+	}
+	if len(pts) == 0 {
+		return nil, errors.New("interp: no stations to interpolate from")
+	}
+	if len(pts) > math.MaxInt32 {
+		return nil, fmt.Errorf("interp: %d stations are more than %d", len(pts), math.MaxInt32)
+	}
+	for i, q := range pts {
+		switch {
+		case math.IsNaN(q.Lon) || math.IsInf(q.Lon, 0):
+			return nil, fmt.Errorf("interp: station %d: longitude %g is not a finite number", i, q.Lon)
+		case math.IsNaN(q.Lat) || q.Lat < -90 || q.Lat > 90:
+			return nil, fmt.Errorf("interp: station %d: latitude %g is outside [-90, 90]", i, q.Lat)
+		case math.IsNaN(q.Z) || math.IsInf(q.Z, 0):
+			return nil, fmt.Errorf("interp: station %d: value %g is not a finite number", i, q.Z)
+		}
+	}
+	n := len(pts)
+	order := make([]int32, n)
+	nl := make([]float64, n)
+	for i := range pts {
+		order[i] = int32(i)
+		nl[i] = normLon(pts[i].Lon)
+	}
+	slices.SortFunc(order, func(a, b int32) int {
+		if c := cmp.Compare(nl[a], nl[b]); c != 0 {
+			return c
+		}
+		return cmp.Compare(a, b)
+	})
+	theta := p.RadiusKm / EarthRadiusKm
+	ch := 2 * math.Sin(theta/2)
+	ip := &Interpolator{
+		p: p, theta: theta, thetaDeg: theta / degToRad, c2max: ch * ch,
+		lon: make([]float64, n), x: make([]float64, n), y: make([]float64, n), z: make([]float64, n),
+		val: make([]float64, n), id: order,
+	}
+	ip.fast = p.Power == 2 && ip.c2max <= 0.01
+	ip.k = min(p.Neighbors, n)
+	for r, i := range order {
+		q := pts[i]
+		ip.lon[r] = nl[i]
+		ip.x[r], ip.y[r], ip.z[r] = unitVector(q.Lon, q.Lat)
+		ip.val[r] = q.Z
+		pt := [2]float64{nl[i], q.Lat}
+		ip.tree.Insert(pt, pt, int32(r))
+	}
+	return ip, nil
+}
+
+// Params are the settings the interpolator was built with.
+func (ip *Interpolator) Params() Params { return ip.p }
+
+// Len is the number of stations.
+func (ip *Interpolator) Len() int { return len(ip.val) }
+
+// At estimates the value at lon, lat (degrees, any longitude form). n is the
+// number of stations used (those within the radius, at most Neighbors);
+// ok is false when the point is masked (fewer than MinStations within the
+// radius) or the latitude is not in [-90, 90]. At the centre of a grid cell
+// it agrees with Grid up to the rounding of a sum taken in another order.
+func (ip *Interpolator) At(lon, lat float64) (z float64, n int, ok bool) {
+	if math.IsNaN(lat) || lat < -90 || lat > 90 || math.IsNaN(lon) || math.IsInf(lon, 0) {
+		return 0, 0, false
+	}
+	c := newCands(ip.k)
+	m := ip.selectAt(lon, lat, c)
+	cx, cy, cz := unitVector(lon, lat)
+	return ip.estimate(c, m, cx, cy, cz)
+}
+
+// selectAt puts in c the stations within the radius of lon, lat, found
+// through the rtree: the circle's bounding box, split in two where it
+// crosses the antimeridian, all longitudes where it holds a pole. It
+// returns their number.
+func (ip *Interpolator) selectAt(lon, lat float64, c *cands) int {
+	cx, cy, cz := unitVector(lon, lat)
+	c.reset(0)
+	offer := func(_, _ [2]float64, r int32) bool {
+		dx, dy, dz := cx-ip.x[r], cy-ip.y[r], cz-ip.z[r]
+		if d2 := dx*dx + dy*dy + dz*dz; d2 <= ip.c2max {
+			c.cs = append(c.cs, cand{d2, ip.val[r], r})
+		}
+		return true
+	}
+	lo, hi := lat-ip.thetaDeg-lonEps, lat+ip.thetaDeg+lonEps
+	dl := lonHalfWidth(lat, ip.theta)
+	l := normLon(lon)
+	a, b := l-dl-lonEps, l+dl+lonEps
+	switch {
+	case dl > 179:
+		ip.tree.Search([2]float64{-181, lo}, [2]float64{181, hi}, offer)
+	case a < -180:
+		ip.tree.Search([2]float64{a + 360, lo}, [2]float64{181, hi}, offer)
+		ip.tree.Search([2]float64{-181, lo}, [2]float64{b, hi}, offer)
+	case b >= 180:
+		ip.tree.Search([2]float64{a, lo}, [2]float64{181, hi}, offer)
+		ip.tree.Search([2]float64{-181, lo}, [2]float64{b - 360, hi}, offer)
+	default:
+		ip.tree.Search([2]float64{a, lo}, [2]float64{b, hi}, offer)
+	}
+	return len(c.cs)
+}
+
+// nearest lists the stations At would weight at lon, lat: input indices and
+// great-circle distances in km, nearest first, ties by input order (for
+// tests and diagnostics).
+func (ip *Interpolator) nearest(lon, lat float64) (ids []int, distKm []float64) {
+	c := newCands(ip.k)
+	m := ip.selectAt(lon, lat, c)
+	cx, cy, cz := unitVector(lon, lat)
+	kb := &c.kb
+	for i := range m {
+		kb.offer(c.cs[i].d2, ip.id[c.cs[i].rk], c.cs[i].rk)
+	}
+	for i := 0; i < kb.n; i++ {
+		ids = append(ids, int(kb.id[i]))
+		distKm = append(distKm, ip.distKm(kb.d2[i], kb.rk[i], cx, cy, cz))
+	}
+	return ids, distKm
+}

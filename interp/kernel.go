@@ -1,0 +1,265 @@
+package interp
+
+import "math"
+
+// kBest keeps the k smallest (chord squared, input index) pairs offered, in
+// ascending order: distance ties go to the station that came first in the
+// input, so the choice does not depend on the order of the offers.
+type kBest struct {
+	k, n int
+	d2   []float64
+	id   []int32 // input index (tie-break)
+	rk   []int32 // rank in the interpolator's arrays
+}
+
+func newKBest(k int) kBest {
+	return kBest{k: k, d2: make([]float64, k), id: make([]int32, k), rk: make([]int32, k)}
+}
+
+// offer inserts a candidate if it is among the k best so far.
+func (b *kBest) offer(d2 float64, id, rk int32) {
+	i := b.n
+	if i == b.k {
+		last := i - 1
+		if d2 > b.d2[last] || (d2 == b.d2[last] && id > b.id[last]) {
+			return
+		}
+		i = last
+	} else {
+		b.n++
+	}
+	for i > 0 && (b.d2[i-1] > d2 || (b.d2[i-1] == d2 && b.id[i-1] > id)) {
+		b.d2[i], b.id[i], b.rk[i] = b.d2[i-1], b.id[i-1], b.rk[i-1]
+		i--
+	}
+	b.d2[i], b.id[i], b.rk[i] = d2, id, rk
+}
+
+// cand is a station within the radius of a cell: chord squared, value and
+// rank.
+type cand struct {
+	d2, v float64
+	rk    int32
+}
+
+// cands are the candidates of one cell, in the order they were found.
+type cands struct {
+	cs []cand
+	kb kBest
+}
+
+func newCands(k int) *cands { return &cands{kb: newKBest(k)} }
+
+// reset empties the list and makes room for up to n candidates.
+func (c *cands) reset(n int) {
+	if cap(c.cs) < n {
+		m := max(n, 2*cap(c.cs)) // grow geometrically: rows ask for a little more each
+		c.cs = make([]cand, m)
+	}
+	c.cs = c.cs[:n]
+}
+
+// before orders candidates by chord squared, then input index.
+func (ip *Interpolator) before(a, b *cand) bool {
+	return a.d2 < b.d2 || (a.d2 == b.d2 && ip.id[a.rk] < ip.id[b.rk])
+}
+
+// selectK keeps in cs[:k] the k smallest candidates (by chord squared, then
+// input index), in an order that depends only on the input: it drops the
+// largest n-k times, or picks the smallest k times, whichever takes fewer
+// passes.
+func (ip *Interpolator) selectK(cs []cand, k int) {
+	n := len(cs)
+	if n-k <= k {
+		for m := n; m > k; m-- {
+			// The largest chord, then among equal ones the last in the input.
+			top := cs[0].d2
+			for i := 1; i < m; i++ {
+				top = max(top, cs[i].d2)
+			}
+			w := -1
+			for i := range m {
+				if cs[i].d2 == top && (w < 0 || ip.id[cs[i].rk] > ip.id[cs[w].rk]) {
+					w = i
+				}
+			}
+			cs[w] = cs[m-1]
+		}
+		return
+	}
+	for m := 0; m < k; m++ {
+		b := m
+		for i := m + 1; i < n; i++ {
+			if ip.before(&cs[i], &cs[b]) {
+				b = i
+			}
+		}
+		cs[m], cs[b] = cs[b], cs[m]
+	}
+}
+
+// b2i is 1 for true and 0 for false; the compiler makes it a SETcc, so
+// that counting with it takes no branch.
+func b2i(b bool) int {
+	if b {
+		return 1
+	}
+	return 0
+}
+
+// distKm turns a chord squared to station rank rk into a great-circle
+// distance from the unit vector (cx, cy, cz).
+func (ip *Interpolator) distKm(c2 float64, rk int32, cx, cy, cz float64) float64 {
+	s2 := -1.0
+	if c2 > 2 { // beyond 90 degrees: use the chord to the antipode
+		sx, sy, sz := cx+ip.x[rk], cy+ip.y[rk], cz+ip.z[rk]
+		s2 = sx*sx + sy*sy + sz*sz
+	}
+	return chordAngle(c2, s2) * EarthRadiusKm
+}
+
+// angleSq is the central angle squared (radians^2) for chord squared c2 to
+// station rank rk: 4 asin^2(c/2) from its Maclaurin series in t = c^2/4
+// (asin^2 x = sum over n >= 1 of (2x)^2n / (2 n^2 C(2n, n)), a standard
+// series quoted from memory and checked against math.Asin in the tests; to
+// t^7, below 1e-17 relative for c <= 0.1, that is up to 637 km), the exact
+// chord angle beyond.
+func (ip *Interpolator) angleSq(c2 float64, rk int32, cx, cy, cz float64) float64 {
+	if c2 <= 0.01 {
+		t := c2 / 4
+		return 4 * t * (1 + t*(1.0/3+t*(8.0/45+t*(4.0/35+t*(128.0/1575+t*(128.0/2079+t*(1024.0/21021)))))))
+	}
+	a := ip.distKm(c2, rk, cx, cy, cz) / EarthRadiusKm
+	return a * a
+}
+
+// exactChordSq is the chord squared of 1 m on the unit sphere: a station
+// closer than that gives its value.
+var exactChordSq = func() float64 {
+	c := 2 * math.Sin(exactKm/EarthRadiusKm/2)
+	return c * c
+}()
+
+// asinSqSeries is 4 asin^2(c/2) / c^2 as a polynomial in t = c^2/4 (see
+// angleSq), for c <= 0.1.
+func asinSqSeries(t float64) float64 {
+	return 1 + t*(1.0/3+t*(8.0/45+t*(4.0/35+t*(128.0/1575+t*(128.0/2079+t*(1024.0/21021))))))
+}
+
+// shortSeriesMaxT is the largest t = c^2/4 for which asinSqSeries4 is as
+// exact as asinSqSeries: the first omitted term, 128/2079 t^5, stays below
+// 1e-17 (a radius of up to about 337 km).
+const shortSeriesMaxT = 7e-4
+
+// asinSqSeries4 is asinSqSeries cut after t^4, for t <= shortSeriesMaxT.
+func asinSqSeries4(t float64) float64 {
+	return 1 + t*(1.0/3+t*(8.0/45+t*(4.0/35+t*(128.0/1575))))
+}
+
+// estimate applies the coverage rule, the k-nearest choice, the 1 m rule and
+// Shepard's (1968) weights to the first n candidates in c.
+func (ip *Interpolator) estimate(c *cands, n int, cx, cy, cz float64) (float64, int, bool) {
+	if n < ip.p.MinStations {
+		return 0, n, false
+	}
+	cs := c.cs[:n]
+	if n > ip.k {
+		ip.selectK(cs, ip.k)
+		n = ip.k
+		cs = cs[:n]
+	}
+	lo, hi := math.Inf(1), math.Inf(-1)
+	var sw, swz float64
+	switch {
+	case ip.fast && ip.c2max/4 <= shortSeriesMaxT: // power 2, radius up to 337 km
+		for i := range cs {
+			x := &cs[i]
+			if x.d2 < exactChordSq {
+				return ip.exactValue(cs), n, true
+			}
+			w := 1 / (x.d2 * asinSqSeries4(x.d2/4))
+			sw += w
+			swz += w * x.v
+			lo, hi = min(lo, x.v), max(hi, x.v)
+		}
+	case ip.fast: // power 2, radius up to 637 km: no square roots, no arcsines
+		for i := range cs {
+			x := &cs[i]
+			if x.d2 < exactChordSq {
+				return ip.exactValue(cs), n, true
+			}
+			w := 1 / (x.d2 * asinSqSeries(x.d2/4))
+			sw += w
+			swz += w * x.v
+			lo, hi = min(lo, x.v), max(hi, x.v)
+		}
+	default:
+		a0 := math.Inf(1)
+		ang := c.kb.d2[:n]
+		for i := range cs {
+			x := &cs[i]
+			if x.d2 < exactChordSq {
+				return ip.exactValue(cs), n, true
+			}
+			ang[i] = ip.angleSq(x.d2, x.rk, cx, cy, cz)
+			a0 = min(a0, ang[i])
+		}
+		p := ip.p.Power
+		for i := range cs {
+			v := cs[i].v
+			w := relWeightSq(a0/ang[i], p)
+			sw += w
+			swz += w * v
+			lo, hi = min(lo, v), max(hi, v)
+		}
+	}
+	// The exact value is a convex combination of the station values; the
+	// clamp only removes rounding beyond them (and makes a constant field
+	// give that constant exactly).
+	return min(max(swz/sw, lo), hi), n, true
+}
+
+// exactValue is the value of the nearest candidate, ties to the first in
+// the input: the 1 m rule.
+func (ip *Interpolator) exactValue(cs []cand) float64 {
+	best := 0
+	for i := 1; i < len(cs); i++ {
+		if ip.before(&cs[i], &cs[best]) {
+			best = i
+		}
+	}
+	return cs[best].v
+}
+
+// relWeightSq is (d_nearest/d)^p from q = (d_nearest/d)^2 in (0, 1]:
+// Shepard's weight d^-p scaled by d_nearest^p, which cancels in the weighted
+// mean and keeps large powers from overflowing.
+func relWeightSq(q, p float64) float64 {
+	switch p {
+	case 1:
+		return math.Sqrt(q)
+	case 2:
+		return q
+	case 3:
+		return q * math.Sqrt(q)
+	case 4:
+		return q * q
+	}
+	return math.Pow(q, p/2)
+}
+
+// idwWeights are the normalised Shepard (1968) weights d_i^-p / sum d_j^-p
+// for distances none below 1 m, nearest first, computed as estimate does.
+func idwWeights(distKm []float64, p float64) []float64 {
+	w := make([]float64, len(distKm))
+	var s float64
+	for i, d := range distKm {
+		r := distKm[0] / d
+		w[i] = relWeightSq(r*r, p)
+		s += w[i]
+	}
+	for i := range w {
+		w[i] /= s
+	}
+	return w
+}

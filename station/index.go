@@ -1,0 +1,451 @@
+package station
+
+import (
+	"bufio"
+	"encoding/csv"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"path/filepath"
+	"runtime"
+	"sort"
+	"strconv"
+	"strings"
+	"sync"
+	"sync/atomic"
+)
+
+// Distributions of `drygrid index --distribution`.
+const (
+	DistGamma     = "gamma"
+	DistEmpirical = "empirical"
+)
+
+// DefaultMinYears is the default least number of reference years.
+const DefaultMinYears = 30
+
+// IndexColumns is the header of the table WriteIndexCSV writes.
+var IndexColumns = []string{"station", "latitude", "longitude", "year", "total", "years", "zeros",
+	"percentile", "spi", "pct_of_median", "gamma_shape", "gamma_scale", "fit_ok", "note"}
+
+// IndexOptions controls ComputeIndex.
+type IndexOptions struct {
+	Year             int    // target year; 0 = the latest year with a total
+	RefStart, RefEnd int    // reference period, inclusive; 0 = open at that end
+	MinYears         int    // least number of reference totals; 0 = DefaultMinYears
+	Distribution     string // DistGamma (default when "") or DistEmpirical
+	TotalColumn      string // exact total column name; "" = by TotalAliases
+	Workers          int    // parallel workers; 0 = GOMAXPROCS (output never depends on it)
+}
+
+// Validate checks the options on their own (before any file is read).
+func (o IndexOptions) Validate() error {
+	if o.Year != 0 && (o.Year < MinTotalYear || o.Year > MaxTotalYear) {
+		return fmt.Errorf("year %d is not from %d to %d", o.Year, MinTotalYear, MaxTotalYear)
+	}
+	for _, y := range []int{o.RefStart, o.RefEnd} {
+		if y != 0 && (y < MinTotalYear || y > MaxTotalYear) {
+			return fmt.Errorf("reference year %d is not from %d to %d", y, MinTotalYear, MaxTotalYear)
+		}
+	}
+	if o.RefStart != 0 && o.RefEnd != 0 && o.RefStart > o.RefEnd {
+		return fmt.Errorf("reference period starts (%d) after it ends (%d)", o.RefStart, o.RefEnd)
+	}
+	if o.MinYears < 0 {
+		return fmt.Errorf("min-years %d is negative", o.MinYears)
+	}
+	switch o.Distribution {
+	case "", DistGamma, DistEmpirical:
+	default:
+		return fmt.Errorf("distribution %q is not %s or %s", o.Distribution, DistGamma, DistEmpirical)
+	}
+	return nil
+}
+
+func (o IndexOptions) minYears() int {
+	if o.MinYears <= 0 {
+		return DefaultMinYears
+	}
+	return o.MinYears
+}
+
+// IndexRow is one station's line of the index table. Float fields that do
+// not apply are NaN (written as empty cells).
+type IndexRow struct {
+	Station  string
+	Lat, Lon float64
+	Year     int
+	Total    float64 // the target-year total; NaN when missing
+	HasTotal bool
+	Years    int // non-missing totals in the reference period
+	Zeros    int // of which zero
+
+	Percentile  float64 // mid-rank percentile (0-100) of Total in the reference sample
+	SPI         float64 // by the chosen distribution, within [-SPILimit, SPILimit]
+	PctOfMedian float64 // 100 x Total / median of the reference sample
+	HasIndex    bool    // Percentile and SPI are both present
+
+	Shape, Scale float64 // gamma fitted to the non-zero reference totals
+	Fitted       bool
+	AD           float64 // Anderson-Darling A^2 of the fit; NaN when untested
+	FitTested    bool    // enough non-zero totals to test the fit (ADMinCount)
+	FitOK        bool    // fitted, and tested without rejection at 5 %
+	Capped       bool    // SPI was beyond +/-SPILimit and was held there
+
+	Note string // why values are missing, and fit problems; "; "-separated
+}
+
+// IndexResult is the index table of a run.
+type IndexResult struct {
+	Year             int
+	RefStart, RefEnd int // as given (0 = open)
+	MinYears         int
+	Distribution     string
+	Rows             []IndexRow // in station-table order
+	TotalsRows       int        // data rows read from the totals table
+	SkippedUnknown   int        // totals rows of stations missing from the station table
+	Warnings         []string
+}
+
+// ComputeIndex reads the station table and the window-totals table and
+// computes each station's percentile and SPI for the target year
+// (DESIGN.md, `index`).
+func ComputeIndex(stationsPath, totalsPath string, opt IndexOptions) (*IndexResult, error) {
+	st, err := OpenTable(stationsPath)
+	if err != nil {
+		return nil, err
+	}
+	defer st.Close()
+	tt, err := OpenTable(totalsPath)
+	if err != nil {
+		return nil, err
+	}
+	defer tt.Close()
+	return idxCompute(st, tt, opt)
+}
+
+// ComputeIndexReaders is ComputeIndex on readers (tests, the demo); the
+// names are used in error messages.
+func ComputeIndexReaders(stationsName string, stations io.Reader, totalsName string, totals io.Reader, opt IndexOptions) (*IndexResult, error) {
+	st, err := NewTable(stationsName, stations)
+	if err != nil {
+		return nil, err
+	}
+	defer st.Close()
+	tt, err := NewTable(totalsName, totals)
+	if err != nil {
+		return nil, err
+	}
+	defer tt.Close()
+	return idxCompute(st, tt, opt)
+}
+
+func idxCompute(st, tt *Table, opt IndexOptions) (*IndexResult, error) {
+	if err := opt.Validate(); err != nil {
+		return nil, err
+	}
+	sites, byID, err := idxReadSites(st)
+	if err != nil {
+		return nil, err
+	}
+	ids := make([]string, len(sites))
+	for i, s := range sites {
+		ids[i] = s.ID
+	}
+	tot, err := idxReadTotals(tt, byID, ids, opt.TotalColumn)
+	if err != nil {
+		return nil, err
+	}
+	year := opt.Year
+	if year == 0 {
+		year = tot.latest
+		if year == 0 {
+			return nil, fmt.Errorf("%s: no total for any station of %s", tt.Path, st.Path)
+		}
+	}
+	res := &IndexResult{
+		Year: year, RefStart: opt.RefStart, RefEnd: opt.RefEnd, MinYears: opt.minYears(),
+		Distribution: opt.Distribution, TotalsRows: tot.rows, SkippedUnknown: tot.skippedUnknown,
+	}
+	if res.Distribution == "" {
+		res.Distribution = DistGamma
+	}
+	if tot.skippedUnknown > 0 {
+		plural := "s"
+		if tot.unknownIDs == 1 {
+			plural = ""
+		}
+		res.Warnings = append(res.Warnings, fmt.Sprintf("%s: skipped %d rows of %d station%s missing from %s (first: %s)",
+			tt.Path, tot.skippedUnknown, tot.unknownIDs, plural, st.Path, tot.firstUnknown))
+	}
+	res.Rows = idxComputeAll(sites, tot.series, year, opt)
+	return res, nil
+}
+
+// idxComputeAll computes every station's row with a pool of workers; each
+// row depends only on its own station, so the result is the same for any
+// number of workers.
+func idxComputeAll(sites []idxSite, series [][]idxEntry, year int, opt IndexOptions) []IndexRow {
+	rows := make([]IndexRow, len(sites))
+	workers := opt.Workers
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	const chunk = 256
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for w := 0; w < workers; w++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			var scratch []float64
+			for {
+				lo := int(next.Add(chunk)) - chunk
+				if lo >= len(sites) {
+					return
+				}
+				hi := min(lo+chunk, len(sites))
+				for i := lo; i < hi; i++ {
+					rows[i], scratch = idxStationRow(sites[i], series[i], year, opt, scratch)
+				}
+			}
+		}()
+	}
+	wg.Wait()
+	return rows
+}
+
+// idxStationRow computes one station's row; scratch is reused between calls.
+func idxStationRow(site idxSite, s []idxEntry, year int, opt IndexOptions, scratch []float64) (IndexRow, []float64) {
+	nan := math.NaN()
+	r := IndexRow{Station: site.ID, Lat: site.Lat, Lon: site.Lon, Year: year, Total: nan,
+		Percentile: nan, SPI: nan, PctOfMedian: nan, Shape: nan, Scale: nan, AD: nan}
+	ref := scratch[:0]
+	targetInRef := (opt.RefStart == 0 || year >= opt.RefStart) && (opt.RefEnd == 0 || year <= opt.RefEnd)
+	for _, e := range s {
+		y := int(e.year)
+		if y == year && !math.IsNaN(e.total) {
+			r.Total, r.HasTotal = e.total, true
+		}
+		if math.IsNaN(e.total) || (opt.RefStart != 0 && y < opt.RefStart) || (opt.RefEnd != 0 && y > opt.RefEnd) {
+			continue
+		}
+		ref = append(ref, e.total)
+	}
+	sort.Float64s(ref)
+	r.Years = len(ref)
+	for r.Zeros < len(ref) && ref[r.Zeros] == 0 {
+		r.Zeros++
+	}
+	var notes []string
+	minYears := opt.minYears()
+	if !r.HasTotal {
+		notes = append(notes, fmt.Sprintf("no total for %d", year))
+	}
+	if r.Years < minYears {
+		notes = append(notes, fmt.Sprintf("only %d reference years (needs %d)", r.Years, minYears))
+	}
+	if len(notes) > 0 {
+		r.Note = strings.Join(notes, "; ")
+		return r, ref
+	}
+	x := r.Total
+	below, equal := pctSortedCount(ref, x)
+	n := float64(len(ref))
+	r.Percentile = 100 * (float64(below) + float64(equal)/2) / n
+	if med := pctSortedMedian(ref); med > 0 {
+		r.PctOfMedian = 100 * x / med
+	} else {
+		notes = append(notes, "reference median is 0")
+	}
+
+	shape, scale, err := GammaFit(ref[r.Zeros:])
+	if err != nil {
+		notes = append(notes, "gamma not fitted: "+err.Error())
+	} else {
+		r.Shape, r.Scale, r.Fitted = shape, scale, true
+		a2, ok, tested := gofTest(ref[r.Zeros:], shape, scale)
+		r.AD, r.FitTested, r.FitOK = a2, tested, ok && tested
+		switch {
+		case !tested:
+			notes = append(notes, fmt.Sprintf("%d non-zero totals are too few to test the gamma fit", len(ref)-r.Zeros))
+		case !ok:
+			notes = append(notes, fmt.Sprintf("gamma rejected by Anderson-Darling at 5 %% (A2 %.3f > %.3f)", a2, ADCritical5(shape)))
+		}
+	}
+	switch opt.Distribution {
+	case DistEmpirical:
+		// Gringorten position of x among the reference totals, x counted
+		// once more when its year lies outside the reference period.
+		if targetInRef {
+			r.SPI = idxGringortenSorted(below, equal, len(ref))
+		} else {
+			r.SPI = idxGringortenSorted(below, equal+1, len(ref)+1)
+		}
+	default:
+		if r.Fitted {
+			r.SPI = SPI(x, shape, scale, float64(r.Zeros)/n)
+		}
+	}
+	if !math.IsNaN(r.SPI) {
+		if math.Abs(r.SPI) > SPILimit {
+			notes = append(notes, fmt.Sprintf("spi %.3f held at %+d", r.SPI, int(math.Copysign(SPILimit, r.SPI))))
+			r.SPI = math.Copysign(SPILimit, r.SPI)
+			r.Capped = true
+		}
+		r.HasIndex = true
+	}
+	r.Note = strings.Join(notes, "; ")
+	return r, ref
+}
+
+// idxGringortenSorted is GringortenSPI from the counts below and equal to
+// x (equal >= 1) in a sample of n.
+func idxGringortenSorted(below, equal, n int) float64 {
+	i := float64(below) + float64(equal+1)/2
+	p := (i - 0.44) / (float64(n) + 0.12)
+	return spiQuantile(p, 1-p)
+}
+
+// IndexSummary counts the stations of an index table by outcome.
+type IndexSummary struct {
+	Stations, WithIndex        int
+	NoTotal, TooFewYears       int // without index, by reason (a station may have both)
+	FitFailed, FitRejected     int // gamma not fitted; rejected by Anderson-Darling
+	FitUntested, Capped        int
+	NoIndexOther               int // without index for another reason (gamma not fitted)
+	SkippedUnknown             int
+	Year                       int
+	Distribution               string
+	RefStart, RefEnd, MinYears int
+}
+
+// Summary counts the rows by outcome for a closing report.
+func (r *IndexResult) Summary() IndexSummary {
+	s := IndexSummary{Stations: len(r.Rows), SkippedUnknown: r.SkippedUnknown, Year: r.Year,
+		Distribution: r.Distribution, RefStart: r.RefStart, RefEnd: r.RefEnd, MinYears: r.MinYears}
+	for _, row := range r.Rows {
+		tooFew := row.Years < r.MinYears
+		switch {
+		case row.HasIndex:
+			s.WithIndex++
+		case !row.HasTotal || tooFew:
+		default:
+			s.NoIndexOther++
+		}
+		if !row.HasTotal {
+			s.NoTotal++
+		}
+		if tooFew {
+			s.TooFewYears++
+		}
+		if row.HasTotal && !tooFew {
+			switch {
+			case !row.Fitted:
+				s.FitFailed++
+			case !row.FitTested:
+				s.FitUntested++
+			case !row.FitOK:
+				s.FitRejected++
+			}
+		}
+		if row.Capped {
+			s.Capped++
+		}
+	}
+	return s
+}
+
+// WriteIndexCSV writes the index table (IndexColumns) with fixed decimals:
+// coordinates 6, total 2, percentile 2, spi 3, pct_of_median 1, gamma shape
+// and scale 4. Missing values are empty cells; fit_ok is true, false, or
+// empty when the gamma was not fitted or could not be tested.
+func WriteIndexCSV(w io.Writer, res *IndexResult) error {
+	cw := csv.NewWriter(w)
+	if err := cw.Write(IndexColumns); err != nil {
+		return err
+	}
+	f := func(v float64, dec int) string {
+		if math.IsNaN(v) {
+			return ""
+		}
+		s := strconv.FormatFloat(v, 'f', dec, 64)
+		if strings.TrimLeft(s, "-0.") == "" {
+			s = strings.TrimPrefix(s, "-") // no "-0.000"
+		}
+		return s
+	}
+	rec := make([]string, len(IndexColumns))
+	for _, r := range res.Rows {
+		fit := ""
+		if r.Fitted && r.FitTested {
+			fit = strconv.FormatBool(r.FitOK)
+		}
+		rec[0] = r.Station
+		rec[1] = f(r.Lat, 6)
+		rec[2] = f(r.Lon, 6)
+		rec[3] = strconv.Itoa(r.Year)
+		rec[4] = f(r.Total, 2)
+		rec[5] = strconv.Itoa(r.Years)
+		rec[6] = strconv.Itoa(r.Zeros)
+		rec[7] = f(r.Percentile, 2)
+		rec[8] = f(r.SPI, 3)
+		rec[9] = f(r.PctOfMedian, 1)
+		rec[10] = f(r.Shape, 4)
+		rec[11] = f(r.Scale, 4)
+		rec[12] = fit
+		rec[13] = r.Note
+		if err := cw.Write(rec); err != nil {
+			return err
+		}
+	}
+	cw.Flush()
+	return cw.Error()
+}
+
+// WriteIndexFile writes the index table to path atomically: to a temporary
+// file in the same directory, renamed over path only when complete, so a
+// failed run leaves an earlier file untouched.
+func WriteIndexFile(path string, res *IndexResult) error {
+	return idxWriteFileAtomic(path, func(w *bufio.Writer) error { return WriteIndexCSV(w, res) })
+}
+
+// idxWriteFileAtomic writes path through a temporary file and a rename.
+func idxWriteFileAtomic(path string, write func(w *bufio.Writer) error) (err error) {
+	dir, base := filepath.Split(path)
+	if dir == "" {
+		dir = "."
+	}
+	f, err := os.CreateTemp(dir, "."+base+".tmp-*")
+	if err != nil {
+		return fmt.Errorf("writing %s: %w", path, err)
+	}
+	tmp := f.Name()
+	defer func() {
+		if err != nil {
+			f.Close()
+			os.Remove(tmp)
+		}
+	}()
+	bw := bufio.NewWriterSize(f, 64<<10)
+	if err = write(bw); err != nil {
+		return fmt.Errorf("writing %s: %w", path, err)
+	}
+	if err = bw.Flush(); err != nil {
+		return fmt.Errorf("writing %s: %w", path, err)
+	}
+	if err = f.Sync(); err != nil {
+		return fmt.Errorf("writing %s: %w", path, err)
+	}
+	if err = f.Chmod(0o644); err != nil {
+		return fmt.Errorf("writing %s: %w", path, err)
+	}
+	if err = f.Close(); err != nil {
+		return fmt.Errorf("writing %s: %w", path, err)
+	}
+	if err = os.Rename(tmp, path); err != nil {
+		return fmt.Errorf("writing %s: %w", path, err)
+	}
+	return nil
+}

@@ -1,0 +1,325 @@
+// Package station reads station tables (values, window totals, station
+// lists), validates them and computes per-station percentile and SPI. It
+// also holds drygrid's invented demo scenario.
+package station
+
+import (
+	"bufio"
+	"bytes"
+	"compress/gzip"
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"strconv"
+	"strings"
+	"unicode/utf8"
+)
+
+// tableSniffLimit caps how many bytes are read ahead to find the header line
+// (and so the delimiter); a header longer than this is an error rather than
+// a reason to load a whole file into memory.
+const tableSniffLimit = 1 << 20
+
+// Table streams a CSV or TSV table (delimiter sniffed from the header line:
+// tab, comma or semicolon), optionally gzip-compressed (detected by magic
+// bytes, not by name), tolerant of a UTF-8 BOM and CRLF, with a header row.
+// Lines are counted 1-based as in the file (header = line 1), so errors can
+// name them.
+type Table struct {
+	// Path is the name used in error messages (the file path as given).
+	Path string
+	// Header holds the trimmed header fields.
+	Header []string
+	// Delim is the sniffed field delimiter: '\t', ',' or ';'.
+	Delim rune
+	// HeaderLine is the line of the header row (1 unless blank lines precede it).
+	HeaderLine int
+
+	csv     *csv.Reader
+	closers []io.Closer
+	last    int // line of the last record returned
+}
+
+// OpenTable opens the file at path and reads its header. Errors name the file.
+func OpenTable(path string) (*Table, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, fmt.Errorf("table %s: %w", path, err)
+	}
+	t, err := newTable(path, f, f)
+	if err != nil {
+		f.Close()
+		return nil, err
+	}
+	return t, nil
+}
+
+// NewTable reads a table from r (for tests and fuzzing); name is used in
+// error messages. The caller closes r if it needs closing; Close releases only
+// what NewTable opened (a gzip reader).
+func NewTable(name string, r io.Reader) (*Table, error) {
+	return newTable(name, r, nil)
+}
+
+func newTable(name string, r io.Reader, c io.Closer) (*Table, error) {
+	t := &Table{Path: name}
+	if c != nil {
+		t.closers = append(t.closers, c)
+	}
+	br := bufio.NewReaderSize(r, 64<<10)
+	if magic, _ := br.Peek(2); len(magic) == 2 && magic[0] == 0x1f && magic[1] == 0x8b {
+		zr, err := gzip.NewReader(br)
+		if err != nil {
+			return nil, fmt.Errorf("%s: reading gzip header: %w", name, err)
+		}
+		t.closers = append([]io.Closer{zr}, t.closers...)
+		br = bufio.NewReaderSize(zr, 64<<10)
+	}
+	if bom, _ := br.Peek(3); bytes.Equal(bom, []byte{0xef, 0xbb, 0xbf}) {
+		br.Discard(3)
+	} else if len(bom) >= 2 && (bom[0] == 0xff && bom[1] == 0xfe || bom[0] == 0xfe && bom[1] == 0xff) {
+		return nil, fmt.Errorf("%s line 1: the file is UTF-16; save it as UTF-8", name)
+	}
+	// Read physical lines up to the first non-blank one, to sniff the
+	// delimiter; they are replayed to the CSV reader so its line numbers stay
+	// those of the file.
+	var prefix []byte
+	var headerRaw []byte
+	for {
+		line, err := tableReadLine(br, tableSniffLimit-len(prefix))
+		prefix = append(prefix, line...)
+		if len(bytes.TrimSpace(line)) > 0 {
+			headerRaw = line
+			break
+		}
+		if err == errTableLineTooLong {
+			return nil, fmt.Errorf("%s: no header line within the first %d bytes", name, tableSniffLimit)
+		}
+		if err != nil {
+			if err == io.EOF {
+				return nil, fmt.Errorf("%s: empty table, no header row", name)
+			}
+			return nil, fmt.Errorf("%s: reading header: %w", name, err)
+		}
+	}
+	if bytes.IndexByte(bytes.TrimRight(headerRaw, "\r\n"), '\r') >= 0 {
+		return nil, fmt.Errorf("%s line 1: lines end in a bare carriage return (CR); save the file with LF or CRLF line endings", name)
+	}
+	t.Delim = tableSniff(headerRaw)
+	cr := csv.NewReader(io.MultiReader(bytes.NewReader(prefix), br))
+	cr.Comma = t.Delim
+	cr.FieldsPerRecord = -1 // checked here, for a clearer message
+	cr.ReuseRecord = false
+	t.csv = cr
+	hdr, err := cr.Read()
+	if err != nil {
+		return nil, t.wrapErr(err, 1)
+	}
+	t.HeaderLine, _ = cr.FieldPos(0)
+	for i, h := range hdr {
+		if !utf8.ValidString(h) {
+			return nil, fmt.Errorf("%s line %d column %d: header is not valid UTF-8", name, t.HeaderLine, i+1)
+		}
+		hdr[i] = strings.TrimSpace(h)
+	}
+	t.Header = hdr
+	t.last = t.HeaderLine
+	return t, nil
+}
+
+var errTableLineTooLong = errors.New("line too long")
+
+// tableReadLine reads one physical line (with its newline) of at most limit
+// bytes.
+func tableReadLine(br *bufio.Reader, limit int) ([]byte, error) {
+	var out []byte
+	for {
+		chunk, err := br.ReadSlice('\n')
+		out = append(out, chunk...)
+		if len(out) > limit {
+			return out[:limit], errTableLineTooLong
+		}
+		if err == bufio.ErrBufferFull {
+			continue
+		}
+		return out, err
+	}
+}
+
+// tableSniff picks the delimiter that occurs most often in the header line
+// outside double quotes: tab, then comma, then semicolon on ties; comma when
+// none occurs (a one-column table).
+func tableSniff(line []byte) rune {
+	var tabs, commas, semis int
+	inQuote := false
+	for _, b := range line {
+		switch b {
+		case '"':
+			inQuote = !inQuote
+		case '\t':
+			if !inQuote {
+				tabs++
+			}
+		case ',':
+			if !inQuote {
+				commas++
+			}
+		case ';':
+			if !inQuote {
+				semis++
+			}
+		}
+	}
+	switch {
+	case tabs > 0 && tabs >= commas && tabs >= semis:
+		return '\t'
+	case commas > 0 && commas >= semis:
+		return ','
+	case semis > 0:
+		return ';'
+	}
+	return ','
+}
+
+// Column returns the index of the first header field matching any of the
+// aliases (case-insensitive, trimmed), or -1 if none does.
+func (t *Table) Column(aliases ...string) int {
+	for i, h := range t.Header {
+		for _, a := range aliases {
+			if strings.EqualFold(h, strings.TrimSpace(a)) {
+				return i
+			}
+		}
+	}
+	return -1
+}
+
+// ColumnName returns the header name of column index i (0-based), or "" when
+// i is out of range.
+func (t *Table) ColumnName(i int) string {
+	if i < 0 || i >= len(t.Header) {
+		return ""
+	}
+	return t.Header[i]
+}
+
+// FieldError formats an error at a field: "PATH line L column C (NAME): MSG",
+// with col the 0-based column index (shown 1-based). A negative col leaves the
+// column out.
+func (t *Table) FieldError(line, col int, format string, args ...any) error {
+	msg := fmt.Sprintf(format, args...)
+	if col < 0 {
+		return fmt.Errorf("%s line %d: %s", t.Path, line, msg)
+	}
+	return fmt.Errorf("%s line %d column %d (%s): %s", t.Path, line, col+1, t.ColumnName(col), msg)
+}
+
+// Next returns the next record (fields trimmed) and the file line it starts
+// on. Blank lines, and lines whose fields are all empty, are skipped. At the
+// end it returns io.EOF. Errors name the file and line (and column when
+// known).
+func (t *Table) Next() (rec []string, line int, err error) {
+	if t.csv == nil {
+		return nil, 0, io.EOF
+	}
+	for {
+		rec, err := t.csv.Read()
+		if err != nil {
+			if err == io.EOF {
+				return nil, 0, io.EOF
+			}
+			return nil, 0, t.wrapErr(err, t.last+1)
+		}
+		line, _ := t.csv.FieldPos(0)
+		t.last = line
+		blank := true
+		for i, f := range rec {
+			if !utf8.ValidString(f) {
+				return nil, line, t.FieldError(line, tableCol(i, len(t.Header)), "not valid UTF-8 text")
+			}
+			rec[i] = strings.TrimSpace(f)
+			if rec[i] != "" {
+				blank = false
+			}
+		}
+		if blank {
+			continue
+		}
+		if len(rec) != len(t.Header) {
+			return nil, line, fmt.Errorf("%s line %d: %d fields, but the header (line %d) has %d", t.Path, line, len(rec), t.HeaderLine, len(t.Header))
+		}
+		return rec, line, nil
+	}
+}
+
+// tableCol returns i when it is a header column, else -1 (no column name).
+func tableCol(i, n int) int {
+	if i < n {
+		return i
+	}
+	return -1
+}
+
+// wrapErr turns a CSV or read error into one naming the file and line.
+func (t *Table) wrapErr(err error, line int) error {
+	var pe *csv.ParseError
+	if errors.As(err, &pe) {
+		return fmt.Errorf("%s line %d (byte %d of the line): %w", t.Path, pe.Line, pe.Column, pe.Err)
+	}
+	if errors.Is(err, io.ErrUnexpectedEOF) || errors.Is(err, gzip.ErrChecksum) || errors.Is(err, gzip.ErrHeader) {
+		return fmt.Errorf("%s line %d: truncated or corrupt compressed data: %w", t.Path, line, err)
+	}
+	return fmt.Errorf("%s line %d: %w", t.Path, line, err)
+}
+
+// Close releases the file and decompressor opened for the table.
+func (t *Table) Close() error {
+	var first error
+	for _, c := range t.closers {
+		if err := c.Close(); err != nil && first == nil {
+			first = err
+		}
+	}
+	t.closers = nil
+	t.csv = nil
+	return first
+}
+
+// IsMissing reports whether a cell means "no value": empty, NA, N/A or null
+// (case-insensitive). NaN is not missing; it is rejected as non-finite.
+func IsMissing(s string) bool {
+	s = strings.TrimSpace(s)
+	if s == "" {
+		return true
+	}
+	switch strings.ToLower(s) {
+	case "na", "n/a", "null":
+		return true
+	}
+	return false
+}
+
+// ParseFloat parses a decimal number from a cell. It accepts a decimal comma
+// when the table's delimiter is a semicolon (common practice in European
+// spreadsheet exports). Hexadecimal and underscore forms are refused; NaN and
+// Inf parse (callers reject them as non-finite with their own message).
+func (t *Table) ParseFloat(s string) (float64, error) {
+	s = strings.TrimSpace(s)
+	if t != nil && t.Delim == ';' && strings.Count(s, ",") == 1 && !strings.Contains(s, ".") {
+		s = strings.Replace(s, ",", ".", 1)
+	}
+	if strings.ContainsAny(s, "_xXpP") {
+		return 0, fmt.Errorf("%q is not a decimal number", s)
+	}
+	v, err := strconv.ParseFloat(s, 64)
+	if err != nil {
+		var ne *strconv.NumError
+		if errors.As(err, &ne) && ne.Err == strconv.ErrRange {
+			return 0, fmt.Errorf("%q is out of range", s)
+		}
+		return 0, fmt.Errorf("%q is not a number", s)
+	}
+	return v, nil
+}

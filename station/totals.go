@@ -1,0 +1,219 @@
+package station
+
+import (
+	"fmt"
+	"io"
+	"math"
+	"sort"
+	"strconv"
+)
+
+// Column aliases of the window-totals table (DESIGN.md, issue 4).
+var (
+	TotalAliases = []string{"total", "total_mm", "precip", "value"}
+	YearAliases  = []string{"year"}
+)
+
+// Years a totals table may hold; anything else is an impossible year.
+const (
+	MinTotalYear = 1000
+	MaxTotalYear = 3000
+)
+
+// idxSite is one row of the station table of `drygrid index`.
+type idxSite struct {
+	ID       string
+	Lat, Lon float64 // Lon normalised to [-180, 180)
+	Line     int
+}
+
+// idxEntry is one station-year of the totals table; total is NaN when missing.
+type idxEntry struct {
+	total float64
+	line  int
+	year  int32
+}
+
+// idxTotals is the totals table gathered per station (index into the sites).
+type idxTotals struct {
+	path           string
+	series         [][]idxEntry // per site, sorted by year after idxReadTotals
+	latest         int          // latest year with a non-missing total, 0 if none
+	rows           int          // data rows read
+	skippedUnknown int          // rows of stations missing from the station table
+	unknownIDs     int          // distinct such stations
+	firstUnknown   string       // "ID (line L)" of the first such row
+}
+
+// idxReadSites reads the station table: id, latitude, longitude (other
+// columns, such as name and elevation, are allowed and ignored). Latitude
+// must lie in [-90, 90] and longitude in [-180, 360); longitudes of 180 and
+// more are normalised to [-180, 180). Ids must be unique.
+func idxReadSites(t *Table) ([]idxSite, map[string]int, error) {
+	idC, err := t.FindColumn("station id", "", IDAliases)
+	if err != nil {
+		return nil, nil, err
+	}
+	latC, err := t.FindColumn("latitude", "", LatAliases)
+	if err != nil {
+		return nil, nil, err
+	}
+	lonC, err := t.FindColumn("longitude", "", LonAliases)
+	if err != nil {
+		return nil, nil, err
+	}
+	var sites []idxSite
+	byID := make(map[string]int)
+	coord := func(rec []string, line, col int, what string) (float64, error) {
+		s := rec[col]
+		if IsMissing(s) {
+			return 0, t.FieldError(line, col, "missing %s", what)
+		}
+		x, err := t.ParseFloat(s)
+		if err != nil {
+			return 0, t.FieldError(line, col, "%s %v", what, err)
+		}
+		if math.IsNaN(x) || math.IsInf(x, 0) {
+			return 0, t.FieldError(line, col, "%s %s is not a finite number", what, s)
+		}
+		return x, nil
+	}
+	for {
+		rec, line, err := t.Next()
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			return nil, nil, err
+		}
+		id := rec[idC]
+		if id == "" {
+			return nil, nil, t.FieldError(line, idC, "missing station id")
+		}
+		if first, dup := byID[id]; dup {
+			return nil, nil, t.FieldError(line, idC, "station %s is listed twice, on lines %d and %d", id, sites[first].Line, line)
+		}
+		lat, err := coord(rec, line, latC, "latitude")
+		if err != nil {
+			return nil, nil, err
+		}
+		if lat < -90 || lat > 90 {
+			return nil, nil, t.FieldError(line, latC, "latitude %s outside [-90, 90]", rec[latC])
+		}
+		lon, err := coord(rec, line, lonC, "longitude")
+		if err != nil {
+			return nil, nil, err
+		}
+		if lon < -180 || lon >= 360 {
+			return nil, nil, t.FieldError(line, lonC, "longitude %s outside [-180, 360)", rec[lonC])
+		}
+		if lon >= 180 {
+			lon -= 360
+		}
+		byID[id] = len(sites)
+		sites = append(sites, idxSite{ID: id, Lat: lat, Lon: lon, Line: line})
+	}
+	if len(sites) == 0 {
+		return nil, nil, fmt.Errorf("%s: no stations", t.Path)
+	}
+	return sites, byID, nil
+}
+
+// idxReadTotals streams the totals table (station, year, total) into one
+// series per known station; memory grows with stations x years, not with
+// the file. ids are the station ids by site index. totalColumn, when not empty, names the total column exactly
+// (case-insensitive). An empty or NA total is missing (kept as NaN), never
+// zero. Rows of stations missing from the station table are counted and
+// skipped before their cells are checked. Errors (file, line, column): a year
+// that is not an integer in [1000, 3000], a total that is not a finite
+// number, a negative total, and the same station-year on two lines.
+func idxReadTotals(t *Table, byID map[string]int, ids []string, totalColumn string) (*idxTotals, error) {
+	idC, err := t.FindColumn("station id", "", IDAliases)
+	if err != nil {
+		return nil, err
+	}
+	yearC, err := t.FindColumn("year", "", YearAliases)
+	if err != nil {
+		return nil, err
+	}
+	totC, err := t.FindColumn("total", totalColumn, TotalAliases)
+	if err != nil {
+		return nil, err
+	}
+	tt := &idxTotals{path: t.Path, series: make([][]idxEntry, len(ids))}
+	unknown := make(map[string]bool)
+	for {
+		rec, line, err := t.Next()
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			return nil, err
+		}
+		tt.rows++
+		id := rec[idC]
+		if id == "" {
+			return nil, t.FieldError(line, idC, "missing station id")
+		}
+		si, ok := byID[id]
+		if !ok {
+			if tt.skippedUnknown == 0 {
+				tt.firstUnknown = fmt.Sprintf("%s (line %d)", id, line)
+			}
+			tt.skippedUnknown++
+			if !unknown[id] {
+				unknown[id] = true
+				tt.unknownIDs++
+			}
+			continue
+		}
+		ys := rec[yearC]
+		year, err := strconv.Atoi(ys)
+		if err != nil || year < MinTotalYear || year > MaxTotalYear {
+			return nil, t.FieldError(line, yearC, "year %q is not an integer from %d to %d", ys, MinTotalYear, MaxTotalYear)
+		}
+		total := math.NaN()
+		if s := rec[totC]; !IsMissing(s) {
+			v, err := t.ParseFloat(s)
+			if err != nil {
+				return nil, t.FieldError(line, totC, "total %v", err)
+			}
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				return nil, t.FieldError(line, totC, "total %s is not a finite number", s)
+			}
+			if v < 0 {
+				return nil, t.FieldError(line, totC, "total %s is negative", s)
+			}
+			total = v + 0 // -0 becomes 0
+			if year > tt.latest {
+				tt.latest = year
+			}
+		}
+		tt.series[si] = append(tt.series[si], idxEntry{total: total, line: line, year: int32(year)})
+	}
+	// Sort each series by year (input is usually sorted already) and find the
+	// duplicate station-year whose second line comes first in the file.
+	dupA, dupB, dupID, dupYear := 0, 0, "", 0
+	for si, s := range tt.series {
+		if !sort.SliceIsSorted(s, func(i, j int) bool { return idxEntryLess(s[i], s[j]) }) {
+			sort.Slice(s, func(i, j int) bool { return idxEntryLess(s[i], s[j]) })
+		}
+		for i := 1; i < len(s); i++ {
+			if s[i].year == s[i-1].year && (dupB == 0 || s[i].line < dupB) {
+				dupA, dupB, dupID, dupYear = s[i-1].line, s[i].line, ids[si], int(s[i].year)
+			}
+		}
+	}
+	if dupB > 0 {
+		return nil, t.FieldError(dupB, yearC, "station %s year %d appears twice, on lines %d and %d", dupID, dupYear, dupA, dupB)
+	}
+	return tt, nil
+}
+
+// idxEntryLess orders entries by year, then by line.
+func idxEntryLess(a, b idxEntry) bool {
+	if a.year != b.year {
+		return a.year < b.year
+	}
+	return a.line < b.line
+}

@@ -1,0 +1,364 @@
+package station
+
+import (
+	"fmt"
+	"io"
+	"math"
+	"strings"
+
+	"drygrid/classes"
+)
+
+// Kind names what a station value table holds.
+type Kind string
+
+// Value kinds (DESIGN.md, --kind).
+const (
+	KindSPI        Kind = "spi"
+	KindPercentile Kind = "percentile"
+)
+
+// ParseKind parses a --kind flag value: "spi" or "percentile" (any case).
+func ParseKind(s string) (Kind, error) {
+	switch k := Kind(strings.ToLower(strings.TrimSpace(s))); k {
+	case KindSPI, KindPercentile:
+		return k, nil
+	}
+	return "", fmt.Errorf("unknown kind %q (want spi or percentile)", s)
+}
+
+// Column aliases (DESIGN.md: columns are found by name, case-insensitive).
+var (
+	IDAliases         = []string{"station", "id", "station_id", "site"}
+	LatAliases        = []string{"latitude", "lat"}
+	LonAliases        = []string{"longitude", "lon", "long", "lng"}
+	SPIAliases        = []string{"spi"}
+	PercentileAliases = []string{"percentile", "pct", "percent"}
+)
+
+// SPILimit is the largest |SPI| accepted; beyond it a value is implausible
+// (issue 2: "an SPI beyond +/-5 rejected as implausible").
+const SPILimit = 5
+
+// ReasonNoValue is the rejection reason of a row whose value cell is empty or NA.
+const ReasonNoValue = "no value"
+
+// valuesMaxWarnings caps the warnings kept; the rest are counted.
+const valuesMaxWarnings = 100
+
+// ValueOptions picks the value kind and, optionally, the columns by exact
+// name (case-insensitive); "" finds a column by its aliases. An empty Kind
+// takes an spi column if the table has one, else a percentile column; with
+// ValueColumn set, an empty Kind means spi.
+type ValueOptions struct {
+	Kind                                        Kind
+	ValueColumn, IDColumn, LatColumn, LonColumn string
+}
+
+// Station is one usable site of a value table.
+type Station struct {
+	ID       string
+	Lon, Lat float64  // Lon normalised to [-180, 180)
+	Value    float64  // the input value (SPI or percentile)
+	Z        float64  // z (SPI units): SPI as is, percentile via classes.PercentileToZ
+	Line     int      // line of first appearance
+	Merged   []string // other ids averaged into this site (same point), if any
+}
+
+// Rejection is a row that carries no usable value; it is kept for the summary.
+type Rejection struct {
+	Line   int
+	ID     string
+	Reason string
+}
+
+// Values is a validated station value table.
+type Values struct {
+	Path     string
+	Kind     Kind
+	Column   string      // the value column used
+	Read     int         // data rows read
+	Stations []Station   // usable sites, in file order
+	Rejected []Rejection // rows without a value (reason ReasonNoValue)
+	Warnings []string    // exact duplicates collapsed, co-located ids averaged
+}
+
+// RejectedByReason counts the rejected rows by reason.
+func (v *Values) RejectedByReason() map[string]int {
+	m := make(map[string]int)
+	for _, r := range v.Rejected {
+		m[r.Reason]++
+	}
+	return m
+}
+
+// ReadValues reads and validates the station value table at path.
+func ReadValues(path string, opt ValueOptions) (*Values, error) {
+	t, err := OpenTable(path)
+	if err != nil {
+		return nil, err
+	}
+	defer t.Close()
+	return readValues(t, opt)
+}
+
+// ParseValues reads and validates a station value table from r; name is used
+// in error messages.
+func ParseValues(name string, r io.Reader, opt ValueOptions) (*Values, error) {
+	t, err := NewTable(name, r)
+	if err != nil {
+		return nil, err
+	}
+	defer t.Close()
+	return readValues(t, opt)
+}
+
+// FindColumn returns the column named exactly name (case-insensitive) when
+// name is given, else the first matching an alias. The error names the file,
+// the header line and lists the header.
+func (t *Table) FindColumn(what, name string, aliases []string) (int, error) {
+	if name != "" {
+		if i := t.Column(name); i >= 0 {
+			return i, nil
+		}
+		return -1, fmt.Errorf("%s line %d: no %s column named %q; the header has: %s", t.Path, t.HeaderLine, what, name, strings.Join(t.Header, ", "))
+	}
+	if i := t.Column(aliases...); i >= 0 {
+		return i, nil
+	}
+	return -1, fmt.Errorf("%s line %d: no %s column (looked for %s); the header has: %s", t.Path, t.HeaderLine, what, strings.Join(aliases, "|"), strings.Join(t.Header, ", "))
+}
+
+// valuesSite accumulates the rows averaged into one site.
+type valuesSite struct {
+	st         Station
+	sumZ, sumV float64
+	n          int
+}
+
+// valuesRow is the first appearance of an id.
+type valuesRow struct {
+	line     int
+	lat, lon float64
+	missing  bool
+	value    float64
+}
+
+// valuesPointKey is a cell of 1e-6 degree used to find sites at the same
+// point; the site lists of the (at most four) cells within 1e-9 degree of a
+// point are checked exactly with valuesSamePoint.
+type valuesPointKey struct{ lat, lon int64 }
+
+func valuesKey(lat, lon float64) valuesPointKey {
+	if math.Abs(lat) == 90 {
+		lon = 0 // every longitude is the same point at a pole
+	}
+	return valuesPointKey{int64(math.Floor(lat * 1e6)), int64(math.Floor(lon * 1e6))}
+}
+
+// valuesSamePoint: coordinates equal to 1e-9 degree after normalisation.
+func valuesSamePoint(lat1, lon1, lat2, lon2 float64) bool {
+	if math.Abs(lat1-lat2) > 1e-9 {
+		return false
+	}
+	if math.Abs(lat1) == 90 && math.Abs(lat2) == 90 {
+		return true
+	}
+	d := math.Abs(lon1 - lon2)
+	return d <= 1e-9 || math.Abs(d-360) <= 1e-9
+}
+
+func readValues(t *Table, opt ValueOptions) (*Values, error) {
+	kind := opt.Kind
+	var valAliases []string
+	switch kind {
+	case KindSPI:
+		valAliases = SPIAliases
+	case KindPercentile:
+		valAliases = PercentileAliases
+	case "":
+		// No kind given: an spi column if there is one, else a percentile column.
+		kind = KindSPI
+		valAliases = SPIAliases
+		if opt.ValueColumn == "" && t.Column(SPIAliases...) < 0 && t.Column(PercentileAliases...) >= 0 {
+			kind, valAliases = KindPercentile, PercentileAliases
+		}
+	default:
+		return nil, fmt.Errorf("%s: unknown value kind %q (want spi or percentile)", t.Path, kind)
+	}
+	idC, err := t.FindColumn("station id", opt.IDColumn, IDAliases)
+	if err != nil {
+		return nil, err
+	}
+	latC, err := t.FindColumn("latitude", opt.LatColumn, LatAliases)
+	if err != nil {
+		return nil, err
+	}
+	lonC, err := t.FindColumn("longitude", opt.LonColumn, LonAliases)
+	if err != nil {
+		return nil, err
+	}
+	valC, err := t.FindColumn(string(kind)+" value", opt.ValueColumn, valAliases)
+	if err != nil {
+		return nil, err
+	}
+	v := &Values{Path: t.Path, Kind: kind, Column: t.ColumnName(valC)}
+	byID := make(map[string]valuesRow)
+	byPoint := make(map[valuesPointKey][]int) // -> indices in sites
+	var sites []*valuesSite
+	dropped := 0
+	warn := func(format string, args ...any) {
+		if len(v.Warnings) < valuesMaxWarnings {
+			v.Warnings = append(v.Warnings, fmt.Sprintf(format, args...))
+		} else {
+			dropped++
+		}
+	}
+	num := func(rec []string, line, col int, what string) (float64, error) {
+		s := rec[col]
+		if IsMissing(s) {
+			return 0, t.FieldError(line, col, "missing %s", what)
+		}
+		x, err := t.ParseFloat(s)
+		if err != nil {
+			return 0, t.FieldError(line, col, "%s %v", what, err)
+		}
+		if math.IsNaN(x) || math.IsInf(x, 0) {
+			return 0, t.FieldError(line, col, "%s %s is not a finite number", what, s)
+		}
+		return x, nil
+	}
+	for {
+		rec, line, err := t.Next()
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			return nil, err
+		}
+		v.Read++
+		id := rec[idC]
+		if id == "" {
+			return nil, t.FieldError(line, idC, "missing station id")
+		}
+		lat, err := num(rec, line, latC, "latitude")
+		if err != nil {
+			return nil, err
+		}
+		if lat < -90 || lat > 90 {
+			return nil, t.FieldError(line, latC, "latitude %s outside [-90, 90]", rec[latC])
+		}
+		lon, err := num(rec, line, lonC, "longitude")
+		if err != nil {
+			return nil, err
+		}
+		if lon < -180 || lon >= 360 {
+			return nil, t.FieldError(line, lonC, "longitude %s outside [-180, 360)", rec[lonC])
+		}
+		if lon >= 180 {
+			lon -= 360 // 0-360 input normalised to [-180, 180)
+		}
+		row := valuesRow{line: line, lat: lat, lon: lon, missing: IsMissing(rec[valC])}
+		if !row.missing {
+			x, err := num(rec, line, valC, string(kind))
+			if err != nil {
+				return nil, err
+			}
+			switch kind {
+			case KindPercentile:
+				if x < 0 || x > 100 {
+					return nil, t.FieldError(line, valC, "percentile %s outside [0, 100]", rec[valC])
+				}
+			case KindSPI:
+				if math.Abs(x) > SPILimit {
+					return nil, t.FieldError(line, valC, "spi %s outside [-%d, %d], implausible", rec[valC], SPILimit, SPILimit)
+				}
+			}
+			row.value = x
+		}
+		if first, dup := byID[id]; dup {
+			if !valuesSamePoint(first.lat, first.lon, lat, lon) {
+				col := latC
+				if math.Abs(first.lat-lat) <= 1e-9 {
+					col = lonC
+				}
+				return nil, t.FieldError(line, col, "station %s is at %g, %g here but at %g, %g on line %d", id, lat, lon, first.lat, first.lon, first.line)
+			}
+			if first.missing != row.missing || first.value != row.value {
+				return nil, t.FieldError(line, valC, "station %s has %s %q here but another value on line %d", id, kind, rec[valC], first.line)
+			}
+			warn("%s line %d: repeats station %s of line %d exactly; kept once", t.Path, line, id, first.line)
+			continue
+		}
+		byID[id] = row
+		if row.missing {
+			v.Rejected = append(v.Rejected, Rejection{Line: line, ID: id, Reason: ReasonNoValue})
+			continue
+		}
+		z := row.value
+		if kind == KindPercentile {
+			z = classes.PercentileToZ(row.value)
+		}
+		if si, ok := valuesFindPoint(byPoint, sites, lat, lon); ok {
+			s := sites[si]
+			s.sumZ += z
+			s.sumV += row.value
+			s.n++
+			s.st.Merged = append(s.st.Merged, id)
+			warn("%s line %d: station %s is at the same point as %s (line %d); their values are averaged into one site", t.Path, line, id, s.st.ID, s.st.Line)
+			continue
+		}
+		k := valuesKey(lat, lon)
+		byPoint[k] = append(byPoint[k], len(sites))
+		sites = append(sites, &valuesSite{
+			st:   Station{ID: id, Lon: lon, Lat: lat, Value: row.value, Z: z, Line: line},
+			sumZ: z, sumV: row.value, n: 1,
+		})
+	}
+	v.Stations = make([]Station, len(sites))
+	for i, s := range sites {
+		st := s.st
+		if s.n > 1 {
+			st.Z = s.sumZ / float64(s.n)
+			st.Value = s.sumV / float64(s.n)
+		}
+		v.Stations[i] = st
+	}
+	if dropped > 0 {
+		v.Warnings = append(v.Warnings, fmt.Sprintf("%s: %d more warnings not shown", t.Path, dropped))
+	}
+	return v, nil
+}
+
+// valuesFindPoint looks up a site at the same point (1e-9 degree): the cells
+// of the points 1e-9 degree around, and across the antimeridian seam.
+func valuesFindPoint(m map[valuesPointKey][]int, sites []*valuesSite, lat, lon float64) (int, bool) {
+	const eps = 1e-9
+	lons := [...]float64{lon - eps, lon + eps, lon - eps + 360, lon + eps - 360}
+	nl := 2
+	if lon < -180+eps || lon > 180-eps {
+		nl = 4
+	}
+	var seen [16]valuesPointKey
+	ns := 0
+	for _, la := range [...]float64{lat - eps, lat + eps} {
+		for _, lo := range lons[:nl] {
+			k := valuesKey(math.Max(-90, math.Min(90, la)), lo)
+			dup := false
+			for _, o := range seen[:ns] {
+				dup = dup || o == k
+			}
+			if dup {
+				continue
+			}
+			seen[ns] = k
+			ns++
+			for _, i := range m[k] {
+				if valuesSamePoint(sites[i].st.Lat, sites[i].st.Lon, lat, lon) {
+					return i, true
+				}
+			}
+		}
+	}
+	return 0, false
+}

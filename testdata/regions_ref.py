@@ -1,0 +1,78 @@
+#!/usr/bin/python3
+"""Outside references for drygrid's region statistics (grid/coverage_test.go).
+
+Reads one JSON object on stdin and writes JSON on stdout.
+
+mode "area": {"mode": "area", "polygons": [[ring, ...], ...]} -> [km2, ...]
+  Each polygon's area on the WGS84 ellipsoid from pyproj 3.4
+  (Geod(ellps="WGS84").geometry_area_perimeter, Karney 2013 geodesics).
+  Edges are densified every 0.01 deg in longitude-latitude first, so the
+  geodesic polygon follows the straight lon-lat edges drygrid assumes
+  (parallels stay parallels instead of bulging poleward).
+
+mode "shares": {"mode": "shares", "spec": {west, north, res, cols, rows},
+  "polygon": [ring, ...]} -> [[cell, frac], ...]
+  For every grid cell, shapely 1.8's exact planar intersection area of the
+  polygon and the cell box, over the cell box's area (square degrees).
+"""
+import json
+import math
+import sys
+
+from shapely.geometry import Polygon, box
+
+
+def densify(ring, step=0.01):
+    out = []
+    for (x0, y0), (x1, y1) in zip(ring[:-1], ring[1:]):
+        n = max(1, int(math.ceil(max(abs(x1 - x0), abs(y1 - y0)) / step)))
+        for k in range(n):
+            t = k / n
+            out.append((x0 + t * (x1 - x0), y0 + t * (y1 - y0)))
+    out.append(tuple(ring[-1]))
+    return out
+
+
+def area(req):
+    from pyproj import Geod
+    geod = Geod(ellps="WGS84")
+    res = []
+    for rings in req["polygons"]:
+        poly = Polygon(densify(rings[0]), [densify(r) for r in rings[1:]])
+        a, _ = geod.geometry_area_perimeter(poly)
+        res.append(abs(a) / 1e6)
+    return res
+
+
+def shares(req):
+    s = req["spec"]
+    rings = req["polygon"]
+    poly = Polygon(rings[0], rings[1:])
+    assert poly.is_valid, "reference polygon is not valid"
+    res = []
+    minx, miny, maxx, maxy = poly.bounds
+    for row in range(s["rows"]):
+        n = s["north"] - row * s["res"]
+        so = n - s["res"]
+        if so >= maxy or n <= miny:
+            continue
+        for col in range(s["cols"]):
+            w = s["west"] + col * s["res"]
+            e = w + s["res"]
+            if w >= maxx or e <= minx:
+                continue
+            cell = box(w, so, e, n)
+            f = poly.intersection(cell).area / cell.area
+            if f > 1e-12:
+                res.append([row * s["cols"] + col, f])
+    return res
+
+
+def main():
+    req = json.load(sys.stdin)
+    out = {"area": area, "shares": shares}[req["mode"]](req)
+    json.dump(out, sys.stdout)
+
+
+if __name__ == "__main__":
+    main()
