@@ -115,6 +115,10 @@ func (ip *Interpolator) rowCandidates(w *rowWork, lat float64) []int32 {
 // gridRow fills one row of cells at latitude lat; colStep is the longitude
 // step between cell centres.
 func (ip *Interpolator) gridRow(w *rowWork, lat, colStep float64, colLon, colCos, colSin []float64, dst []float32) {
+	if ip.p.Sectors > 0 {
+		ip.gridRowSectors(w, lat, colLon, colCos, colSin, dst) // sectors.go
+		return
+	}
 	ranks := ip.rowCandidates(w, lat)
 	m := len(ranks)
 	if m < ip.p.MinStations {

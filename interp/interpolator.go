@@ -122,7 +122,7 @@ func (ip *Interpolator) At(lon, lat float64) (z float64, n int, ok bool) {
 	c := newCands(ip.k)
 	m := ip.selectAt(lon, lat, c)
 	cx, cy, cz := unitVector(lon, lat)
-	return ip.estimate(c, m, cx, cy, cz)
+	return ip.estimateAt(c, m, lon, lat, cx, cy, cz)
 }
 
 // selectAt puts in c the stations within the radius of lon, lat, found

@@ -168,6 +168,14 @@ func (ip *Interpolator) estimate(c *cands, n int, cx, cy, cz float64) (float64, 
 		n = ip.k
 		cs = cs[:n]
 	}
+	return ip.weigh(c, cs, cx, cy, cz), n, true
+}
+
+// weigh is the 1 m rule and Shepard's (1968) weighted mean over the chosen
+// candidates cs (at most k of them, a prefix of c.cs) of the cell at the
+// unit vector (cx, cy, cz).
+func (ip *Interpolator) weigh(c *cands, cs []cand, cx, cy, cz float64) float64 {
+	n := len(cs)
 	lo, hi := math.Inf(1), math.Inf(-1)
 	var sw, swz float64
 	switch {
@@ -175,7 +183,7 @@ func (ip *Interpolator) estimate(c *cands, n int, cx, cy, cz float64) (float64, 
 		for i := range cs {
 			x := &cs[i]
 			if x.d2 < exactChordSq {
-				return ip.exactValue(cs), n, true
+				return ip.exactValue(cs)
 			}
 			w := 1 / (x.d2 * asinSqSeries4(x.d2/4))
 			sw += w
@@ -186,7 +194,7 @@ func (ip *Interpolator) estimate(c *cands, n int, cx, cy, cz float64) (float64, 
 		for i := range cs {
 			x := &cs[i]
 			if x.d2 < exactChordSq {
-				return ip.exactValue(cs), n, true
+				return ip.exactValue(cs)
 			}
 			w := 1 / (x.d2 * asinSqSeries(x.d2/4))
 			sw += w
@@ -199,7 +207,7 @@ func (ip *Interpolator) estimate(c *cands, n int, cx, cy, cz float64) (float64, 
 		for i := range cs {
 			x := &cs[i]
 			if x.d2 < exactChordSq {
-				return ip.exactValue(cs), n, true
+				return ip.exactValue(cs)
 			}
 			ang[i] = ip.angleSq(x.d2, x.rk, cx, cy, cz)
 			a0 = min(a0, ang[i])
@@ -216,7 +224,7 @@ func (ip *Interpolator) estimate(c *cands, n int, cx, cy, cz float64) (float64, 
 	// The exact value is a convex combination of the station values; the
 	// clamp only removes rounding beyond them (and makes a constant field
 	// give that constant exactly).
-	return min(max(swz/sw, lo), hi), n, true
+	return min(max(swz/sw, lo), hi)
 }
 
 // exactValue is the value of the nearest candidate, ties to the first in

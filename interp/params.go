@@ -20,6 +20,9 @@ type Params struct {
 	RadiusKm    float64 // search radius in km, great-circle; default 300
 	MinStations int     // fewer stations within the radius -> no data; default 3
 	Workers     int     // goroutines for Grid; 0 = GOMAXPROCS. The result never depends on it.
+	// Sectors, when 4 or 8, balances the neighbours by direction (Shepard
+	// 1968): see sectors.go. 0 = off.
+	Sectors int
 }
 
 // DefaultParams are the defaults of the command line (DESIGN.md): power 2,
@@ -43,6 +46,9 @@ func (p Params) Validate() error {
 	}
 	if p.MinStations < 1 || p.MinStations > p.Neighbors {
 		return fmt.Errorf("interp: min-stations %d must be at least 1 and at most neighbors (%d)", p.MinStations, p.Neighbors)
+	}
+	if err := p.validateSectors(); err != nil {
+		return err
 	}
 	if p.Workers < 0 {
 		return fmt.Errorf("interp: workers %d must be 0 (all cores) or more", p.Workers)

@@ -290,6 +290,7 @@ func (s *Scenario) genTotals(rng scnRNG) {
 	}
 	shortStart := map[int]int{order[14]: 2001, order[15]: 1999, order[16]: 1997} // 25, 27, 29 years
 	noTarget := order[17]                                                        // no target-year total
+	fields := scnYearFields()
 	for i, st := range s.Sites {
 		shape := rng.between(1.5, 6)
 		west := math.Max(0, math.Min(1, (st.Lon+116)/-12)) // 0 east .. 1 west
@@ -327,7 +328,12 @@ func (s *Scenario) genTotals(rng scnRNG) {
 			if y == scnLastYear {
 				h = distuv.UnitNormal.CDF(z) // the target year: H = Phi(z)
 			} else {
-				h = rng.u()
+				// Other years: a smooth field shared by neighbouring stations
+				// plus local noise, unit variance in z, so wet and dry years
+				// come in regional patterns as they do in nature.
+				local := distuv.UnitNormal.Quantile(rng.u())
+				h = distuv.UnitNormal.CDF(scnFieldWeight*fields[y-scnFirstYear].at(st.Lon, st.Lat) +
+					math.Sqrt(1-scnFieldWeight*scnFieldWeight)*local)
 			}
 			total := 0.0
 			if h > q {
@@ -339,6 +345,42 @@ func (s *Scenario) genTotals(rng scnRNG) {
 			}
 		}
 	}
+}
+
+// scnFieldWeight is the share (as a correlation) of a year's regional field
+// in each station's z; the rest is local noise.
+const scnFieldWeight = 0.85
+
+// scnField is one year's smooth random field of unit variance: a sum of
+// plane waves with random directions, wavelengths and phases (random
+// Fourier features), over km east and north of the archipelago's centre.
+type scnField struct{ kx, ky, phase [8]float64 }
+
+func (f scnField) at(lon, lat float64) float64 {
+	const lon0, lat0, kmPerDeg = -122.0, -41.5, 111.195
+	x := (lon - lon0) * kmPerDeg * math.Cos(lat0*math.Pi/180)
+	y := (lat - lat0) * kmPerDeg
+	sum := 0.0
+	for j := range f.kx {
+		sum += math.Cos(f.kx[j]*x + f.ky[j]*y + f.phase[j])
+	}
+	return sum * math.Sqrt(2.0/float64(len(f.kx)))
+}
+
+// scnYearFields draws one field per year from a stream of its own, so the
+// other draws of the scenario do not depend on it.
+func scnYearFields() []scnField {
+	rng := scnRNG{rand.NewPCG(scnSeed1^0x9e3779b97f4a7c15, scnSeed2)}
+	out := make([]scnField, scnLastYear-scnFirstYear+1)
+	for y := range out {
+		for j := range out[y].kx {
+			theta := rng.between(0, 2*math.Pi)
+			k := 2 * math.Pi / rng.between(500, 1600) // wavelength 500-1600 km
+			out[y].kx[j], out[y].ky[j] = k*math.Cos(theta), k*math.Sin(theta)
+			out[y].phase[j] = rng.between(0, 2*math.Pi)
+		}
+	}
+	return out
 }
 
 func scnF(x float64, d int) string { return strconv.FormatFloat(x, 'f', d, 64) }

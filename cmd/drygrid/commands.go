@@ -11,7 +11,8 @@ import (
 
 // addCommands registers the commands beyond grid and demo.
 func addCommands(root *cobra.Command) {
-	root.AddCommand(newIndexCmd(), newStatsCmd(), newChartCmd(), newSchemeCmd())
+	root.AddCommand(newIndexCmd(), newStatsCmd(), newChartCmd(), newSchemeCmd(), newRunCmd())
+	root.AddCommand(newCrossvalCmd()) // crossval.go
 	root.CompletionOptions.HiddenDefaultCmd = true
 }
 

@@ -61,6 +61,7 @@ func runDemo(out string, stderr io.Writer) error {
 	}
 	layers, _ := parseLayers("all")
 	job := gridJob{
+		Command:  "demo",
 		Stations: values,
 		Values:   station.ValueOptions{Kind: station.KindSPI},
 		Res:      0.05,
@@ -72,6 +73,12 @@ func runDemo(out string, stderr io.Writer) error {
 		Out:    out,
 	}
 	job.Params.RadiusKm = sc.RadiusKm
+	history, chart, err := demoHistory(sc, stationsCSV, totalsCSV, job)
+	if err != nil {
+		return err
+	}
+	fmt.Fprintf(stderr, "history: %d years of area in drought per district (history.csv, chart.png)\n", demoHistoryYears)
+	job.Extra = map[string][]byte{"history.csv": history, "chart.png": chart}
 	_, err = runGrid(job, stderr)
 	if err == nil {
 		fmt.Fprintf(stderr, "demo: open %s in a browser; the data are invented\n", filepath.Join(out, "map.html"))

@@ -29,6 +29,8 @@ type gridFlags struct {
 	neighbors   int
 	radiusKm    float64
 	minStations int
+	sectors     int  // --sectors (crossval.go, issue 9)
+	crossval    bool // --crossval (crossval.go, issue 9)
 	scheme      string
 	regions     string
 	regionKey   string
@@ -57,9 +59,14 @@ severity bands and writes the layers into --out:
   regions.csv/json  area in each band per region (with --regions)
   map.png           a picture for reports
   map.html          a self-contained web page
+  manifest.json     what was run: version, parameters, inputs and outputs with SHA-256, counts
 
 Percentiles are turned into z = Phi^-1(p/100) (p clamped to [0.1, 99.9]) before
 interpolation, so index.tif always holds z.
+
+The files are written into a temporary directory beside --out and swapped in only when
+every layer is complete, so a failed run leaves the previous layers untouched (the parent
+of --out must be writable). Files of your own in --out are kept.
 
 The layers are interpolated estimates, not official drought declarations.`,
 		Example: `  # SPI per station to all layers at 0.1 deg over the stations' extent
@@ -81,6 +88,11 @@ The layers are interpolated estimates, not official drought declarations.`,
 			if err != nil {
 				return err
 			}
+			if f.crossval {
+				if err := printGridCrossval(cmd.ErrOrStderr(), res, job.Params); err != nil {
+					return err
+				}
+			}
 			return appendHistory(f.history, f.date, res, cmd.ErrOrStderr())
 		},
 	}
@@ -97,6 +109,8 @@ The layers are interpolated estimates, not official drought declarations.`,
 	fl.IntVar(&f.neighbors, "neighbors", 12, "use at most this many nearest stations per cell")
 	fl.Float64Var(&f.radiusKm, "radius-km", 300, "search radius in km (great-circle)")
 	fl.IntVar(&f.minStations, "min-stations", 3, "a cell with fewer stations within the radius is no data")
+	fl.IntVar(&f.sectors, "sectors", 0, "0 (off), 4 or 8: at most neighbors/sectors stations per direction sector around a cell")
+	fl.BoolVar(&f.crossval, "crossval", false, "also cross-validate (leave one out) with the same parameters and print the figures")
 	fl.StringVar(&f.scheme, "scheme", "", "band scheme file (TOML; default: the nine built-in bands; see 'drygrid scheme --example')")
 	fl.StringVar(&f.regions, "regions", "", "regions GeoJSON (Polygon/MultiPolygon features) for area-in-drought statistics")
 	fl.StringVar(&f.regionKey, "region-key", "", "feature property naming each region (default: id, then name)")
@@ -128,7 +142,7 @@ func (f gridFlags) job() (gridJob, error) {
 	if f.simplifyKm < 0 || math.IsNaN(f.simplifyKm) {
 		return j, usagef("--simplify-km %g: must be 0 or more", f.simplifyKm)
 	}
-	p := interp.Params{Power: f.power, Neighbors: f.neighbors, RadiusKm: f.radiusKm, MinStations: f.minStations}
+	p := interp.Params{Power: f.power, Neighbors: f.neighbors, RadiusKm: f.radiusKm, MinStations: f.minStations, Sectors: f.sectors}
 	if err := p.Validate(); err != nil {
 		return j, usageError{err}
 	}

@@ -2,11 +2,16 @@ package main
 
 import (
 	"bufio"
+	"bytes"
+	"encoding/json"
+	"errors"
 	"fmt"
 	"io"
 	"os"
 	"path/filepath"
+	"strings"
 	"time"
+	"unicode/utf8"
 
 	"drygrid/classes"
 	"drygrid/export"
@@ -33,6 +38,20 @@ type gridJob struct {
 	Title      string
 	Subtitle   string
 	Out        string
+
+	// Command names the command in the manifest ("grid", "demo", "run").
+	Command string
+	// StationsData, when not nil, is the stations table itself (the index
+	// step's output, made in memory); Stations then only names it.
+	StationsData []byte
+	// Extra are more files to publish with the layers (name -> content).
+	Extra map[string][]byte
+	// ExtraInputs, ExtraParams, ExtraCounts and ExtraTimings go into the
+	// manifest beside the grid step's own.
+	ExtraInputs  []export.ManifestFile
+	ExtraParams  map[string]any
+	ExtraCounts  map[string]any
+	ExtraTimings map[string]float64
 }
 
 // gridResult is what a run made, for the summary and the demo.
@@ -45,14 +64,16 @@ type gridResult struct {
 	Regions []grid.ZonalStats
 	Files   []string
 	Elapsed time.Duration
+
+	timings map[string]float64 // seconds by step, for the manifest
 }
 
 // runGrid reads the stations, interpolates, classifies and writes the
-// layers. All files are written into a staging directory inside Out and
-// moved into place only when every layer is complete, so a failed run leaves
-// earlier outputs untouched.
+// layers and the manifest. All files are written into a temporary directory
+// beside Out, which replaces Out only when every layer is complete
+// (publish.go), so a failed run leaves earlier outputs untouched.
 func runGrid(job gridJob, stderr io.Writer) (*gridResult, error) {
-	start := time.Now()
+	start := manifestNow()
 	scheme := classes.Default()
 	if job.Scheme != "" {
 		s, err := classes.LoadScheme(job.Scheme)
@@ -65,16 +86,25 @@ func runGrid(job gridJob, stderr io.Writer) (*gridResult, error) {
 	if job.Regions != "" {
 		r, err := grid.ReadRegions(job.Regions, job.RegionKey)
 		if err != nil {
-			return nil, err
+			return nil, regionsErrPos(job.Regions, err)
 		}
 		regions = r
 	}
-	vals, err := station.ReadValues(job.Stations, job.Values)
+	var vals *station.Values
+	var err error
+	if job.StationsData != nil {
+		vals, err = station.ParseValues(job.Stations, bytes.NewReader(job.StationsData), job.Values)
+	} else {
+		vals, err = station.ReadValues(job.Stations, job.Values)
+	}
 	if err != nil {
 		return nil, err
 	}
 	for _, w := range vals.Warnings {
 		fmt.Fprintf(stderr, "warning: %s\n", w)
+	}
+	if vals.Read == 0 {
+		return nil, fmt.Errorf("stations %s: the header has no data rows below it", job.Stations)
 	}
 	if len(vals.Stations) == 0 {
 		return nil, fmt.Errorf("stations %s: no station with a usable %s value (%d rows read)", job.Stations, vals.Column, vals.Read)
@@ -94,6 +124,7 @@ func runGrid(job gridJob, stderr io.Writer) (*gridResult, error) {
 	if err != nil {
 		return nil, err
 	}
+	read := manifestNow()
 	bar := newProgress(stderr, spec.Rows, "gridding")
 	index := ip.Grid(spec, bar.set)
 	bar.done()
@@ -103,10 +134,14 @@ func runGrid(job gridJob, stderr io.Writer) (*gridResult, error) {
 	if len(regions) > 0 {
 		res.Regions = grid.Zonal(bands, index, regions)
 	}
-	if err := writeLayers(job, res, regions); err != nil {
+	gridded := manifestNow()
+	res.timings = map[string]float64{
+		"read_s": manifestSeconds(read.Sub(start)), "grid_s": manifestSeconds(gridded.Sub(read)),
+	}
+	if err := writeLayers(job, res, regions, start); err != nil {
 		return nil, err
 	}
-	res.Elapsed = time.Since(start)
+	res.Elapsed = manifestNow().Sub(start)
 	printSummary(stderr, job, res)
 	return res, nil
 }
@@ -137,40 +172,85 @@ func classify(index *grid.Float32, scheme *classes.Scheme) *grid.Uint8 {
 	return bands
 }
 
-// writeLayers writes the chosen layers into a staging directory and moves
-// them into job.Out once all are written.
-func writeLayers(job gridJob, res *gridResult, regions []grid.Region) error {
-	if err := os.MkdirAll(job.Out, 0o755); err != nil {
-		return fmt.Errorf("output directory: %w", err)
-	}
-	stage, err := os.MkdirTemp(job.Out, ".drygrid-staging-")
-	if err != nil {
-		return fmt.Errorf("output directory %s: %w", job.Out, err)
-	}
-	defer os.RemoveAll(stage)
-	w := &layerWriter{job: job, res: res, regions: regions, dir: stage}
-	for _, name := range allLayers {
-		if !job.Layers[name] {
-			continue
-		}
-		if err := w.write(name); err != nil {
-			return fmt.Errorf("layer %s: %w", name, err)
+// writeLayers writes the chosen layers, the extra files and the manifest
+// into a temporary directory beside job.Out and publishes it in place of
+// job.Out once all are written (publish.go).
+func writeLayers(job gridJob, res *gridResult, regions []grid.Region, start time.Time) error {
+	owned := map[string]bool{export.ManifestName: true}
+	for _, files := range layerFiles {
+		for _, f := range files {
+			owned[f] = true
 		}
 	}
-	entries, err := os.ReadDir(stage)
-	if err != nil {
-		return err
+	for name := range job.Extra {
+		owned[name] = true
 	}
-	for _, e := range entries {
-		if err := os.Rename(filepath.Join(stage, e.Name()), filepath.Join(job.Out, e.Name())); err != nil {
-			return fmt.Errorf("publish %s: %w", e.Name(), err)
+	inputs := []string{job.Scheme, job.Regions}
+	if job.StationsData == nil {
+		inputs = append(inputs, job.Stations)
+	}
+	for _, in := range job.ExtraInputs {
+		inputs = append(inputs, in.Path)
+	}
+	return publishDir(publishPlan{Out: job.Out, Owned: owned, Inputs: inputs, Write: func(dir string) error {
+		writeStart := manifestNow()
+		w := &layerWriter{job: job, res: res, regions: regions, dir: dir}
+		for _, name := range allLayers {
+			if !job.Layers[name] {
+				continue
+			}
+			if err := w.write(name); err != nil {
+				return fmt.Errorf("layer %s: %w", name, err)
+			}
 		}
-		res.Files = append(res.Files, e.Name())
-	}
-	return nil
+		for _, name := range sortedKeys(job.Extra) {
+			if err := writeBytes(filepath.Join(dir, name), job.Extra[name]); err != nil {
+				return err
+			}
+		}
+		res.timings["write_s"] = manifestSeconds(manifestNow().Sub(writeStart))
+		m, err := buildManifest(job, res, dir, start)
+		if err != nil {
+			return err
+		}
+		if err := export.WriteManifest(dir, m); err != nil {
+			return err
+		}
+		res.Files = res.Files[:0]
+		for _, f := range m.Outputs {
+			res.Files = append(res.Files, f.Path)
+		}
+		res.Files = append(res.Files, export.ManifestName)
+		return nil
+	}})
 }
 
 // writeStream writes one file of a layer through a streaming encoder.
 func writeStream(path string, enc func(w io.Writer) error) error {
 	return export.WriteFileAtomic(path, func(w *bufio.Writer) error { return enc(w) })
+}
+
+// regionsErrPos adds the line and column to a JSON syntax error in the
+// regions file (the decoder reports a byte offset).
+func regionsErrPos(path string, err error) error {
+	var se *json.SyntaxError
+	if !errors.As(err, &se) {
+		return err
+	}
+	data, rerr := os.ReadFile(path)
+	if rerr != nil {
+		return err
+	}
+	off := int(se.Offset) - 1 // Offset is just past the offending byte
+	if off < 0 {
+		off = 0
+	}
+	if off > len(data) {
+		off = len(data)
+	}
+	before := data[:off]
+	line := bytes.Count(before, []byte{'\n'}) + 1
+	col := utf8.RuneCount(before[bytes.LastIndexByte(before, '\n')+1:]) + 1
+	msg := strings.TrimPrefix(err.Error(), "regions "+path+": ")
+	return fmt.Errorf("regions %s line %d column %d: %s", path, line, col, msg)
 }

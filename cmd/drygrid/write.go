@@ -5,6 +5,9 @@ import (
 	"fmt"
 	"io"
 	"path/filepath"
+	"sort"
+	"strings"
+	"time"
 
 	"drygrid/export"
 	"drygrid/grid"
@@ -106,4 +109,106 @@ func writeBytes(path string, b []byte) error {
 		_, err := out.Write(b)
 		return err
 	})
+}
+
+// manifestNow is the clock of the manifest's timings (a variable so that
+// tests can stop it; timings are the one member allowed to differ between
+// runs).
+var manifestNow = time.Now
+
+// manifestSeconds rounds a duration to milliseconds, in seconds.
+func manifestSeconds(d time.Duration) float64 { return float64(d.Milliseconds()) / 1000 }
+
+// sortedKeys lists a map's keys in order.
+func sortedKeys[V any](m map[string]V) []string {
+	keys := make([]string, 0, len(m))
+	for k := range m {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	return keys
+}
+
+// buildManifest describes the run whose files are in dir.
+func buildManifest(job gridJob, res *gridResult, dir string, start time.Time) (*export.Manifest, error) {
+	var inputs []export.ManifestFile
+	// A stations table made in memory by the index step is an output
+	// (job.Extra), not an input.
+	if job.StationsData == nil {
+		f, err := export.ManifestInput(job.Stations, "stations")
+		if err != nil {
+			return nil, err
+		}
+		inputs = append(inputs, f)
+	}
+	for _, in := range [][2]string{{job.Scheme, "scheme"}, {job.Regions, "regions"}} {
+		if in[0] == "" {
+			continue
+		}
+		f, err := export.ManifestInput(in[0], in[1])
+		if err != nil {
+			return nil, err
+		}
+		inputs = append(inputs, f)
+	}
+	inputs = append(inputs, job.ExtraInputs...)
+	outputs, err := export.ManifestOutputs(dir, nil)
+	if err != nil {
+		return nil, err
+	}
+	p := job.Params
+	var bbox any
+	if job.BBox != nil {
+		bbox = job.BBox[:]
+	}
+	params := map[string]any{
+		"kind": string(job.Values.Kind), "value_column": res.Values.Column,
+		"res_deg": job.Res, "bbox": bbox,
+		"power": p.Power, "neighbors": p.Neighbors, "radius_km": p.RadiusKm, "min_stations": p.MinStations,
+		"scheme": res.Scheme.Name, "region_key": job.RegionKey,
+		"layers": strings.Split(job.Layers.String(), ","), "simplify_km": job.SimplifyKm,
+	}
+	for k, v := range job.ExtraParams {
+		params[k] = v
+	}
+	rejected := map[string]int{}
+	for reason, n := range res.Values.RejectedByReason() {
+		rejected[reason] = n
+	}
+	covered := 0
+	for _, c := range res.Bands.Data {
+		if c != res.Bands.NoData {
+			covered++
+		}
+	}
+	counts := map[string]any{
+		"stations_read": res.Values.Read, "stations_used": len(res.Values.Stations),
+		"stations_rejected": rejected, "station_warnings": len(res.Values.Warnings),
+		"cells": res.Spec.Len(), "cells_covered": covered, "regions": len(res.Regions),
+	}
+	for k, v := range job.ExtraCounts {
+		counts[k] = v
+	}
+	s := res.Spec
+	gridInfo := map[string]any{
+		"crs": "EPSG:4326", "west": s.West, "north": s.North, "east": s.East(), "south": s.South(),
+		"res_deg": s.Res, "cols": s.Cols, "rows": s.Rows, "crosses_antimeridian": s.CrossesAntimeridian(),
+		"geotransform": s.GeoTransform(),
+	}
+	timings := map[string]float64{}
+	for k, v := range res.timings {
+		timings[k] = v
+	}
+	for k, v := range job.ExtraTimings {
+		timings[k] = v
+	}
+	timings["total_s"] = manifestSeconds(manifestNow().Sub(start))
+	command := job.Command
+	if command == "" {
+		command = "grid"
+	}
+	return &export.Manifest{
+		Software: "drygrid", Version: version, Command: command, Caution: export.MapCaution,
+		Parameters: params, Inputs: inputs, Outputs: outputs, Counts: counts, Grid: gridInfo, Timings: timings,
+	}, nil
 }

@@ -1,0 +1,50 @@
+package main
+
+import (
+	"os"
+	"strings"
+
+	"drygrid/classes"
+	"drygrid/export"
+	"drygrid/grid"
+	"drygrid/interp"
+)
+
+// scaleWrite streams the rows of spec from the interpolator into the index
+// and band COGs (export.WriteIndexBandsTIFFRows): only a few blocks of rows
+// and the compressed tiles are held. DRYGRID_BENCH_WHOLE=1 grids the whole
+// raster first and writes it with WriteIndexTIFF/WriteBandsTIFF instead,
+// for comparison.
+// It returns the number of cells with a value.
+func scaleWrite(ip *interp.Interpolator, spec grid.Spec, out string) (valid int, err error) {
+	s := classes.Default()
+	opt := export.DefaultTIFFOptions()
+	bandsPath := strings.TrimSuffix(out, ".tif") + ".bands.tif"
+	if os.Getenv("DRYGRID_BENCH_WHOLE") == "1" {
+		idx := ip.Grid(spec, nil)
+		bands := grid.NewUint8(spec, 0)
+		for i, v := range idx.Data {
+			if v != idx.NoData {
+				bands.Data[i] = s.Classify(float64(v))
+				valid++
+			}
+		}
+		if err := export.WriteIndexTIFF(out, idx, opt); err != nil {
+			return 0, err
+		}
+		return valid, export.WriteBandsTIFF(bandsPath, bands, s, opt)
+	}
+	rows := rowsOf(ip, spec)
+	count := func(row0, n int, dst []float32) error {
+		if err := rows(row0, n, dst); err != nil {
+			return err
+		}
+		for _, v := range dst {
+			if v != grid.NoDataIndex {
+				valid++
+			}
+		}
+		return nil
+	}
+	return valid, export.WriteIndexBandsTIFFRows(out, bandsPath, spec, grid.NoDataIndex, s, count, opt)
+}

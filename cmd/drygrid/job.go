@@ -1,0 +1,552 @@
+package main
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"path/filepath"
+	"regexp"
+	"sort"
+	"strconv"
+	"strings"
+	"time"
+	"unicode/utf8"
+
+	"github.com/BurntSushi/toml"
+
+	"drygrid/interp"
+	"drygrid/station"
+)
+
+// jobMaxBytes bounds a job file; real ones are a page.
+const jobMaxBytes = 1 << 20
+
+// jobFile is the TOML layout of a job file (see jobExample).
+type jobFile struct {
+	Window string `toml:"window"`
+	Date   string `toml:"date"`
+	Year   int    `toml:"year"`
+	Title  string `toml:"title"`
+	Inputs struct {
+		Stations    string `toml:"stations"`
+		Totals      string `toml:"totals"`
+		Kind        string `toml:"kind"`
+		ValueColumn string `toml:"value_column"`
+		IDColumn    string `toml:"id_column"`
+		LatColumn   string `toml:"lat_column"`
+		LonColumn   string `toml:"lon_column"`
+		TotalColumn string `toml:"total_column"`
+	} `toml:"inputs"`
+	Index struct {
+		RefStart     int    `toml:"ref_start"`
+		RefEnd       int    `toml:"ref_end"`
+		MinYears     int    `toml:"min_years"`
+		Distribution string `toml:"distribution"`
+	} `toml:"index"`
+	Grid struct {
+		Res  float64   `toml:"res"`
+		BBox []float64 `toml:"bbox"`
+	} `toml:"grid"`
+	Interp struct {
+		Power       float64 `toml:"power"`
+		Neighbors   int     `toml:"neighbors"`
+		RadiusKm    float64 `toml:"radius_km"`
+		MinStations int     `toml:"min_stations"`
+	} `toml:"interpolation"`
+	Bands struct {
+		Scheme string `toml:"scheme"`
+	} `toml:"bands"`
+	Regions struct {
+		File string `toml:"file"`
+		Key  string `toml:"key"`
+	} `toml:"regions"`
+	Output struct {
+		Dir        string   `toml:"dir"`
+		Layers     []string `toml:"layers"`
+		SimplifyKm float64  `toml:"simplify_km"`
+	} `toml:"output"`
+	History struct {
+		File string `toml:"file"`
+	} `toml:"history"`
+}
+
+// jobKnownKeys lists the keys of each table, for the unknown-key message.
+var jobKnownKeys = map[string][]string{
+	"":              {"window", "date", "year", "title", "inputs", "index", "grid", "interpolation", "bands", "regions", "output", "history"},
+	"inputs":        {"stations", "totals", "kind", "value_column", "id_column", "lat_column", "lon_column", "total_column"},
+	"index":         {"ref_start", "ref_end", "min_years", "distribution"},
+	"grid":          {"res", "bbox"},
+	"interpolation": {"power", "neighbors", "radius_km", "min_stations"},
+	"bands":         {"scheme"},
+	"regions":       {"file", "key"},
+	"output":        {"dir", "layers", "simplify_km"},
+	"history":       {"file"},
+}
+
+// runJob is a parsed job: the grid step, and the index step before it when
+// the job names window totals.
+type runJob struct {
+	Path   string // the job file
+	Window string
+	Date   string // YYYY-MM-DD or ""
+	Year   int    // target year, 0 = the latest with a total
+
+	// The index step (when Totals is set): Stations is then the station
+	// list and Grid.Stations only names the index table made in memory.
+	Totals, StationList string
+	Index               station.IndexOptions
+
+	Grid    gridJob
+	History string
+}
+
+// jobPos is where a key's value sits in the job file.
+type jobPos struct{ line, col int }
+
+type jobParser struct {
+	name string
+	data []byte
+	text string            // data without a byte-order mark, as decoded
+	pos  map[string]jobPos // "grid.res" -> position of the value
+}
+
+func (p *jobParser) errAt(key string, format string, args ...any) error {
+	msg := fmt.Sprintf(format, args...)
+	if at, ok := p.pos[key]; ok {
+		return fmt.Errorf("job %s line %d column %d: %s: %s", p.name, at.line, at.col, key, msg)
+	}
+	return fmt.Errorf("job %s: %s: %s", p.name, key, msg)
+}
+
+var (
+	jobKeyPart  = `(?:[A-Za-z0-9_-]+|"[^"\n]*"|'[^'\n]*')`
+	jobAssignRE = regexp.MustCompile(`^(\s*)(` + jobKeyPart + `(?:\s*\.\s*` + jobKeyPart + `)*)\s*=\s*`)
+	jobTableRE  = regexp.MustCompile(`^\s*\[\[?\s*([^\]]+?)\s*\]\]?`)
+	jobPartRE   = regexp.MustCompile(jobKeyPart)
+)
+
+// jobJoinKey normalises a dotted TOML key: parts unquoted, joined by '.'.
+func jobJoinKey(k string) string {
+	var parts []string
+	for _, part := range jobPartRE.FindAllString(k, -1) {
+		if len(part) >= 2 && (part[0] == '"' || part[0] == '\'') {
+			part = part[1 : len(part)-1]
+		}
+		parts = append(parts, part)
+	}
+	return strings.Join(parts, ".")
+}
+
+// jobIndexLines finds where each key's value (and each table header) sits.
+// It only serves error messages: a key it cannot place is reported without
+// a line.
+func jobIndexLines(data []byte) map[string]jobPos {
+	pos := map[string]jobPos{}
+	section, inMulti := "", ""
+	for i, l := range strings.Split(string(data), "\n") {
+		n := i + 1
+		if inMulti != "" {
+			if strings.Count(l, inMulti)%2 == 1 {
+				inMulti = ""
+			}
+			continue
+		}
+		put := func(k string, col int) {
+			if _, ok := pos[k]; !ok {
+				pos[k] = jobPos{n, col}
+			}
+		}
+		if m := jobTableRE.FindStringSubmatchIndex(l); m != nil && !jobAssignRE.MatchString(l) {
+			section = jobJoinKey(l[m[2]:m[3]])
+			put(section, m[2]+1)
+			continue
+		}
+		if m := jobAssignRE.FindStringSubmatchIndex(l); m != nil {
+			k := jobJoinKey(l[m[4]:m[5]])
+			if section != "" {
+				k = section + "." + k
+			}
+			col := utf8.RuneCountInString(l[:m[1]]) + 1
+			put(k, col)
+			rest := l[m[1]:]
+			for _, q := range []string{`"""`, `'''`} {
+				if strings.Count(rest, q)%2 == 1 {
+					inMulti = q
+				}
+			}
+		}
+	}
+	return pos
+}
+
+// jobTOMLLine matches the plain decode errors of BurntSushi/toml:
+// "toml: line L (last key "K"): message".
+var jobTOMLLine = regexp.MustCompile(`^toml: line (\d+) \(last key "([^"]*)"\): (.*)$`)
+
+// jobTOMLError turns a TOML error into "job F line L column C: ...".
+func (p *jobParser) jobTOMLError(err error) error {
+	var pe toml.ParseError
+	if errors.As(err, &pe) {
+		msg := pe.Message
+		if pe.LastKey != "" {
+			msg = fmt.Sprintf("after key %q: %s", pe.LastKey, msg)
+		}
+		if st := pe.Position.Start; st >= 0 && st <= len(p.text) && pe.Position.Line > 0 {
+			// The byte offset is exact where the lexer's line may already
+			// have moved past a newline.
+			before := p.text[:st]
+			line := strings.Count(before, "\n") + 1
+			col := utf8.RuneCountInString(before[strings.LastIndexByte(before, '\n')+1:]) + 1
+			return fmt.Errorf("job %s line %d column %d: %s", p.name, line, col, msg)
+		}
+		if pe.Position.Line > 0 && pe.Position.Col > 0 {
+			return fmt.Errorf("job %s line %d column %d: %s", p.name, pe.Position.Line, pe.Position.Col, msg)
+		}
+		if pe.Position.Line > 0 {
+			return fmt.Errorf("job %s line %d: %s", p.name, pe.Position.Line, msg)
+		}
+		return fmt.Errorf("job %s: %s", p.name, msg)
+	}
+	if m := jobTOMLLine.FindStringSubmatch(err.Error()); m != nil {
+		if at, ok := p.pos[m[2]]; ok {
+			return fmt.Errorf("job %s line %d column %d: %s: %s", p.name, at.line, at.col, m[2], m[3])
+		}
+		return fmt.Errorf("job %s line %s: %s: %s", p.name, m[1], m[2], m[3])
+	}
+	return fmt.Errorf("job %s: %w", p.name, err)
+}
+
+// parseJob reads a job file; name is its path, used in messages and to
+// resolve relative paths (against the file's directory). It reads no other
+// file.
+func parseJob(name string, data []byte) (*runJob, error) {
+	p := &jobParser{name: name, data: data}
+	if len(data) > jobMaxBytes {
+		return nil, fmt.Errorf("job %s: larger than %d bytes; a job file is a page", name, jobMaxBytes)
+	}
+	if len(strings.TrimSpace(strings.TrimPrefix(string(data), "\ufeff"))) == 0 {
+		return nil, fmt.Errorf("job %s line 1: empty job file (see 'drygrid run --example')", name)
+	}
+	if !utf8.Valid(data) {
+		line := strings.Count(string(data[:jobFirstInvalid(data)]), "\n") + 1
+		return nil, fmt.Errorf("job %s line %d: not valid UTF-8; save the file as UTF-8", name, line)
+	}
+	p.pos = jobIndexLines(data)
+	p.text = strings.TrimPrefix(string(data), "\ufeff")
+	var f jobFile
+	md, err := toml.Decode(p.text, &f)
+	if err != nil {
+		return nil, p.jobTOMLError(err)
+	}
+	if und := md.Undecoded(); len(und) > 0 {
+		return nil, p.unknownKey(und)
+	}
+	return p.build(&f, &md)
+}
+
+// jobFirstInvalid is the offset of the first byte that is not UTF-8.
+func jobFirstInvalid(data []byte) int {
+	for i := 0; i < len(data); {
+		r, n := utf8.DecodeRune(data[i:])
+		if r == utf8.RuneError && n <= 1 {
+			return i
+		}
+		i += n
+	}
+	return len(data)
+}
+
+// unknownKey reports the first (by line) key the format does not know.
+func (p *jobParser) unknownKey(keys []toml.Key) error {
+	type hit struct {
+		path string
+		at   jobPos
+	}
+	var hits []hit
+	for _, k := range keys {
+		path := strings.Join(k, ".")
+		hits = append(hits, hit{path, p.pos[path]})
+	}
+	rank := func(h hit) int {
+		if h.at.line == 0 {
+			return math.MaxInt
+		}
+		return h.at.line
+	}
+	sort.SliceStable(hits, func(i, j int) bool { return rank(hits[i]) < rank(hits[j]) })
+	h := hits[0]
+	level, last := "", h.path
+	if i := strings.LastIndexByte(h.path, '.'); i >= 0 {
+		level, last = h.path[:i], h.path[i+1:]
+	}
+	where := "at the top level"
+	if level != "" {
+		where = "in [" + level + "]"
+	}
+	msg := fmt.Sprintf("unknown key %q %s", last, where)
+	if known, ok := jobKnownKeys[level]; ok {
+		msg += " (known: " + strings.Join(known, ", ") + ")"
+	}
+	if h.at.line > 0 {
+		return fmt.Errorf("job %s line %d column %d: %s", p.name, h.at.line, h.at.col, msg)
+	}
+	return fmt.Errorf("job %s: %s", p.name, msg)
+}
+
+// path resolves a path of the job file against its directory; "" stays "".
+func (p *jobParser) path(key, v string, md *toml.MetaData) (string, error) {
+	if v == "" {
+		if md.IsDefined(strings.Split(key, ".")...) {
+			return "", p.errAt(key, "empty path")
+		}
+		return "", nil
+	}
+	if strings.ContainsRune(v, 0) {
+		return "", p.errAt(key, "path holds a NUL byte")
+	}
+	if filepath.IsAbs(v) {
+		return filepath.Clean(v), nil
+	}
+	return filepath.Join(filepath.Dir(p.name), v), nil
+}
+
+func (p *jobParser) build(f *jobFile, md *toml.MetaData) (*runJob, error) {
+	def := func(key string) bool { return md.IsDefined(strings.Split(key, ".")...) }
+	j := &runJob{Path: p.name, Window: f.Window, Date: f.Date, Year: f.Year}
+	if f.Date != "" {
+		d, err := time.Parse("2006-01-02", f.Date)
+		if err != nil || len(f.Date) != 10 {
+			return nil, p.errAt("date", "%q is not a calendar date YYYY-MM-DD", f.Date)
+		}
+		if !def("year") {
+			j.Year = d.Year()
+		}
+	}
+	if def("year") && (f.Year < station.MinTotalYear || f.Year > station.MaxTotalYear) {
+		return nil, p.errAt("year", "%d is not from %d to %d", f.Year, station.MinTotalYear, station.MaxTotalYear)
+	}
+	if !utf8.ValidString(f.Window) || len(f.Window) > 200 {
+		return nil, p.errAt("window", "must be a label of at most 200 bytes")
+	}
+	var err error
+	in := f.Inputs
+	if in.Stations == "" {
+		if def("inputs.stations") {
+			return nil, p.errAt("inputs.stations", "empty path")
+		}
+		return nil, fmt.Errorf("job %s: [inputs] stations is required (the station values, or with totals the station list)", p.name)
+	}
+	kind := station.KindSPI
+	if in.Kind != "" {
+		if kind, err = station.ParseKind(in.Kind); err != nil {
+			return nil, p.errAt("inputs.kind", "%v", err)
+		}
+	}
+	j.Grid.Values = station.ValueOptions{Kind: kind, ValueColumn: in.ValueColumn,
+		IDColumn: in.IDColumn, LatColumn: in.LatColumn, LonColumn: in.LonColumn}
+	stations, err := p.path("inputs.stations", in.Stations, md)
+	if err != nil {
+		return nil, err
+	}
+	if j.Totals, err = p.path("inputs.totals", in.Totals, md); err != nil {
+		return nil, err
+	}
+	if j.Totals != "" {
+		j.StationList = stations
+		j.Index = station.IndexOptions{Year: j.Year, RefStart: f.Index.RefStart, RefEnd: f.Index.RefEnd,
+			MinYears: f.Index.MinYears, Distribution: strings.ToLower(f.Index.Distribution), TotalColumn: in.TotalColumn}
+		if def("index.min_years") && f.Index.MinYears < 1 {
+			return nil, p.errAt("index.min_years", "%d: must be 1 or more", f.Index.MinYears)
+		}
+		if err := j.Index.Validate(); err != nil {
+			key := "index"
+			switch {
+			case strings.Contains(err.Error(), "distribution"):
+				key = "index.distribution"
+			case strings.Contains(err.Error(), "reference"):
+				key = "index.ref_start"
+			case strings.HasPrefix(err.Error(), "year"):
+				key = "year"
+			}
+			return nil, p.errAt(key, "%v", err)
+		}
+		if in.ValueColumn != "" || in.IDColumn != "" || in.LatColumn != "" || in.LonColumn != "" {
+			return nil, p.errAt("inputs", "value_column, id_column, lat_column and lon_column apply to a values table, not to the index step (totals)")
+		}
+		j.Grid.Stations = "index.csv"
+	} else {
+		for _, k := range []string{"index", "inputs.total_column"} {
+			if def(k) {
+				return nil, p.errAt(k, "applies only with [inputs] totals (the index step)")
+			}
+		}
+		j.Grid.Stations = stations
+	}
+
+	j.Grid.Res = 0.1
+	if def("grid.res") {
+		j.Grid.Res = f.Grid.Res
+	}
+	if !(j.Grid.Res > 0 && j.Grid.Res <= 10) {
+		return nil, p.errAt("grid.res", "%g: must be in (0, 10] degrees", j.Grid.Res)
+	}
+	if def("grid.bbox") {
+		if len(f.Grid.BBox) != 4 {
+			return nil, p.errAt("grid.bbox", "want [W, S, E, N] (four numbers in degrees), got %d", len(f.Grid.BBox))
+		}
+		parts := make([]string, 4)
+		for i, v := range f.Grid.BBox {
+			parts[i] = strconv.FormatFloat(v, 'g', -1, 64)
+		}
+		b, err := parseBBox(strings.Join(parts, ","))
+		if err != nil {
+			return nil, p.errAt("grid.bbox", "%v", strings.TrimPrefix(err.Error(), "--bbox "))
+		}
+		j.Grid.BBox = &b
+	}
+	ip := interp.DefaultParams()
+	if def("interpolation.power") {
+		ip.Power = f.Interp.Power
+	}
+	if def("interpolation.neighbors") {
+		ip.Neighbors = f.Interp.Neighbors
+	}
+	if def("interpolation.radius_km") {
+		ip.RadiusKm = f.Interp.RadiusKm
+	}
+	if def("interpolation.min_stations") {
+		ip.MinStations = f.Interp.MinStations
+	}
+	if err := ip.Validate(); err != nil {
+		key := "interpolation"
+		for _, k := range []string{"power", "neighbors", "radius-km", "min-stations"} {
+			if strings.Contains(err.Error(), "interp: "+k) {
+				key = "interpolation." + strings.ReplaceAll(k, "-", "_")
+				break
+			}
+		}
+		return nil, p.errAt(key, "%v", strings.TrimPrefix(err.Error(), "interp: "))
+	}
+	j.Grid.Params = ip
+	if j.Grid.Scheme, err = p.path("bands.scheme", f.Bands.Scheme, md); err != nil {
+		return nil, err
+	}
+	if j.Grid.Regions, err = p.path("regions.file", f.Regions.File, md); err != nil {
+		return nil, err
+	}
+	j.Grid.RegionKey = f.Regions.Key
+	if f.Regions.Key != "" && j.Grid.Regions == "" {
+		return nil, p.errAt("regions.key", "needs [regions] file")
+	}
+	if f.Output.Dir == "" {
+		if def("output.dir") {
+			return nil, p.errAt("output.dir", "empty path")
+		}
+		return nil, fmt.Errorf("job %s: [output] dir is required", p.name)
+	}
+	if j.Grid.Out, err = p.path("output.dir", f.Output.Dir, md); err != nil {
+		return nil, err
+	}
+	layers, err := parseLayers(strings.Join(f.Output.Layers, ","))
+	if err != nil {
+		return nil, p.errAt("output.layers", "%v", strings.TrimPrefix(err.Error(), "--layers: "))
+	}
+	if j.Grid.Regions == "" {
+		if layers["regions"] && def("output.layers") {
+			return nil, p.errAt("output.layers", "layer regions needs [regions] file")
+		}
+		delete(layers, "regions")
+	}
+	j.Grid.Layers = layers
+	if f.Output.SimplifyKm < 0 || math.IsNaN(f.Output.SimplifyKm) || math.IsInf(f.Output.SimplifyKm, 0) {
+		return nil, p.errAt("output.simplify_km", "%g: must be 0 or more", f.Output.SimplifyKm)
+	}
+	j.Grid.SimplifyKm = f.Output.SimplifyKm
+	if j.History, err = p.path("history.file", f.History.File, md); err != nil {
+		return nil, err
+	}
+	if j.History != "" {
+		if j.Grid.Regions == "" {
+			return nil, p.errAt("history.file", "a history of area in drought needs [regions] file")
+		}
+		if j.Date == "" {
+			return nil, p.errAt("history.file", "a history needs the job's date (date = \"YYYY-MM-DD\"), the key of each row")
+		}
+	}
+	j.Grid.Title = f.Title
+	if j.Grid.Title == "" {
+		j.Grid.Title = "drygrid: " + string(kind)
+		if f.Window != "" {
+			j.Grid.Title += ", " + f.Window
+		}
+		if j.Date != "" {
+			j.Grid.Title += ", " + j.Date
+		} else if j.Year != 0 {
+			j.Grid.Title += fmt.Sprintf(", %d", j.Year)
+		}
+	}
+	j.Grid.Command = "run"
+	return j, nil
+}
+
+// jobExample is the commented example printed by `drygrid run --example`. Its
+// paths fit the directory `drygrid demo` writes: save it there as job.toml.
+const jobExample = `# drygrid job file: the daily run in one file ('drygrid run job.toml').
+# Relative paths are relative to this file's directory. An unknown key is an
+# error. This example fits the directory 'drygrid demo' writes (invented data):
+#   drygrid demo --out demo && drygrid run --example > demo/job.toml && drygrid run demo/job.toml
+#
+# The layers are interpolated estimates from a station network, not official
+# drought declarations: consult the national meteorological or hydrological
+# service and follow local rules.
+
+window = "30 days ending 30 November"   # a label for titles and the manifest
+date = "2025-11-30"                     # the run's date: the key of the history rows
+# year = 2025                           # target year of the totals (default: the date's year)
+# title = "..."                         # picture and page title (default: from kind, window, date)
+
+[inputs]
+# With totals: the index step runs first (percentile and SPI per station for
+# the target year) and stations is the station list (id, latitude, longitude).
+# Without totals: stations is a table of values, as for 'drygrid grid --stations'.
+stations = "inputs/stations.csv"
+totals = "inputs/totals.csv"
+kind = "spi"                            # what is mapped: spi or percentile
+# total_column = "total_mm"             # (index step) default: total|total_mm|precip|value
+# value_column = "spi"                  # (values table) default: the column named like kind
+# id_column = "station"
+# lat_column = "lat"
+# lon_column = "lon"
+
+[index]                                 # only with totals
+min_years = 30                          # least number of reference totals
+# ref_start = 1991                      # reference period (default: every year a station has)
+# ref_end = 2020
+distribution = "gamma"                  # gamma or empirical
+
+[grid]
+res = 0.05                              # cell size in degrees
+bbox = [-128.0, -45.0, -116.0, -38.0]   # W, S, E, N; W > E crosses the antimeridian
+                                        # (default: the stations' extent widened by radius_km)
+
+[interpolation]
+power = 2.0                             # IDW weights distance^-power
+neighbors = 12                          # nearest stations used per cell
+radius_km = 150.0                       # search radius, great-circle km
+min_stations = 3                        # fewer stations within the radius: no data
+
+[bands]
+# scheme = "bands.toml"                 # a band scheme file ('drygrid scheme --example'); default: built-in
+
+[regions]
+file = "inputs/districts.geojson"       # Polygon/MultiPolygon features
+key = "name"                            # the property naming each region
+
+[output]
+dir = "daily"                           # replaced atomically; files drygrid did not write are kept
+layers = ["index", "bands", "geojson", "stations", "regions", "map", "page"]   # or ["all"]
+# simplify_km = 0.0                     # simplify band polygons (0: exact cell edges)
+
+[history]
+file = "history.csv"                    # area in drought per region and date, appended (needs date and regions)
+`

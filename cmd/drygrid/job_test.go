@@ -1,0 +1,143 @@
+package main
+
+import (
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// TestParseJobPaths: relative paths resolve against the job file's
+// directory, absolute ones stay; defaults fill what the file leaves out.
+func TestParseJobPaths(t *testing.T) {
+	src := `
+window = "90 days"
+year = 2024
+[inputs]
+stations = "values/spi.csv"
+[grid]
+bbox = [170, -50, -170, -30]
+[regions]
+file = "/srv/districts.geojson"
+key = "code"
+[output]
+dir = "../out"
+layers = ["index", "bands", "regions"]
+`
+	j, err := parseJob(filepath.Join("jobs", "daily", "job.toml"), []byte(src))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if want := filepath.Join("jobs", "daily", "values", "spi.csv"); j.Grid.Stations != want {
+		t.Errorf("stations %s, want %s", j.Grid.Stations, want)
+	}
+	if want := filepath.Join("jobs", "out"); j.Grid.Out != want {
+		t.Errorf("out %s, want %s", j.Grid.Out, want)
+	}
+	if j.Grid.Regions != "/srv/districts.geojson" || j.Grid.RegionKey != "code" {
+		t.Errorf("regions %s key %s", j.Grid.Regions, j.Grid.RegionKey)
+	}
+	// Defaults of `drygrid grid` (DESIGN.md, "Command line").
+	p := j.Grid.Params
+	if j.Grid.Res != 0.1 || p.Power != 2 || p.Neighbors != 12 || p.RadiusKm != 300 || p.MinStations != 3 {
+		t.Errorf("defaults res %g params %+v", j.Grid.Res, p)
+	}
+	if b := *j.Grid.BBox; b != [4]float64{170, -50, -170, -30} {
+		t.Errorf("bbox %v", b)
+	}
+	if j.Grid.Layers.String() != "index,bands,regions" || j.Totals != "" || j.Year != 2024 {
+		t.Errorf("layers %s totals %q year %d", j.Grid.Layers, j.Totals, j.Year)
+	}
+}
+
+// TestParseJobErrors: each mistake is reported with the line and column of
+// the key (columns count from 1, as editors do).
+func TestParseJobErrors(t *testing.T) {
+	base := "[inputs]\nstations = \"s.csv\"\n[output]\ndir = \"out\"\n"
+	cases := []struct{ name, src, want string }{
+		{"unknown top key", "windw = \"x\"\n" + base, `job j.toml line 1 column 9: unknown key "windw" at the top level`},
+		{"unknown table key", base + "[grid]\nres = 0.1\nresolution = 0.1\n", `line 7 column 14: unknown key "resolution" in [grid]`},
+		{"unknown table", base + "[grdi]\nres = 0.1\n", `line 5 column 2: unknown key "grdi" at the top level`},
+		{"dotted unknown", "grid.rez = 1\n" + base, `line 1 column 12: unknown key "rez" in [grid]`},
+		{"bad res", base + "[grid]\n  res = -1\n", "line 6 column 9: grid.res: -1: must be in (0, 10] degrees"},
+		{"wrong type", base + "[grid]\nres = \"fine\"\n", "line 6 column 7: grid.res"},
+		{"bbox len", base + "[grid]\nbbox = [1, 2, 3]\n", "line 6 column 8: grid.bbox: want [W, S, E, N]"},
+		{"bbox lat", base + "[grid]\nbbox = [1, 2, 3, 95]\n", "line 6 column 8: grid.bbox"},
+		{"bad date", "date = \"2025-02-30\"\n" + base, `line 1 column 8: date: "2025-02-30" is not a calendar date`},
+		{"bad kind", "[inputs]\nstations = \"s.csv\"\nkind = \"rain\"\n[output]\ndir = \"o\"\n", "line 3 column 8: inputs.kind"},
+		{"min stations", base + "[interpolation]\nneighbors = 4\nmin_stations = 5\n", "line 7 column 16: interpolation.min_stations"},
+		{"key in wrong table", "[inputs]\nstations = \"s.csv\"\nlayers = [\"index\"]\n[output]\ndir = \"o\"\n", `line 3 column 10: unknown key "layers" in [inputs]`},
+		{"bad layer", "[inputs]\nstations = \"s.csv\"\n[output]\ndir = \"o\"\nlayers = [\"maps\"]\n", `line 5 column 10: output.layers: unknown layer "maps"`},
+		{"history without date", base + "[regions]\nfile = \"r.geojson\"\n[history]\nfile = \"h.csv\"\n", "line 8 column 8: history.file: a history needs the job's date"},
+		{"index without totals", base + "[index]\nmin_years = 10\n", "line 5 column 2: index: applies only with [inputs] totals"},
+		{"no stations", "[output]\ndir = \"o\"\n", "[inputs] stations is required"},
+		{"no out", "[inputs]\nstations = \"s.csv\"\n", "[output] dir is required"},
+		{"syntax", base + "[grid\n", "job j.toml line 5 column 6: "},
+		{"duplicate key", base + "[grid]\nres = 1\nres = 2\n", "line 7"},
+		{"empty", "  \n", "line 1: empty job file"},
+		{"not utf-8", "window = \"a\xffb\"\n" + base, "line 1: not valid UTF-8"},
+		{"empty path", "[inputs]\nstations = \"\"\n[output]\ndir = \"o\"\n", "line 2 column 12: inputs.stations: empty path"},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			_, err := parseJob("j.toml", []byte(c.src))
+			if err == nil || !strings.Contains(err.Error(), c.want) {
+				t.Errorf("error %v\nwant it to contain %q", err, c.want)
+			}
+		})
+	}
+}
+
+// TestParseJobBOM: a UTF-8 byte-order mark alone is fine, and lines are still
+// counted from the first line of the file.
+func TestParseJobBOM(t *testing.T) {
+	src := "\ufeff[inputs]\nstations = \"s.csv\"\n[output]\ndir = \"o\"\n"
+	if _, err := parseJob("j.toml", []byte(src)); err != nil {
+		t.Fatalf("BOM: %v", err)
+	}
+	_, err := parseJob("j.toml", []byte(src+"bogus = 1\n"))
+	if err == nil || !strings.Contains(err.Error(), "line 5 column 9") {
+		t.Errorf("BOM + unknown key: %v", err)
+	}
+}
+
+// FuzzParseJob: no job file panics the parser, and whatever it accepts has
+// the stations and the output directory a run needs.
+func FuzzParseJob(f *testing.F) {
+	f.Add([]byte(jobExample))
+	f.Add([]byte("[inputs]\nstations = \"s.csv\"\n[output]\ndir = \"o\"\n"))
+	f.Add([]byte("[grid]\nbbox = [1e999, 2, 3, 4]\nres = nan\n"))
+	f.Add([]byte("a = '''\nx\n'''\n[[b]]\nc.d = 1\n"))
+	f.Fuzz(func(t *testing.T, data []byte) {
+		j, err := parseJob("fuzz.toml", data)
+		if err != nil {
+			if !strings.HasPrefix(err.Error(), "job fuzz.toml") {
+				t.Fatalf("error without the file name: %v", err)
+			}
+			return
+		}
+		if j.Grid.Stations == "" || j.Grid.Out == "" || len(j.Grid.Layers) == 0 {
+			t.Fatalf("accepted a job without stations, output or layers: %+v", j)
+		}
+		if err := j.Grid.Params.Validate(); err != nil {
+			t.Fatalf("accepted invalid interpolation: %v", err)
+		}
+	})
+}
+
+// TestRunUsage: calling run wrongly is a usage error (exit 2, DESIGN.md
+// "Command line"); a missing job file is a data error naming it.
+func TestRunUsage(t *testing.T) {
+	for _, args := range [][]string{{"run"}, {"run", "a.toml", "b.toml"}, {"run", "--example", "a.toml"}, {"run", "--bogus", "a.toml"}} {
+		if code := run(args); code != exitUsage {
+			t.Errorf("drygrid %s: exit %d, want %d", strings.Join(args, " "), code, exitUsage)
+		}
+	}
+	msg := captureStderr(t, func() {
+		if code := run([]string{"run", filepath.Join(t.TempDir(), "none.toml")}); code != exitData {
+			t.Errorf("missing job: exit %d", code)
+		}
+	})
+	if !strings.Contains(msg, "none.toml") {
+		t.Errorf("message %q does not name the job file", msg)
+	}
+}

@@ -1,0 +1,196 @@
+//go:build unix
+
+package main
+
+import (
+	"errors"
+	"os"
+	"path/filepath"
+	"strings"
+	"syscall"
+	"testing"
+	"time"
+)
+
+// parentLeftovers lists the hidden publish directories beside out.
+func parentLeftovers(t *testing.T, out string) []string {
+	t.Helper()
+	entries, err := os.ReadDir(filepath.Dir(out))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var left []string
+	for _, e := range entries {
+		if strings.HasPrefix(e.Name(), "."+filepath.Base(out)+".drygrid-") {
+			left = append(left, e.Name())
+		}
+	}
+	return left
+}
+
+// TestPublishKeepsUserFiles: files drygrid did not write survive a run, as
+// hard links to the very same files (nothing copied); a layer the new run
+// does not write disappears, so the directory matches its manifest.
+func TestPublishKeepsUserFiles(t *testing.T) {
+	out := filepath.Join(t.TempDir(), "layers")
+	if code := run([]string{"grid", "--stations", exampleSPI, "--out", out}); code != exitOK {
+		t.Fatalf("exit %d", code)
+	}
+	notes := filepath.Join(out, "notes.txt")
+	os.WriteFile(notes, []byte("my notes"), 0o600)
+	os.MkdirAll(filepath.Join(out, "mine", "deep"), 0o755)
+	os.WriteFile(filepath.Join(out, "mine", "deep", "x.csv"), []byte("a,b\n"), 0o644)
+	os.Symlink("notes.txt", filepath.Join(out, "link"))
+	before, _ := os.Stat(notes)
+	if code := run([]string{"grid", "--stations", exampleSPI, "--layers", "index", "--out", out}); code != exitOK {
+		t.Fatalf("exit %d", code)
+	}
+	after, err := os.Stat(notes)
+	if err != nil || !os.SameFile(before, after) {
+		t.Fatalf("notes.txt not kept as the same file: %v", err)
+	}
+	if after.Mode().Perm() != 0o600 {
+		t.Errorf("notes.txt mode %v", after.Mode())
+	}
+	if b, err := os.ReadFile(filepath.Join(out, "mine", "deep", "x.csv")); err != nil || string(b) != "a,b\n" {
+		t.Errorf("mine/deep/x.csv: %q, %v", b, err)
+	}
+	if target, err := os.Readlink(filepath.Join(out, "link")); err != nil || target != "notes.txt" {
+		t.Errorf("link: %q, %v", target, err)
+	}
+	if _, err := os.Stat(filepath.Join(out, "bands.tif")); !errors.Is(err, os.ErrNotExist) {
+		t.Errorf("bands.tif of the earlier run is still there: %v", err)
+	}
+	if _, err := os.Stat(filepath.Join(out, "index.tif")); err != nil {
+		t.Error(err)
+	}
+	if left := parentLeftovers(t, out); len(left) > 0 {
+		t.Errorf("left behind %v", left)
+	}
+}
+
+// TestPublishFailureLeavesEverything: bad input, and a file in the output
+// directory that cannot be hard-linked (a named pipe), both stop the run with
+// every earlier file byte-identical and no temporary directory behind.
+func TestPublishFailureLeavesEverything(t *testing.T) {
+	dir := t.TempDir()
+	out := filepath.Join(dir, "layers")
+	if code := run([]string{"grid", "--stations", exampleSPI, "--out", out}); code != exitOK {
+		t.Fatalf("exit %d", code)
+	}
+	before := hashDir(t, out)
+	bad := filepath.Join(dir, "bad.csv")
+	os.WriteFile(bad, []byte("station,lat,lon,spi\nA,10,10,0.5\nB,10,11,Inf\n"), 0o644)
+	if code := run([]string{"grid", "--stations", bad, "--out", out}); code != exitData {
+		t.Fatalf("bad run: exit %d", code)
+	}
+	if err := syscall.Mkfifo(filepath.Join(out, "pipe"), 0o644); err != nil {
+		t.Skipf("mkfifo: %v", err)
+	}
+	if code := run([]string{"grid", "--stations", exampleSPI, "--out", out}); code != exitData {
+		t.Fatalf("run with a pipe in the output: exit %d, want %d", code, exitData)
+	}
+	if st, err := os.Lstat(filepath.Join(out, "pipe")); err != nil || st.Mode()&os.ModeNamedPipe == 0 {
+		t.Fatalf("pipe gone: %v", err)
+	}
+	os.Remove(filepath.Join(out, "pipe")) // reading it would block
+	after := hashDir(t, out)
+	for name, h := range before {
+		if after[name] != h {
+			t.Errorf("%s changed", name)
+		}
+	}
+	if len(after) != len(before) {
+		t.Errorf("files before %d after %d", len(before), len(after))
+	}
+	if left := parentLeftovers(t, out); len(left) > 0 {
+		t.Errorf("left behind %v", left)
+	}
+}
+
+// TestPublishRecoversCrash: a crash between the two renames leaves no output
+// directory and the previous one aside; the next run puts it back first, so
+// the user's files in it survive. Stale temporary directories (dead pid, or
+// older than an hour) are removed; a live run's recent one is kept.
+func TestPublishRecoversCrash(t *testing.T) {
+	dir := t.TempDir()
+	out := filepath.Join(dir, "layers")
+	if code := run([]string{"grid", "--stations", exampleSPI, "--out", out}); code != exitOK {
+		t.Fatalf("exit %d", code)
+	}
+	os.WriteFile(filepath.Join(out, "notes.txt"), []byte("keep"), 0o644)
+	// A pid above the Linux maximum (4194304) belongs to no process.
+	const deadPid = "99999999"
+	aside := filepath.Join(dir, ".layers.drygrid-old-"+deadPid+"-aaaa")
+	if err := os.Rename(out, aside); err != nil {
+		t.Fatal(err)
+	}
+	staleTmp := filepath.Join(dir, ".layers.drygrid-tmp-"+deadPid+"-bbbb")
+	oldTmp := filepath.Join(dir, ".layers.drygrid-tmp-1-cccc") // pid 1 lives, but the dir is old
+	liveTmp := filepath.Join(dir, ".layers.drygrid-tmp-1-dddd")
+	for _, d := range []string{staleTmp, oldTmp, liveTmp} {
+		os.MkdirAll(d, 0o755)
+		os.WriteFile(filepath.Join(d, "index.tif"), []byte("partial"), 0o644)
+	}
+	long := time.Now().Add(-2 * time.Hour)
+	os.Chtimes(oldTmp, long, long)
+	if code := run([]string{"grid", "--stations", exampleSPI, "--out", out}); code != exitOK {
+		t.Fatalf("exit %d", code)
+	}
+	if b, err := os.ReadFile(filepath.Join(out, "notes.txt")); err != nil || string(b) != "keep" {
+		t.Errorf("notes.txt after recovery: %q, %v", b, err)
+	}
+	left := parentLeftovers(t, out)
+	if len(left) != 1 || left[0] != filepath.Base(liveTmp) {
+		t.Errorf("left %v, want only the live run's %s", left, filepath.Base(liveTmp))
+	}
+}
+
+// TestPublishRefuses: an output path that is a file, or that holds the
+// working directory, is an error before anything is written.
+func TestPublishRefuses(t *testing.T) {
+	dir := t.TempDir()
+	file := filepath.Join(dir, "file")
+	os.WriteFile(file, []byte("x"), 0o644)
+	if code := run([]string{"grid", "--stations", exampleSPI, "--out", file}); code != exitData {
+		t.Errorf("out is a file: exit %d", code)
+	}
+	if b, _ := os.ReadFile(file); string(b) != "x" {
+		t.Errorf("file changed")
+	}
+	wd, _ := os.Getwd()
+	abs, _ := filepath.Abs(exampleSPI)
+	sub := filepath.Join(dir, "work", "here")
+	os.MkdirAll(sub, 0o755)
+	if err := os.Chdir(sub); err != nil {
+		t.Fatal(err)
+	}
+	defer os.Chdir(wd)
+	if code := run([]string{"grid", "--stations", abs, "--out", filepath.Join(dir, "work")}); code != exitData {
+		t.Errorf("out holds the working directory: exit %d", code)
+	}
+	if _, err := os.Stat(sub); err != nil {
+		t.Errorf("working directory gone: %v", err)
+	}
+}
+
+// TestPublishThroughSymlink: an output path that is a symbolic link to a
+// directory replaces the directory and keeps the link.
+func TestPublishThroughSymlink(t *testing.T) {
+	dir := t.TempDir()
+	real := filepath.Join(dir, "real")
+	os.MkdirAll(real, 0o755)
+	link := filepath.Join(dir, "current")
+	if err := os.Symlink(real, link); err != nil {
+		t.Skip(err)
+	}
+	if code := run([]string{"grid", "--stations", exampleSPI, "--layers", "index", "--out", link}); code != exitOK {
+		t.Fatalf("exit %d", code)
+	}
+	if st, err := os.Lstat(link); err != nil || st.Mode()&os.ModeSymlink == 0 {
+		t.Errorf("link replaced: %v", err)
+	}
+	if _, err := os.Stat(filepath.Join(real, "index.tif")); err != nil {
+		t.Error(err)
+	}
+}

@@ -1,0 +1,142 @@
+package interp
+
+import (
+	"math"
+	"runtime"
+	"sync"
+	"sync/atomic"
+)
+
+// Residual is the leave-one-out result of one station.
+type Residual struct {
+	// Predicted is the estimate at the station from all the other stations
+	// (NaN when not counted); Observed is its own value.
+	Predicted, Observed float64
+	// N is the number of stations the prediction used; when not counted, the
+	// number of other stations found within the radius.
+	N int
+	// Counted is false when fewer than MinStations other stations lie within
+	// the radius (the coverage rule): the station is left out of the figures.
+	Counted bool
+	// PredictedBand and ObservedBand are classify of the two values (0 when
+	// not counted or when no classify was given).
+	PredictedBand, ObservedBand uint8
+}
+
+// CrossValResult are the leave-one-out figures of a parameter set.
+type CrossValResult struct {
+	Params   Params
+	Stations []Residual // one per input point, in input order
+	// N is the number of counted stations; the figures below are over them,
+	// with the residual r = predicted - observed.
+	N int
+	// RMSE is sqrt(mean r^2), MAE mean |r|, Bias mean r: positive when the
+	// map overestimates (too wet), negative when it underestimates (too dry).
+	// All NaN when N is 0.
+	RMSE, MAE, Bias float64
+	// BandAgreement is the share (0..1) of counted stations whose predicted
+	// band equals their observed band; NaN when N is 0 or classify was nil.
+	BandAgreement float64
+}
+
+// CrossValidate leaves each station out in turn and predicts its value from
+// the others with the parameters p, exactly as Grid would at that point
+// (same radius, neighbours, sectors, weights and 1 m rule; a co-located
+// other station gives its value). classify, when not nil, maps a value to a
+// band code for BandAgreement. Stations are spread over p.Workers
+// goroutines; the result does not depend on their number. It fails only as
+// New does (bad parameters or points).
+func CrossValidate(pts []Point, p Params, classify func(z float64) uint8) (CrossValResult, error) {
+	ip, err := New(pts, p)
+	if err != nil {
+		return CrossValResult{}, err
+	}
+	return ip.crossValidate(pts, classify), nil
+}
+
+// crossValidate is CrossValidate over the points ip was built from.
+func (ip *Interpolator) crossValidate(pts []Point, classify func(z float64) uint8) CrossValResult {
+	n := len(pts)
+	rank := make([]int32, n)
+	for r, i := range ip.id {
+		rank[i] = int32(r)
+	}
+	res := make([]Residual, n)
+	workers := ip.p.Workers
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	const chunk = 64
+	workers = max(1, min(workers, (n+chunk-1)/chunk))
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for range workers {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			c := newCands(ip.k)
+			for {
+				start := int(next.Add(chunk) - chunk)
+				if start >= n {
+					return
+				}
+				for i := start; i < min(start+chunk, n); i++ {
+					res[i] = ip.leaveOneOut(c, pts[i], rank[i], classify)
+				}
+			}
+		}()
+	}
+	wg.Wait()
+	return summarise(ip.p, res, classify != nil)
+}
+
+// leaveOneOut predicts station q (rank self) from the others.
+func (ip *Interpolator) leaveOneOut(c *cands, q Point, self int32, classify func(z float64) uint8) Residual {
+	m := ip.selectAt(q.Lon, q.Lat, c)
+	for j := range m {
+		if c.cs[j].rk == self {
+			c.cs[j] = c.cs[m-1]
+			m--
+			break
+		}
+	}
+	cx, cy, cz := unitVector(q.Lon, q.Lat)
+	v, used, ok := ip.estimateAt(c, m, q.Lon, q.Lat, cx, cy, cz)
+	r := Residual{Predicted: math.NaN(), Observed: q.Z, N: used, Counted: ok}
+	if ok {
+		r.Predicted = v
+		if classify != nil {
+			r.PredictedBand, r.ObservedBand = classify(v), classify(q.Z)
+		}
+	}
+	return r
+}
+
+// summarise adds up the residuals in input order.
+func summarise(p Params, res []Residual, banded bool) CrossValResult {
+	out := CrossValResult{Params: p, Stations: res}
+	var s, sa, s2 float64
+	agree := 0
+	for _, r := range res {
+		if !r.Counted {
+			continue
+		}
+		d := r.Predicted - r.Observed
+		s += d
+		sa += math.Abs(d)
+		s2 += d * d
+		out.N++
+		agree += b2i(r.PredictedBand == r.ObservedBand)
+	}
+	if out.N == 0 {
+		out.RMSE, out.MAE, out.Bias, out.BandAgreement = math.NaN(), math.NaN(), math.NaN(), math.NaN()
+		return out
+	}
+	nf := float64(out.N)
+	out.RMSE, out.MAE, out.Bias = math.Sqrt(s2/nf), sa/nf, s/nf
+	out.BandAgreement = math.NaN()
+	if banded {
+		out.BandAgreement = float64(agree) / nf
+	}
+	return out
+}
