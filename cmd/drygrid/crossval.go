@@ -422,17 +422,6 @@ func cvRunSearch(pts []interp.Point, combos []interp.Params, scheme *classes.Sch
 	return nil
 }
 
-// printGridCrossval cross-validates a grid run with its parameters (grid
-// --crossval) and prints the figures after the run's summary.
-func printGridCrossval(w io.Writer, res *gridResult, p interp.Params) error {
-	r, err := crossvalGrid(res, p)
-	if err != nil {
-		return err
-	}
-	printCrossval(w, res.Values.Path, r)
-	return nil
-}
-
 // gridCrossvalFigures cross-validates a grid run with its parameters and
 // returns crossvalFigures, for the "crossval" entry of the manifest's counts
 // (grid --crossval).

@@ -88,10 +88,8 @@ The layers are interpolated estimates, not official drought declarations.`,
 			if err != nil {
 				return err
 			}
-			if f.crossval {
-				if err := printGridCrossval(cmd.ErrOrStderr(), res, job.Params); err != nil {
-					return err
-				}
+			if res.crossval != nil {
+				printCrossval(cmd.ErrOrStderr(), res.Values.Path, *res.crossval)
 			}
 			return appendHistory(f.history, f.date, res, cmd.ErrOrStderr())
 		},
@@ -170,6 +168,7 @@ func (f gridFlags) job() (gridJob, error) {
 			IDColumn: f.idColumn, LatColumn: f.latColumn, LonColumn: f.lonColumn},
 		Res: f.res, Params: p, Scheme: f.scheme, Regions: f.regions, RegionKey: f.regionKey,
 		Layers: layers, SimplifyKm: f.simplifyKm, Title: f.title, Out: f.out,
+		CrossVal: f.crossval,
 	}
 	if f.bbox != "" {
 		b, err := parseBBox(f.bbox)

@@ -52,6 +52,8 @@ type jobFile struct {
 		Neighbors   int     `toml:"neighbors"`
 		RadiusKm    float64 `toml:"radius_km"`
 		MinStations int     `toml:"min_stations"`
+		Sectors     int     `toml:"sectors"`
+		CrossVal    bool    `toml:"crossval"`
 	} `toml:"interpolation"`
 	Bands struct {
 		Scheme string `toml:"scheme"`
@@ -76,7 +78,7 @@ var jobKnownKeys = map[string][]string{
 	"inputs":        {"stations", "totals", "kind", "value_column", "id_column", "lat_column", "lon_column", "total_column"},
 	"index":         {"ref_start", "ref_end", "min_years", "distribution"},
 	"grid":          {"res", "bbox"},
-	"interpolation": {"power", "neighbors", "radius_km", "min_stations"},
+	"interpolation": {"power", "neighbors", "radius_km", "min_stations", "sectors", "crossval"},
 	"bands":         {"scheme"},
 	"regions":       {"file", "key"},
 	"output":        {"dir", "layers", "simplify_km"},
@@ -417,9 +419,12 @@ func (p *jobParser) build(f *jobFile, md *toml.MetaData) (*runJob, error) {
 	if def("interpolation.min_stations") {
 		ip.MinStations = f.Interp.MinStations
 	}
+	if def("interpolation.sectors") {
+		ip.Sectors = f.Interp.Sectors
+	}
 	if err := ip.Validate(); err != nil {
 		key := "interpolation"
-		for _, k := range []string{"power", "neighbors", "radius-km", "min-stations"} {
+		for _, k := range []string{"power", "neighbors", "radius-km", "min-stations", "sectors"} {
 			if strings.Contains(err.Error(), "interp: "+k) {
 				key = "interpolation." + strings.ReplaceAll(k, "-", "_")
 				break
@@ -428,6 +433,7 @@ func (p *jobParser) build(f *jobFile, md *toml.MetaData) (*runJob, error) {
 		return nil, p.errAt(key, "%v", strings.TrimPrefix(err.Error(), "interp: "))
 	}
 	j.Grid.Params = ip
+	j.Grid.CrossVal = f.Interp.CrossVal
 	if j.Grid.Scheme, err = p.path("bands.scheme", f.Bands.Scheme, md); err != nil {
 		return nil, err
 	}
@@ -534,6 +540,8 @@ power = 2.0                             # IDW weights distance^-power
 neighbors = 12                          # nearest stations used per cell
 radius_km = 150.0                       # search radius, great-circle km
 min_stations = 3                        # fewer stations within the radius: no data
+sectors = 0                             # 4 or 8: at most neighbors/sectors stations per direction
+crossval = false                        # true: leave-one-out figures in the summary and manifest
 
 [bands]
 # scheme = "bands.toml"                 # a band scheme file ('drygrid scheme --example'); default: built-in

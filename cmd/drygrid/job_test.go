@@ -65,6 +65,7 @@ func TestParseJobErrors(t *testing.T) {
 		{"bad date", "date = \"2025-02-30\"\n" + base, `line 1 column 8: date: "2025-02-30" is not a calendar date`},
 		{"bad kind", "[inputs]\nstations = \"s.csv\"\nkind = \"rain\"\n[output]\ndir = \"o\"\n", "line 3 column 8: inputs.kind"},
 		{"min stations", base + "[interpolation]\nneighbors = 4\nmin_stations = 5\n", "line 7 column 16: interpolation.min_stations"},
+		{"sectors", base + "[interpolation]\nsectors = 3\n", "line 6 column 11: interpolation.sectors"},
 		{"key in wrong table", "[inputs]\nstations = \"s.csv\"\nlayers = [\"index\"]\n[output]\ndir = \"o\"\n", `line 3 column 10: unknown key "layers" in [inputs]`},
 		{"bad layer", "[inputs]\nstations = \"s.csv\"\n[output]\ndir = \"o\"\nlayers = [\"maps\"]\n", `line 5 column 10: output.layers: unknown layer "maps"`},
 		{"history without date", base + "[regions]\nfile = \"r.geojson\"\n[history]\nfile = \"h.csv\"\n", "line 8 column 8: history.file: a history needs the job's date"},
@@ -139,5 +140,18 @@ func TestRunUsage(t *testing.T) {
 	})
 	if !strings.Contains(msg, "none.toml") {
 		t.Errorf("message %q does not name the job file", msg)
+	}
+}
+
+// TestParseJobSectors: the interpolation table carries --sectors and
+// --crossval into the run (issue 9 through the job file).
+func TestParseJobSectors(t *testing.T) {
+	src := "[inputs]\nstations = \"s.csv\"\n[interpolation]\nsectors = 8\nneighbors = 16\ncrossval = true\n[output]\ndir = \"o\"\n"
+	j, err := parseJob("j.toml", []byte(src))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if j.Grid.Params.Sectors != 8 || j.Grid.Params.Neighbors != 16 || !j.Grid.CrossVal {
+		t.Errorf("params %+v crossval %v", j.Grid.Params, j.Grid.CrossVal)
 	}
 }

@@ -41,6 +41,9 @@ type gridJob struct {
 
 	// Command names the command in the manifest ("grid", "demo", "run").
 	Command string
+	// CrossVal adds leave-one-out cross-validation figures to the manifest
+	// (and to the result, for the summary).
+	CrossVal bool
 	// StationsData, when not nil, is the stations table itself (the index
 	// step's output, made in memory); Stations then only names it.
 	StationsData []byte
@@ -65,7 +68,8 @@ type gridResult struct {
 	Files   []string
 	Elapsed time.Duration
 
-	timings map[string]float64 // seconds by step, for the manifest
+	timings  map[string]float64     // seconds by step, for the manifest
+	crossval *interp.CrossValResult // with job.CrossVal
 }
 
 // runGrid reads the stations, interpolates, classifies and writes the

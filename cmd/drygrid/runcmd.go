@@ -129,6 +129,9 @@ func runJobFile(path string, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
+	if res.crossval != nil {
+		printCrossval(stderr, res.Values.Path, *res.crossval)
+	}
 	if j.History != "" {
 		if err := export.AppendHistory(j.History, j.Date, res.Regions, res.Scheme); err != nil {
 			return fmt.Errorf("layers published in %s, but the history was not updated: %w", g.Out, err)

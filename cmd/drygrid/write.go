@@ -31,7 +31,7 @@ func (w *layerWriter) params() map[string]any {
 	return map[string]any{
 		"kind": string(w.job.Values.Kind), "res_deg": w.res.Spec.Res,
 		"power": p.Power, "neighbors": p.Neighbors, "radius_km": p.RadiusKm, "min_stations": p.MinStations,
-		"scheme": w.res.Scheme.Name, "stations": len(w.res.Values.Stations),
+		"sectors": p.Sectors, "scheme": w.res.Scheme.Name, "stations": len(w.res.Values.Stations),
 	}
 }
 
@@ -165,7 +165,7 @@ func buildManifest(job gridJob, res *gridResult, dir string, start time.Time) (*
 		"kind": string(job.Values.Kind), "value_column": res.Values.Column,
 		"res_deg": job.Res, "bbox": bbox,
 		"power": p.Power, "neighbors": p.Neighbors, "radius_km": p.RadiusKm, "min_stations": p.MinStations,
-		"scheme": res.Scheme.Name, "region_key": job.RegionKey,
+		"sectors": p.Sectors, "scheme": res.Scheme.Name, "region_key": job.RegionKey,
 		"layers": strings.Split(job.Layers.String(), ","), "simplify_km": job.SimplifyKm,
 	}
 	for k, v := range job.ExtraParams {
@@ -188,6 +188,14 @@ func buildManifest(job gridJob, res *gridResult, dir string, start time.Time) (*
 	}
 	for k, v := range job.ExtraCounts {
 		counts[k] = v
+	}
+	if job.CrossVal {
+		cv, err := crossvalGrid(res, job.Params)
+		if err != nil {
+			return nil, err
+		}
+		res.crossval = &cv
+		counts["crossval"] = crossvalFigures(cv)
 	}
 	s := res.Spec
 	gridInfo := map[string]any{
