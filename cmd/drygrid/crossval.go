@@ -21,21 +21,12 @@ import (
 
 // crossvalFlags are the flags of `drygrid crossval`.
 type crossvalFlags struct {
-	stations    string
-	kind        string
-	valueColumn string
-	idColumn    string
-	latColumn   string
-	lonColumn   string
-	power       float64
-	neighbors   int
-	radiusKm    float64
-	minStations int
-	sectors     int
-	scheme      string
-	residuals   string
-	json        bool
-	search      []string
+	inputFlags
+	interpFlags
+	scheme    string
+	residuals string
+	json      bool
+	search    []string
 }
 
 // cvMaxCombos bounds the parameter sets one --search may try.
@@ -80,17 +71,8 @@ national meteorological or hydrological service and local rules.`,
 		},
 	}
 	fl := cmd.Flags()
-	fl.StringVar(&f.stations, "stations", "", "station value table (CSV or TSV, optionally .gz) with id, latitude, longitude and the value (required)")
-	fl.StringVar(&f.kind, "kind", "spi", "what the values are: spi or percentile")
-	fl.StringVar(&f.valueColumn, "value-column", "", "name of the value column (default: the column named like --kind)")
-	fl.StringVar(&f.idColumn, "id-column", "", "name of the station id column (default: station|id|station_id|site)")
-	fl.StringVar(&f.latColumn, "lat-column", "", "name of the latitude column (default: latitude|lat)")
-	fl.StringVar(&f.lonColumn, "lon-column", "", "name of the longitude column (default: longitude|lon|long|lng)")
-	fl.Float64Var(&f.power, "power", 2, "IDW power: weights are distance^-power")
-	fl.IntVar(&f.neighbors, "neighbors", 12, "use at most this many nearest stations per prediction")
-	fl.Float64Var(&f.radiusKm, "radius-km", 300, "search radius in km (great-circle)")
-	fl.IntVar(&f.minStations, "min-stations", 3, "a station with fewer other stations within the radius is not counted")
-	fl.IntVar(&f.sectors, "sectors", 0, "0 (off), 4 or 8: at most neighbors/sectors stations per direction sector")
+	f.inputFlags.register(fl)
+	f.interpFlags.register(fl, "prediction", "a station with fewer other stations within the radius is not counted")
 	fl.StringVar(&f.scheme, "scheme", "", "band scheme file for band_agreement (TOML; default: the nine built-in bands)")
 	fl.StringVar(&f.residuals, "residuals", "", "write one row per station to this CSV")
 	fl.BoolVar(&f.json, "json", false, "print JSON instead of text")
@@ -100,15 +82,11 @@ national meteorological or hydrological service and local rules.`,
 
 // runCrossval is the crossval command; terms are the --search terms.
 func runCrossval(f crossvalFlags, terms []string, stdout, stderr io.Writer) error {
-	if f.stations == "" {
-		return usagef("--stations FILE is required")
+	values, err := f.options()
+	if err != nil {
+		return err
 	}
-	kind := station.Kind(strings.ToLower(f.kind))
-	if kind != station.KindSPI && kind != station.KindPercentile {
-		return usagef("--kind must be spi or percentile, not %q", f.kind)
-	}
-	base := interp.Params{Power: f.power, Neighbors: f.neighbors, RadiusKm: f.radiusKm,
-		MinStations: f.minStations, Sectors: f.sectors}
+	base := f.params()
 	var combos []interp.Params
 	if len(terms) > 0 {
 		if f.residuals != "" {
@@ -132,8 +110,7 @@ func runCrossval(f crossvalFlags, terms []string, stdout, stderr io.Writer) erro
 		}
 		scheme = s
 	}
-	vals, err := station.ReadValues(f.stations, station.ValueOptions{Kind: kind, ValueColumn: f.valueColumn,
-		IDColumn: f.idColumn, LatColumn: f.latColumn, LonColumn: f.lonColumn})
+	vals, err := station.ReadValues(f.stations, values)
 	if err != nil {
 		return err
 	}

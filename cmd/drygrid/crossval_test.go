@@ -354,8 +354,8 @@ func TestGridSectorsAgainstNumPy(t *testing.T) {
 // carry the keys.
 func TestGridCrossvalFigures(t *testing.T) {
 	out := filepath.Join(t.TempDir(), "layers")
-	f := gridFlags{stations: exampleSPI, kind: "spi", res: 0.1, power: 2, neighbors: 12, radiusKm: 300, minStations: 3,
-		sectors: 4, layers: "index", out: out}
+	f := gridFlags{inputFlags: inputFlags{stations: exampleSPI, kind: "spi"}, res: 0.1,
+		interpFlags: interpFlags{power: 2, neighbors: 12, radiusKm: 300, minStations: 3, sectors: 4}, layers: "index", out: out}
 	job, err := f.job()
 	if err != nil {
 		t.Fatal(err)

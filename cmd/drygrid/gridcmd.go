@@ -11,35 +11,24 @@ import (
 	"github.com/spf13/cobra"
 
 	"drygrid/export"
-	"drygrid/interp"
-	"drygrid/station"
 )
 
 // gridFlags are the flags of `drygrid grid` that shape one run.
 type gridFlags struct {
-	stations    string
-	kind        string
-	valueColumn string
-	idColumn    string
-	latColumn   string
-	lonColumn   string
-	res         float64
-	bbox        string
-	power       float64
-	neighbors   int
-	radiusKm    float64
-	minStations int
-	sectors     int  // --sectors (crossval.go, issue 9)
-	crossval    bool // --crossval (crossval.go, issue 9)
-	scheme      string
-	regions     string
-	regionKey   string
-	layers      string
-	simplifyKm  float64
-	title       string
-	history     string
-	date        string
-	out         string
+	inputFlags
+	interpFlags
+	res        float64
+	bbox       string
+	crossval   bool // --crossval (crossval.go, issue 9)
+	scheme     string
+	regions    string
+	regionKey  string
+	layers     string
+	simplifyKm float64
+	title      string
+	history    string
+	date       string
+	out        string
 }
 
 func newGridCmd() *cobra.Command {
@@ -95,19 +84,10 @@ The layers are interpolated estimates, not official drought declarations.`,
 		},
 	}
 	fl := cmd.Flags()
-	fl.StringVar(&f.stations, "stations", "", "station value table (CSV or TSV, optionally .gz) with id, latitude, longitude and the value (required)")
-	fl.StringVar(&f.kind, "kind", "spi", "what the values are: spi or percentile")
-	fl.StringVar(&f.valueColumn, "value-column", "", "name of the value column (default: the column named like --kind)")
-	fl.StringVar(&f.idColumn, "id-column", "", "name of the station id column (default: station|id|station_id|site)")
-	fl.StringVar(&f.latColumn, "lat-column", "", "name of the latitude column (default: latitude|lat)")
-	fl.StringVar(&f.lonColumn, "lon-column", "", "name of the longitude column (default: longitude|lon|long|lng)")
+	f.inputFlags.register(fl)
 	fl.Float64Var(&f.res, "res", 0.1, "cell size in degrees")
 	fl.StringVar(&f.bbox, "bbox", "", "W,S,E,N in degrees; W > E crosses the antimeridian (default: the stations' extent widened by --radius-km)")
-	fl.Float64Var(&f.power, "power", 2, "IDW power: weights are distance^-power")
-	fl.IntVar(&f.neighbors, "neighbors", 12, "use at most this many nearest stations per cell")
-	fl.Float64Var(&f.radiusKm, "radius-km", 300, "search radius in km (great-circle)")
-	fl.IntVar(&f.minStations, "min-stations", 3, "a cell with fewer stations within the radius is no data")
-	fl.IntVar(&f.sectors, "sectors", 0, "0 (off), 4 or 8: at most neighbors/sectors stations per direction sector around a cell")
+	f.interpFlags.register(fl, "cell", "a cell with fewer stations within the radius is no data")
 	fl.BoolVar(&f.crossval, "crossval", false, "also cross-validate (leave one out) with the same parameters and print the figures")
 	fl.StringVar(&f.scheme, "scheme", "", "band scheme file (TOML; default: the nine built-in bands; see 'drygrid scheme --example')")
 	fl.StringVar(&f.regions, "regions", "", "regions GeoJSON (Polygon/MultiPolygon features) for area-in-drought statistics")
@@ -124,15 +104,12 @@ The layers are interpolated estimates, not official drought declarations.`,
 // job checks the flags and turns them into a run description.
 func (f gridFlags) job() (gridJob, error) {
 	var j gridJob
-	if f.stations == "" {
-		return j, usagef("--stations FILE is required")
+	values, err := f.options()
+	if err != nil {
+		return j, err
 	}
 	if f.out == "" {
 		return j, usagef("--out DIR is required")
-	}
-	kind := station.Kind(strings.ToLower(f.kind))
-	if kind != station.KindSPI && kind != station.KindPercentile {
-		return j, usagef("--kind must be spi or percentile, not %q", f.kind)
 	}
 	if !(f.res > 0 && f.res <= 10) {
 		return j, usagef("--res %g: must be in (0, 10] degrees", f.res)
@@ -140,7 +117,7 @@ func (f gridFlags) job() (gridJob, error) {
 	if f.simplifyKm < 0 || math.IsNaN(f.simplifyKm) {
 		return j, usagef("--simplify-km %g: must be 0 or more", f.simplifyKm)
 	}
-	p := interp.Params{Power: f.power, Neighbors: f.neighbors, RadiusKm: f.radiusKm, MinStations: f.minStations, Sectors: f.sectors}
+	p := f.params()
 	if err := p.Validate(); err != nil {
 		return j, usageError{err}
 	}
@@ -164,9 +141,8 @@ func (f gridFlags) job() (gridJob, error) {
 	}
 	j = gridJob{
 		Stations: f.stations,
-		Values: station.ValueOptions{Kind: kind, ValueColumn: f.valueColumn,
-			IDColumn: f.idColumn, LatColumn: f.latColumn, LonColumn: f.lonColumn},
-		Res: f.res, Params: p, Scheme: f.scheme, Regions: f.regions, RegionKey: f.regionKey,
+		Values:   values,
+		Res:      f.res, Params: p, Scheme: f.scheme, Regions: f.regions, RegionKey: f.regionKey,
 		Layers: layers, SimplifyKm: f.simplifyKm, Title: f.title, Out: f.out,
 		CrossVal: f.crossval,
 	}
