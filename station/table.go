@@ -11,6 +11,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"math"
 	"os"
 	"strconv"
 	"strings"
@@ -322,4 +323,22 @@ func (t *Table) ParseFloat(s string) (float64, error) {
 		return 0, fmt.Errorf("%q is not a number", s)
 	}
 	return v, nil
+}
+
+// Float reads a required finite number from column col of a record: a
+// missing cell, a non-number, NaN or Inf is an error naming the file, line
+// and column; what names the quantity in the message.
+func (t *Table) Float(rec []string, line, col int, what string) (float64, error) {
+	s := rec[col]
+	if IsMissing(s) {
+		return 0, t.FieldError(line, col, "missing %s", what)
+	}
+	x, err := t.ParseFloat(s)
+	if err != nil {
+		return 0, t.FieldError(line, col, "%s %v", what, err)
+	}
+	if math.IsNaN(x) || math.IsInf(x, 0) {
+		return 0, t.FieldError(line, col, "%s %s is not a finite number", what, s)
+	}
+	return x, nil
 }

@@ -64,20 +64,6 @@ func idxReadSites(t *Table) ([]idxSite, map[string]int, error) {
 	}
 	var sites []idxSite
 	byID := make(map[string]int)
-	coord := func(rec []string, line, col int, what string) (float64, error) {
-		s := rec[col]
-		if IsMissing(s) {
-			return 0, t.FieldError(line, col, "missing %s", what)
-		}
-		x, err := t.ParseFloat(s)
-		if err != nil {
-			return 0, t.FieldError(line, col, "%s %v", what, err)
-		}
-		if math.IsNaN(x) || math.IsInf(x, 0) {
-			return 0, t.FieldError(line, col, "%s %s is not a finite number", what, s)
-		}
-		return x, nil
-	}
 	for {
 		rec, line, err := t.Next()
 		if err == io.EOF {
@@ -93,14 +79,14 @@ func idxReadSites(t *Table) ([]idxSite, map[string]int, error) {
 		if first, dup := byID[id]; dup {
 			return nil, nil, t.FieldError(line, idC, "station %s is listed twice, on lines %d and %d", id, sites[first].Line, line)
 		}
-		lat, err := coord(rec, line, latC, "latitude")
+		lat, err := t.Float(rec, line, latC, "latitude")
 		if err != nil {
 			return nil, nil, err
 		}
 		if lat < -90 || lat > 90 {
 			return nil, nil, t.FieldError(line, latC, "latitude %s outside [-90, 90]", rec[latC])
 		}
-		lon, err := coord(rec, line, lonC, "longitude")
+		lon, err := t.Float(rec, line, lonC, "longitude")
 		if err != nil {
 			return nil, nil, err
 		}

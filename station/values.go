@@ -214,20 +214,6 @@ func readValues(t *Table, opt ValueOptions) (*Values, error) {
 			dropped++
 		}
 	}
-	num := func(rec []string, line, col int, what string) (float64, error) {
-		s := rec[col]
-		if IsMissing(s) {
-			return 0, t.FieldError(line, col, "missing %s", what)
-		}
-		x, err := t.ParseFloat(s)
-		if err != nil {
-			return 0, t.FieldError(line, col, "%s %v", what, err)
-		}
-		if math.IsNaN(x) || math.IsInf(x, 0) {
-			return 0, t.FieldError(line, col, "%s %s is not a finite number", what, s)
-		}
-		return x, nil
-	}
 	for {
 		rec, line, err := t.Next()
 		if err == io.EOF {
@@ -241,14 +227,14 @@ func readValues(t *Table, opt ValueOptions) (*Values, error) {
 		if id == "" {
 			return nil, t.FieldError(line, idC, "missing station id")
 		}
-		lat, err := num(rec, line, latC, "latitude")
+		lat, err := t.Float(rec, line, latC, "latitude")
 		if err != nil {
 			return nil, err
 		}
 		if lat < -90 || lat > 90 {
 			return nil, t.FieldError(line, latC, "latitude %s outside [-90, 90]", rec[latC])
 		}
-		lon, err := num(rec, line, lonC, "longitude")
+		lon, err := t.Float(rec, line, lonC, "longitude")
 		if err != nil {
 			return nil, err
 		}
@@ -260,7 +246,7 @@ func readValues(t *Table, opt ValueOptions) (*Values, error) {
 		}
 		row := valuesRow{line: line, lat: lat, lon: lon, missing: IsMissing(rec[valC])}
 		if !row.missing {
-			x, err := num(rec, line, valC, string(kind))
+			x, err := t.Float(rec, line, valC, string(kind))
 			if err != nil {
 				return nil, err
 			}
