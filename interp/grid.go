@@ -112,20 +112,18 @@ func (ip *Interpolator) rowCandidates(w *rowWork, lat float64) []int32 {
 	return w.ranks
 }
 
-// gridRow fills one row of cells at latitude lat; colStep is the longitude
-// step between cell centres.
-func (ip *Interpolator) gridRow(w *rowWork, lat, colStep float64, colLon, colCos, colSin []float64, dst []float32) {
-	if ip.p.Sectors > 0 {
-		ip.gridRowSectors(w, lat, colLon, colCos, colSin, dst) // sectors.go
-		return
-	}
+// rowStations gathers the candidate stations of a row at latitude lat into
+// w.lon and w.st, with copies shifted by -360 and +360 unless the search
+// window spans every longitude (full). dl is the half-width of the window
+// in longitude; ok is false when the row has fewer candidates than
+// MinStations, so every cell of it is no data.
+func (ip *Interpolator) rowStations(w *rowWork, lat float64) (dl float64, full, ok bool) {
 	ranks := ip.rowCandidates(w, lat)
-	m := len(ranks)
-	if m < ip.p.MinStations {
-		return // already no data
+	if len(ranks) < ip.p.MinStations {
+		return 0, false, false
 	}
-	dl := lonHalfWidth(lat, ip.theta)
-	full := dl > 179
+	dl = lonHalfWidth(lat, ip.theta)
+	full = dl > 179
 	copies := 3
 	if full {
 		copies = 1
@@ -140,6 +138,20 @@ func (ip *Interpolator) gridRow(w *rowWork, lat, colStep float64, colLon, colCos
 			w.lon = append(w.lon, ip.lon[r]+shift)
 			w.st = append(w.st, rowStation{ip.x[r], ip.y[r], ip.z[r], ip.val[r], r})
 		}
+	}
+	return dl, full, true
+}
+
+// gridRow fills one row of cells at latitude lat; colStep is the longitude
+// step between cell centres.
+func (ip *Interpolator) gridRow(w *rowWork, lat, colStep float64, colLon, colCos, colSin []float64, dst []float32) {
+	if ip.p.Sectors > 0 {
+		ip.gridRowSectors(w, lat, colLon, colCos, colSin, dst) // sectors.go
+		return
+	}
+	dl, full, ok := ip.rowStations(w, lat)
+	if !ok {
+		return // already no data
 	}
 	sp, cp := math.Sincos(lat * degToRad)
 	c2max := ip.c2max

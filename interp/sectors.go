@@ -154,26 +154,9 @@ func (ip *Interpolator) estimateAt(c *cands, n int, lon, lat, cx, cy, cz float64
 // longitude window out to the full radius (the k-th-nearest shortcut of
 // gridRow does not hold when far stations in empty sectors are wanted).
 func (ip *Interpolator) gridRowSectors(w *rowWork, lat float64, colLon, colCos, colSin []float64, dst []float32) {
-	ranks := ip.rowCandidates(w, lat)
-	if len(ranks) < ip.p.MinStations {
+	dl, full, ok := ip.rowStations(w, lat)
+	if !ok {
 		return // already no data
-	}
-	dl := lonHalfWidth(lat, ip.theta)
-	full := dl > 179
-	copies := 3
-	if full {
-		copies = 1
-	}
-	w.lon, w.st = w.lon[:0], w.st[:0]
-	for c := range copies {
-		shift := 360 * float64(c-1)
-		if full {
-			shift = 0
-		}
-		for _, r := range ranks {
-			w.lon = append(w.lon, ip.lon[r]+shift)
-			w.st = append(w.st, rowStation{ip.x[r], ip.y[r], ip.z[r], ip.val[r], r})
-		}
 	}
 	sp, cp := math.Sincos(lat * degToRad)
 	c := w.c
