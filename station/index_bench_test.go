@@ -23,7 +23,7 @@ func idxBenchSeries() ([]idxSite, [][]idxEntry) {
 			if r.Float64() < 0.05 {
 				x[y] = 0
 			}
-			s[y] = idxEntry{total: x[y], line: y + 2, year: int32(1921 + y)}
+			s[y] = idxEntry{total: x[y], line: uint32(y + 2), year: int32(1921 + y)}
 		}
 		base[i] = s
 	}

@@ -28,9 +28,11 @@ type idxSite struct {
 }
 
 // idxEntry is one station-year of the totals table; total is NaN when missing.
+// It is 16 bytes: the table is held as one entry per row (the index needs
+// each station's whole record), so a 10-million-row file takes 160 MB here.
 type idxEntry struct {
 	total float64
-	line  int
+	line  uint32 // line in the file (files beyond 4,294,967,295 lines are refused)
 	year  int32
 }
 
@@ -175,7 +177,10 @@ func idxReadTotals(t *Table, byID map[string]int, ids []string, totalColumn stri
 				tt.latest = year
 			}
 		}
-		tt.series[si] = append(tt.series[si], idxEntry{total: total, line: line, year: int32(year)})
+		if line > math.MaxUint32 {
+			return nil, t.FieldError(line, totC, "totals table longer than %d lines", uint32(math.MaxUint32))
+		}
+		tt.series[si] = append(tt.series[si], idxEntry{total: total, line: uint32(line), year: int32(year)})
 	}
 	// Sort each series by year (input is usually sorted already) and find the
 	// duplicate station-year whose second line comes first in the file.
@@ -185,8 +190,8 @@ func idxReadTotals(t *Table, byID map[string]int, ids []string, totalColumn stri
 			sort.Slice(s, func(i, j int) bool { return idxEntryLess(s[i], s[j]) })
 		}
 		for i := 1; i < len(s); i++ {
-			if s[i].year == s[i-1].year && (dupB == 0 || s[i].line < dupB) {
-				dupA, dupB, dupID, dupYear = s[i-1].line, s[i].line, ids[si], int(s[i].year)
+			if s[i].year == s[i-1].year && (dupB == 0 || int(s[i].line) < dupB) {
+				dupA, dupB, dupID, dupYear = int(s[i-1].line), int(s[i].line), ids[si], int(s[i].year)
 			}
 		}
 	}
