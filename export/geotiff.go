@@ -31,11 +31,7 @@ func EncodeIndexTIFF(w io.Writer, r *grid.Float32, opt TIFFOptions) error {
 	if err != nil {
 		return err
 	}
-	img := tiffNewImage(r.Spec, opt)
-	img.float = true
-	img.nodataF = r.NoData
-	img.predictor = 3
-	img.nodata = tiffFormatNoData(float64(r.NoData))
+	img := tiffIndexImage(r.Spec, r.NoData, opt)
 	img.levels = []*tiffLevel{{cols: r.Spec.Cols, rows: r.Spec.Rows, f32: r.Data}}
 	if opt.Overviews {
 		for k, sz := range cogLevelSizes(r.Spec.Cols, r.Spec.Rows) {
@@ -69,11 +65,7 @@ func EncodeBandsTIFF(w io.Writer, r *grid.Uint8, s *classes.Scheme, opt TIFFOpti
 	if err != nil {
 		return err
 	}
-	img := tiffNewImage(r.Spec, opt)
-	img.nodataU = r.NoData
-	img.predictor = tiffBandsPredictor
-	img.nodata = strconv.Itoa(int(r.NoData))
-	img.colormap = tiffColorMap(s)
+	img := tiffBandsImage(r.Spec, r.NoData, s, opt)
 	img.levels = []*tiffLevel{{cols: r.Spec.Cols, rows: r.Spec.Rows, u8: r.Data}}
 	if opt.Overviews {
 		for k, sz := range cogLevelSizes(r.Spec.Cols, r.Spec.Rows) {

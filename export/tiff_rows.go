@@ -37,7 +37,7 @@ func EncodeIndexTIFFRows(w io.Writer, spec grid.Spec, nodata float32, produce TI
 // data) for nodata. index gets the bytes EncodeIndexTIFF writes for the
 // raster, bands those EncodeBandsTIFF writes for its classification with
 // s and no data 0. Either writer may be nil to skip that file; s may be nil
-// when bands is (and opt.OnBandRows is nil). Both files are written after
+// only when bands and opt.OnBandRows are. Both files are written after
 // the last row is produced, index first.
 func EncodeIndexBandsTIFFRows(index, bands io.Writer, spec grid.Spec, nodata float32, s *classes.Scheme, produce TIFFRowFunc, opt TIFFOptions) error {
 	if produce == nil {
@@ -46,8 +46,8 @@ func EncodeIndexBandsTIFFRows(index, bands io.Writer, spec grid.Spec, nodata flo
 	if index == nil && bands == nil {
 		return errors.New("geotiff: no output for the rows")
 	}
-	if bands != nil && s == nil {
-		return errors.New("geotiff: band raster asked for without a scheme")
+	if (bands != nil || opt.OnBandRows != nil) && s == nil {
+		return errors.New("geotiff: band codes asked for without a scheme")
 	}
 	if err := tiffCheckSpec(spec, spec.Cols*spec.Rows); err != nil {
 		return err
@@ -93,8 +93,8 @@ func WriteIndexBandsTIFFRows(indexPath, bandsPath string, spec grid.Spec, nodata
 	if indexPath == "" && bandsPath == "" {
 		return errors.New("geotiff: no output path for the rows")
 	}
-	if bandsPath != "" && s == nil {
-		return errors.New("geotiff: band raster asked for without a scheme")
+	if (bandsPath != "" || opt.OnBandRows != nil) && s == nil {
+		return errors.New("geotiff: band codes asked for without a scheme")
 	}
 	if err := tiffCheckSpec(spec, spec.Cols*spec.Rows); err != nil {
 		return err

@@ -160,6 +160,8 @@ func TestTIFFRowsErrors(t *testing.T) {
 		EncodeIndexTIFFRows(&bytes.Buffer{}, grid.Spec{Res: 1}, -9999, ok, DefaultTIFFOptions()),
 		EncodeIndexTIFFRows(&bytes.Buffer{}, spec, -9999, ok, TIFFOptions{TileSize: 17}),
 		WriteIndexBandsTIFFRows("", "", spec, -9999, nil, ok, DefaultTIFFOptions()),
+		EncodeIndexBandsTIFFRows(&bytes.Buffer{}, nil, spec, -9999, nil, ok, TIFFOptions{OnBandRows: func(int, int, []uint8) {}}),
+		WriteIndexBandsTIFFRows(filepath.Join(t.TempDir(), "i.tif"), "", spec, -9999, nil, ok, TIFFOptions{OnBandRows: func(int, int, []uint8) {}}),
 	}
 	for i, err := range bad {
 		if err == nil {

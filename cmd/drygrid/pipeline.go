@@ -67,6 +67,10 @@ type gridResult struct {
 	Regions []grid.ZonalStats
 	Files   []string
 	Elapsed time.Duration
+	// Rows, when not nil, streams the index rows into the GeoTIFF writers
+	// (Index and Bands are then nil, Tally holds the band areas).
+	Rows  export.TIFFRowFunc
+	Tally *bandTally
 
 	timings  map[string]float64     // seconds by step, for the manifest
 	crossval *interp.CrossValResult // with job.CrossVal
@@ -130,13 +134,24 @@ func runGrid(job gridJob, stderr io.Writer) (*gridResult, error) {
 	}
 	read := manifestNow()
 	bar := newProgress(stderr, spec.Rows, "gridding")
-	index := ip.Grid(spec, bar.set)
-	bar.done()
-	bands := classify(index, scheme)
-
-	res := &gridResult{Values: vals, Spec: spec, Scheme: scheme, Index: index, Bands: bands}
-	if len(regions) > 0 {
-		res.Regions = grid.Zonal(bands, index, regions)
+	res := &gridResult{Values: vals, Spec: spec, Scheme: scheme}
+	if streamable(job) {
+		// Only the rasters: rows go from the interpolator straight into
+		// the GeoTIFF writers (the same bytes, bounded memory).
+		res.Rows = func(row0, n int, dst []float32) error {
+			if err := ip.Rows(spec, row0, n, dst); err != nil {
+				return err
+			}
+			bar.set(row0+n, spec.Rows)
+			return nil
+		}
+	} else {
+		index := ip.Grid(spec, bar.set)
+		bar.done()
+		res.Index, res.Bands = index, classify(index, scheme)
+		if len(regions) > 0 {
+			res.Regions = grid.Zonal(res.Bands, index, regions)
+		}
 	}
 	gridded := manifestNow()
 	res.timings = map[string]float64{
@@ -148,6 +163,20 @@ func runGrid(job gridJob, stderr io.Writer) (*gridResult, error) {
 	res.Elapsed = manifestNow().Sub(start)
 	printSummary(stderr, job, res)
 	return res, nil
+}
+
+// streamable reports whether the run writes only the rasters (index,
+// bands) and no regions, so the grid can be streamed row block by row block.
+func streamable(job gridJob) bool {
+	if job.Regions != "" {
+		return false
+	}
+	for name, on := range job.Layers {
+		if on && name != "index" && name != "bands" {
+			return false
+		}
+	}
+	return true
 }
 
 // gridSpec is the grid of the run: --bbox, or the stations' extent widened by

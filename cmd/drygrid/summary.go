@@ -49,7 +49,13 @@ func printSummary(w io.Writer, job gridJob, r *gridResult) {
 		fmt.Fprintf(w, ", rejected: %s", strings.Join(parts, ", "))
 	}
 	fmt.Fprintln(w)
-	covered, bands := coverageShares(r.Bands)
+	var covered float64
+	var bands map[uint8]float64
+	if r.Bands == nil {
+		covered, bands = r.Tally.shares()
+	} else {
+		covered, bands = coverageShares(r.Bands)
+	}
 	fmt.Fprintf(w, "grid: %s, %d cells, %.1f%% of the area covered\n", r.Spec, r.Spec.Len(), covered)
 	fmt.Fprintf(w, "bands (share of covered area):\n")
 	inDrought := 0.0

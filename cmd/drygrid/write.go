@@ -38,6 +38,9 @@ func (w *layerWriter) params() map[string]any {
 func (w *layerWriter) write(name string) error {
 	opt := export.DefaultTIFFOptions()
 	opt.Software = "drygrid " + version
+	if w.res.Rows != nil && (name == "index" || name == "bands") {
+		return w.writeStreamed(name, opt)
+	}
 	switch name {
 	case "index":
 		return export.WriteIndexTIFF(w.path("index.tif"), w.res.Index, opt)
@@ -176,9 +179,13 @@ func buildManifest(job gridJob, res *gridResult, dir string, start time.Time) (*
 		rejected[reason] = n
 	}
 	covered := 0
-	for _, c := range res.Bands.Data {
-		if c != res.Bands.NoData {
-			covered++
+	if res.Bands == nil {
+		covered = res.Tally.cells
+	} else {
+		for _, c := range res.Bands.Data {
+			if c != res.Bands.NoData {
+				covered++
+			}
 		}
 	}
 	counts := map[string]any{

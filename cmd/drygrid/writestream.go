@@ -1,0 +1,70 @@
+package main
+
+import (
+	"drygrid/export"
+	"drygrid/grid"
+)
+
+// writeStreamed writes index.tif and bands.tif, those of the two the run
+// asks for, in one pass over the rows of res.Rows, and tallies the band
+// areas for the summary and the manifest.
+func (w *layerWriter) writeStreamed(name string, opt export.TIFFOptions) error {
+	if name == "bands" && w.job.Layers["index"] {
+		return nil // written with index.tif
+	}
+	idx, bnd := "", ""
+	if w.job.Layers["index"] {
+		idx = w.path("index.tif")
+	}
+	if w.job.Layers["bands"] {
+		bnd = w.path("bands.tif")
+	}
+	t := newBandTally(w.res.Spec)
+	opt.OnBandRows = t.add
+	opt.SpillDir = w.dir
+	if err := export.WriteIndexBandsTIFFRows(idx, bnd, w.res.Spec, grid.NoDataIndex, w.res.Scheme, w.res.Rows, opt); err != nil {
+		return err
+	}
+	w.res.Tally = t
+	return nil
+}
+
+// bandTally sums, from band codes row by row, what coverageShares sums
+// from the band raster, in the same order (so the same figures).
+type bandTally struct {
+	areas          []float64
+	cols           int
+	total, covered float64
+	byCode         map[uint8]float64
+	cells          int
+}
+
+func newBandTally(s grid.Spec) *bandTally {
+	return &bandTally{areas: s.RowAreasKm2(), cols: s.Cols, byCode: map[uint8]float64{}}
+}
+
+func (t *bandTally) add(row0, n int, codes []uint8) {
+	for r := range n {
+		a := t.areas[row0+r]
+		for _, c := range codes[r*t.cols : (r+1)*t.cols] {
+			t.total += a
+			if c != 0 {
+				t.covered += a
+				t.byCode[c] += a
+				t.cells++
+			}
+		}
+	}
+}
+
+// shares is coverageShares of the tallied rows.
+func (t *bandTally) shares() (coveredPct float64, bandPct map[uint8]float64) {
+	bandPct = map[uint8]float64{}
+	for c, a := range t.byCode {
+		bandPct[c] = 100 * a / t.covered
+	}
+	if t.total > 0 {
+		coveredPct = 100 * t.covered / t.total
+	}
+	return coveredPct, bandPct
+}
