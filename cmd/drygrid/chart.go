@@ -39,7 +39,7 @@ drought declarations.`,
 			if err := export.WriteHistoryChart(out, h, export.ChartOptions{RegionsLimit: limit, Title: title}); err != nil {
 				return err
 			}
-			fmt.Fprintf(cmd.ErrOrStderr(), "chart: %d regions, %d days -> %s\n", min(limit, len(h.Regions)), len(h.Dates), out)
+			fmt.Fprintf(cmd.ErrOrStderr(), "chart: %d regions, %d dates -> %s\n", min(limit, len(h.Regions)), len(h.Dates), out)
 			return nil
 		},
 	}
