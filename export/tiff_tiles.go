@@ -2,6 +2,7 @@ package export
 
 import (
 	"bytes"
+	"encoding/binary"
 	"fmt"
 	"math"
 
@@ -64,9 +65,33 @@ func tiffFillFloatTile(l *tiffLevel, t, tx, ty int, nodata float32, buf []byte) 
 		for j := n; j < t; j++ {
 			out[j], out[t+j], out[2*t+j], out[3*t+j] = byte(nd>>24), byte(nd>>16), byte(nd>>8), byte(nd)
 		}
-		for i := len(out) - 1; i > 0; i-- {
-			out[i] -= out[i-1]
-		}
+		tiffByteDiff(out)
+	}
+}
+
+// tiffByteDiff replaces each byte of b but the first by its difference
+// (modulo 256) from the byte before it, as
+// "for i := len(b) - 1; i > 0; i-- { b[i] -= b[i-1] }" does, eight bytes
+// at a time: each little-endian word w is subtracted bytewise from w
+// shifted up by one byte with the last byte of the word before in the
+// hole, without borrows between bytes (the subtraction of packed bytes,
+// Warren, "Hacker's Delight", 2nd ed., section 2-18).
+func tiffByteDiff(b []byte) {
+	const hi = 0x8080808080808080
+	var prev uint64 // last byte of the previous original word
+	i := 0
+	for ; i+8 <= len(b); i += 8 {
+		w := binary.LittleEndian.Uint64(b[i:])
+		s := w<<8 | prev
+		prev = w >> 56
+		binary.LittleEndian.PutUint64(b[i:], ((w|hi)-(s&^hi))^((w^^s)&hi))
+	}
+	p := byte(prev)
+	if i == 0 && len(b) > 0 {
+		p, i = b[0], 1
+	}
+	for ; i < len(b); i++ {
+		p, b[i] = b[i], b[i]-p
 	}
 }
 

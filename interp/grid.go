@@ -18,9 +18,10 @@ import (
 // progress, when not nil, is called after each row with the number of rows
 // done so far, from one goroutine at a time and with rowsDone increasing.
 //
-// Per row there is one rtree query for the stations in the latitude band
-// of the search radius; they come back in longitude order, and each cell
-// scans only the longitude window its search circle can reach.
+// Per row the stations in the latitude band of the search radius are a
+// range of the stations sorted by latitude; they are put in longitude
+// order, and each cell scans only the longitude window its search circle
+// can reach.
 func (ip *Interpolator) Grid(spec grid.Spec, progress func(rowsDone, rows int)) *grid.Float32 {
 	if spec.Cols <= 0 || spec.Rows <= 0 {
 		return &grid.Float32{Spec: spec, NoData: grid.NoDataIndex}
@@ -91,15 +92,18 @@ func (ip *Interpolator) newRowWork() *rowWork {
 	return &rowWork{bits: make([]uint64, (len(ip.val)+63)/64), c: newCands(ip.k)}
 }
 
-// rowCandidates collects, through the rtree, the ranks of the stations whose
-// latitude is within the search radius of lat, in ascending rank (that is
-// longitude) order.
+// rowCandidates collects the ranks of the stations whose latitude is within
+// the search radius of lat (lo <= latitude <= hi, the stations an rtree
+// query of that band returns), in ascending rank (that is longitude)
+// order: a range of the stations sorted by latitude, put in rank order
+// through a bit set.
 func (ip *Interpolator) rowCandidates(w *rowWork, lat float64) []int32 {
 	lo, hi := lat-ip.thetaDeg-lonEps, lat+ip.thetaDeg+lonEps
-	ip.tree.Search([2]float64{-181, lo}, [2]float64{181, hi}, func(_, _ [2]float64, r int32) bool {
+	i0 := sort.SearchFloat64s(ip.latVal, lo)
+	i1 := i0 + sort.Search(len(ip.latVal)-i0, func(i int) bool { return ip.latVal[i0+i] > hi })
+	for _, r := range ip.latRank[i0:i1] {
 		w.bits[r>>6] |= 1 << (uint(r) & 63)
-		return true
-	})
+	}
 	w.ranks = w.ranks[:0]
 	for i, word := range w.bits {
 		for word != 0 {
@@ -124,21 +128,42 @@ func (ip *Interpolator) rowStations(w *rowWork, lat float64) (dl float64, full, 
 	}
 	dl = lonHalfWidth(lat, ip.theta)
 	full = dl > 179
-	copies := 3
-	if full {
-		copies = 1
-	}
 	w.lon, w.st = w.lon[:0], w.st[:0]
-	for c := range copies {
-		shift := 360 * float64(c-1)
-		if full {
-			shift = 0
+	add := func(r int32, shift float64) {
+		w.lon = append(w.lon, ip.lon[r]+shift)
+		w.st = append(w.st, rowStation{ip.x[r], ip.y[r], ip.z[r], ip.val[r], r})
+	}
+	if full {
+		for _, r := range ranks {
+			add(r, 0)
+		}
+	} else {
+		// No window reaches below -180 - dl - lonEps or above
+		// 180 + dl + lonEps, so the shifted copies need only the stations
+		// within dl (plus a degree to spare) of the antimeridian: every
+		// window holds the same stations, in the same order, as with
+		// three whole copies.
+		j := len(ranks)
+		for j > 0 && ip.lon[ranks[j-1]] >= 180-dl-1 {
+			j--
+		}
+		for _, r := range ranks[j:] {
+			add(r, -360)
 		}
 		for _, r := range ranks {
-			w.lon = append(w.lon, ip.lon[r]+shift)
-			w.st = append(w.st, rowStation{ip.x[r], ip.y[r], ip.z[r], ip.val[r], r})
+			add(r, 0)
+		}
+		for _, r := range ranks {
+			if ip.lon[r] > -180+dl+1 {
+				break
+			}
+			add(r, 360)
 		}
 	}
+	// A sentinel past the end, so that gridRow's window can move without
+	// testing the length: no bound is above +Inf.
+	w.lon = append(w.lon, math.Inf(1))
+	w.lon = w.lon[:len(w.lon)-1]
 	return dl, full, true
 }
 
@@ -172,10 +197,17 @@ func (ip *Interpolator) gridRow(w *rowWork, lat, colStep float64, colLon, colCos
 				lo = sort.SearchFloat64s(lons, a)
 				hi = lo + sort.Search(len(lons)-lo, func(i int) bool { return lons[lo+i] > b })
 			} else {
-				for lo < len(lons) && lons[lo] < a {
+				// The window moves by a station or none from one cell to
+				// the next, most of the time: one step without a branch,
+				// then a loop that is seldom entered. lons[len(lons)] is
+				// rowStations's sentinel.
+				sl := lons[:len(lons)+1]
+				lo += b2i(sl[lo] < a)
+				hi += b2i(sl[hi] <= b)
+				for sl[lo] < a {
 					lo++
 				}
-				for hi < len(lons) && lons[hi] <= b {
+				for sl[hi] <= b {
 					hi++
 				}
 			}
@@ -207,10 +239,7 @@ func (ip *Interpolator) gridRow(w *rowWork, lat, colStep float64, colLon, colCos
 				ip.selectK(cs[:n], k)
 				n = k
 			}
-			kth = cs[0].d2
-			for i := 1; i < k; i++ {
-				kth = max(kth, cs[i].d2)
-			}
+			kth = maxD2(cs[:k])
 		}
 		if v, _, ok := ip.estimate(c, n, cx, cy, cz); ok {
 			dst[col] = float32(v)
@@ -227,7 +256,10 @@ func scanWindow(win []rowStation, cs []cand, cx, cy, cz, c2max float64) int {
 	cs = cs[:len(win)+1]
 	for j := range win {
 		s := &win[j]
-		dx, dy, dz := cx-s.x, cy-s.y, cz-s.z
+		// s.x - cx is exactly -(cx - s.x), so the square has the same
+		// bits; written this way round the compiler needs no copies of
+		// cx, cy, cz (the subtraction overwrites its first operand).
+		dx, dy, dz := s.x-cx, s.y-cy, s.z-cz
 		d2 := dx*dx + dy*dy + dz*dz
 		cs[n] = cand{d2, s.v, s.rk}
 		n += b2i(d2 <= c2max) // branch-free: the test is unpredictable

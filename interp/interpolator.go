@@ -4,7 +4,9 @@
 // RadiusKm, ties broken by input order; weight d^-power; a cell with fewer
 // than MinStations stations within the radius is no data (this coverage rule
 // comes first); otherwise a cell closer than 1 m to a station takes that
-// station's value. Neighbours are found through a tidwall/rtree index.
+// station's value. Neighbours of a point are found through a tidwall/rtree
+// index; the grid gathers a row's stations from the stations sorted by
+// latitude (the same set the rtree gives for the row's latitude band).
 // Output never depends on the number of workers.
 package interp
 
@@ -14,6 +16,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"sync"
 
 	"github.com/tidwall/rtree"
 )
@@ -47,7 +50,26 @@ type Interpolator struct {
 	val     []float64
 	id      []int32 // input index
 
-	tree rtree.RTreeG[int32] // (lon, lat) points -> rank
+	// Ranks in latitude order and their latitudes, ascending: the stations
+	// of a latitude band are a range of them (rowCandidates).
+	latRank []int32
+	latVal  []float64
+
+	// The rtree of the (lon, lat) points -> rank, for At; built on first
+	// use (the grid does not need it).
+	treeOnce sync.Once
+	tree     rtree.RTreeG[int32]
+	pts      [][2]float64 // the points in rank order, for the tree
+}
+
+// index is the rtree of the stations, built on the first call.
+func (ip *Interpolator) index() *rtree.RTreeG[int32] {
+	ip.treeOnce.Do(func() {
+		for r, pt := range ip.pts {
+			ip.tree.Insert(pt, pt, int32(r))
+		}
+	})
+	return &ip.tree
 }
 
 // New validates the parameters and the points and builds the index.
@@ -89,7 +111,7 @@ func New(pts []Point, p Params) (*Interpolator, error) {
 	ip := &Interpolator{
 		p: p, theta: theta, thetaDeg: theta / degToRad, c2max: ch * ch,
 		lon: make([]float64, n), x: make([]float64, n), y: make([]float64, n), z: make([]float64, n),
-		val: make([]float64, n), id: order,
+		val: make([]float64, n), id: order, pts: make([][2]float64, n),
 	}
 	ip.fast = p.Power == 2 && ip.c2max <= 0.01
 	ip.k = min(p.Neighbors, n)
@@ -98,8 +120,16 @@ func New(pts []Point, p Params) (*Interpolator, error) {
 		ip.lon[r] = nl[i]
 		ip.x[r], ip.y[r], ip.z[r] = unitVector(q.Lon, q.Lat)
 		ip.val[r] = q.Z
-		pt := [2]float64{nl[i], q.Lat}
-		ip.tree.Insert(pt, pt, int32(r))
+		ip.pts[r] = [2]float64{nl[i], q.Lat}
+	}
+	ip.latRank = make([]int32, n)
+	for r := range ip.latRank {
+		ip.latRank[r] = int32(r)
+	}
+	slices.SortFunc(ip.latRank, func(a, b int32) int { return cmp.Compare(ip.pts[a][1], ip.pts[b][1]) })
+	ip.latVal = make([]float64, n)
+	for i, r := range ip.latRank {
+		ip.latVal[i] = ip.pts[r][1]
 	}
 	return ip, nil
 }
@@ -143,17 +173,18 @@ func (ip *Interpolator) selectAt(lon, lat float64, c *cands) int {
 	dl := lonHalfWidth(lat, ip.theta)
 	l := normLon(lon)
 	a, b := l-dl-lonEps, l+dl+lonEps
+	tree := ip.index()
 	switch {
 	case dl > 179:
-		ip.tree.Search([2]float64{-181, lo}, [2]float64{181, hi}, offer)
+		tree.Search([2]float64{-181, lo}, [2]float64{181, hi}, offer)
 	case a < -180:
-		ip.tree.Search([2]float64{a + 360, lo}, [2]float64{181, hi}, offer)
-		ip.tree.Search([2]float64{-181, lo}, [2]float64{b, hi}, offer)
+		tree.Search([2]float64{a + 360, lo}, [2]float64{181, hi}, offer)
+		tree.Search([2]float64{-181, lo}, [2]float64{b, hi}, offer)
 	case b >= 180:
-		ip.tree.Search([2]float64{a, lo}, [2]float64{181, hi}, offer)
-		ip.tree.Search([2]float64{-181, lo}, [2]float64{b - 360, hi}, offer)
+		tree.Search([2]float64{a, lo}, [2]float64{181, hi}, offer)
+		tree.Search([2]float64{-181, lo}, [2]float64{b - 360, hi}, offer)
 	default:
-		ip.tree.Search([2]float64{a, lo}, [2]float64{b, hi}, offer)
+		tree.Search([2]float64{a, lo}, [2]float64{b, hi}, offer)
 	}
 	return len(c.cs)
 }

@@ -73,10 +73,7 @@ func (ip *Interpolator) selectK(cs []cand, k int) {
 	if n-k <= k {
 		for m := n; m > k; m-- {
 			// The largest chord, then among equal ones the last in the input.
-			top := cs[0].d2
-			for i := 1; i < m; i++ {
-				top = max(top, cs[i].d2)
-			}
+			top := maxD2(cs[:m])
 			w := -1
 			for i := range m {
 				if cs[i].d2 == top && (w < 0 || ip.id[cs[i].rk] > ip.id[cs[w].rk]) {
@@ -96,6 +93,25 @@ func (ip *Interpolator) selectK(cs []cand, k int) {
 		}
 		cs[m], cs[b] = cs[b], cs[m]
 	}
+}
+
+// maxD2 is the largest chord squared in cs (not empty). A chord squared is
+// a sum of squares: never NaN nor -0, so its bits, read as an unsigned
+// integer, order as its values do, and the integer maximum (a conditional
+// move, where the floating-point max takes a chain of NaN and zero tests)
+// gives the same bits. Two running maxima halve the chain.
+func maxD2(cs []cand) float64 {
+	a := math.Float64bits(cs[0].d2)
+	b := a
+	i := 1
+	for ; i+1 < len(cs); i += 2 {
+		a = max(a, math.Float64bits(cs[i].d2))
+		b = max(b, math.Float64bits(cs[i+1].d2))
+	}
+	if i < len(cs) {
+		a = max(a, math.Float64bits(cs[i].d2))
+	}
+	return math.Float64frombits(max(a, b))
 }
 
 // b2i is 1 for true and 0 for false; the compiler makes it a SETcc, so
@@ -156,6 +172,52 @@ func asinSqSeries4(t float64) float64 {
 	return 1 + t*(1.0/3+t*(8.0/45+t*(4.0/35+t*(128.0/1575))))
 }
 
+// shepardSums4 is, over cs in order, the sums of w = 1 / (c^2 *
+// asinSqSeries4(c^2/4)) and of w * v, the smallest and largest v (as the
+// built-in min and max give them), and whether a candidate lies within
+// 1 m (the same answer as weigh's test of each in turn). The weights of two candidates are computed side by side (the same
+// operations in the same order for each, so the same bits as one at a
+// time): their long chains of dependent multiplications then overlap in
+// the processor instead of queueing one behind the other. The sums are
+// taken one candidate after the other, in order.
+func shepardSums4(cs []cand) (sw, swz, lo, hi float64, ex bool) {
+	lo, hi = math.Inf(1), math.Inf(-1)
+	const c1, c2, c3, c4 = 1.0 / 3, 8.0 / 45, 4.0 / 35, 128.0 / 1575
+	e := 0
+	i := 0
+	for ; i+2 <= len(cs); i += 2 {
+		x := cs[i : i+2 : i+2]
+		a0, a1 := x[0].d2, x[1].d2
+		t0, t1 := a0/4, a1/4
+		q0, q1 := t0*c4, t1*c4
+		q0, q1 = c3+q0, c3+q1
+		q0, q1 = t0*q0, t1*q1
+		q0, q1 = c2+q0, c2+q1
+		q0, q1 = t0*q0, t1*q1
+		q0, q1 = c1+q0, c1+q1
+		q0, q1 = t0*q0, t1*q1
+		q0, q1 = 1+q0, 1+q1
+		w0, w1 := 1/(a0*q0), 1/(a1*q1)
+		e |= b2i(a0 < exactChordSq) | b2i(a1 < exactChordSq)
+		v0, v1 := x[0].v, x[1].v
+		sw += w0
+		swz += w0 * v0
+		sw += w1
+		swz += w1 * v1
+		lo = min(lo, v0, v1)
+		hi = max(hi, v0, v1)
+	}
+	for ; i < len(cs); i++ {
+		x := &cs[i]
+		e |= b2i(x.d2 < exactChordSq)
+		w := 1 / (x.d2 * asinSqSeries4(x.d2/4))
+		sw += w
+		swz += w * x.v
+		lo, hi = min(lo, x.v), max(hi, x.v)
+	}
+	return sw, swz, lo, hi, e != 0
+}
+
 // estimate applies the coverage rule, the k-nearest choice, the 1 m rule and
 // Shepard's (1968) weights to the first n candidates in c.
 func (ip *Interpolator) estimate(c *cands, n int, cx, cy, cz float64) (float64, int, bool) {
@@ -180,26 +242,26 @@ func (ip *Interpolator) weigh(c *cands, cs []cand, cx, cy, cz float64) float64 {
 	var sw, swz float64
 	switch {
 	case ip.fast && ip.c2max/4 <= shortSeriesMaxT: // power 2, radius up to 337 km
-		for i := range cs {
-			x := &cs[i]
-			if x.d2 < exactChordSq {
-				return ip.exactValue(cs)
-			}
-			w := 1 / (x.d2 * asinSqSeries4(x.d2/4))
-			sw += w
-			swz += w * x.v
-			lo, hi = min(lo, x.v), max(hi, x.v)
+		// Whether any candidate is within 1 m is the same test as the
+		// first one found within 1 m; it is taken after the loop, so the
+		// loop has no branch (a weight of +Inf is then thrown away).
+		var ex bool
+		sw, swz, lo, hi, ex = shepardSums4(cs)
+		if ex {
+			return ip.exactValue(cs)
 		}
 	case ip.fast: // power 2, radius up to 637 km: no square roots, no arcsines
+		ex := 0
 		for i := range cs {
 			x := &cs[i]
-			if x.d2 < exactChordSq {
-				return ip.exactValue(cs)
-			}
+			ex |= b2i(x.d2 < exactChordSq)
 			w := 1 / (x.d2 * asinSqSeries(x.d2/4))
 			sw += w
 			swz += w * x.v
 			lo, hi = min(lo, x.v), max(hi, x.v)
+		}
+		if ex != 0 {
+			return ip.exactValue(cs)
 		}
 	default:
 		a0 := math.Inf(1)

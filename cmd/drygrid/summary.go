@@ -14,7 +14,8 @@ import (
 // ellipsoidal area.
 func coverageShares(b *grid.Uint8) (coveredPct float64, bandPct map[uint8]float64) {
 	areas := b.Spec.RowAreasKm2()
-	byCode := map[uint8]float64{}
+	var byCode [256]float64 // area by band code
+	var seen [256]bool
 	var total, covered float64
 	for row := 0; row < b.Spec.Rows; row++ {
 		a := areas[row]
@@ -23,12 +24,15 @@ func coverageShares(b *grid.Uint8) (coveredPct float64, bandPct map[uint8]float6
 			if c != b.NoData {
 				covered += a
 				byCode[c] += a
+				seen[c] = true
 			}
 		}
 	}
 	bandPct = map[uint8]float64{}
 	for c, a := range byCode {
-		bandPct[c] = 100 * a / covered
+		if seen[c] {
+			bandPct[uint8(c)] = 100 * a / covered
+		}
 	}
 	if total > 0 {
 		coveredPct = 100 * covered / total

@@ -35,12 +35,13 @@ type bandTally struct {
 	areas          []float64
 	cols           int
 	total, covered float64
-	byCode         map[uint8]float64
+	byCode         [256]float64 // area by band code
+	seen           [256]bool
 	cells          int
 }
 
 func newBandTally(s grid.Spec) *bandTally {
-	return &bandTally{areas: s.RowAreasKm2(), cols: s.Cols, byCode: map[uint8]float64{}}
+	return &bandTally{areas: s.RowAreasKm2(), cols: s.Cols}
 }
 
 func (t *bandTally) add(row0, n int, codes []uint8) {
@@ -51,6 +52,7 @@ func (t *bandTally) add(row0, n int, codes []uint8) {
 			if c != 0 {
 				t.covered += a
 				t.byCode[c] += a
+				t.seen[c] = true
 				t.cells++
 			}
 		}
@@ -61,7 +63,9 @@ func (t *bandTally) add(row0, n int, codes []uint8) {
 func (t *bandTally) shares() (coveredPct float64, bandPct map[uint8]float64) {
 	bandPct = map[uint8]float64{}
 	for c, a := range t.byCode {
-		bandPct[c] = 100 * a / t.covered
+		if t.seen[c] {
+			bandPct[uint8(c)] = 100 * a / t.covered
+		}
 	}
 	if t.total > 0 {
 		coveredPct = 100 * t.covered / t.total
