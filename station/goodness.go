@@ -38,7 +38,13 @@ func gofAD(s []float64, shape, scale float64) float64 {
 	// counts as the logarithm of the smallest positive float64.
 	floor := math.Log(math.SmallestNonzeroFloat64)
 	lga, _ := math.Lgamma(shape)
-	lnQ := make([]float64, n)
+	var stack [128]float64 // most records are shorter: no allocation per station
+	lnQ := stack[:0]
+	if n <= len(stack) {
+		lnQ = stack[:n]
+	} else {
+		lnQ = make([]float64, n)
+	}
 	var sum float64
 	for i, v := range s {
 		p, q := gofLnPQ(shape, lga, v/scale)

@@ -153,7 +153,9 @@ func idxCompute(st, tt *Table, opt IndexOptions) (*IndexResult, error) {
 	for i, s := range sites {
 		ids[i] = s.ID
 	}
-	tot, err := idxReadTotals(tt, byID, ids, opt.TotalColumn)
+	spec := idxStartSpec(sites, opt)
+	tot, err := idxReadTotalsRuns(tt, byID, ids, opt.TotalColumn, spec.run)
+	spec.stop(err != nil)
 	if err != nil {
 		return nil, err
 	}
@@ -179,8 +181,111 @@ func idxCompute(st, tt *Table, opt IndexOptions) (*IndexResult, error) {
 		res.Warnings = append(res.Warnings, fmt.Sprintf("%s: skipped %d rows of %d station%s missing from %s (first: %s)",
 			tt.Path, tot.skippedUnknown, tot.unknownIDs, plural, st.Path, tot.firstUnknown))
 	}
-	res.Rows = idxComputeAll(sites, tot.series, year, opt)
+	res.Rows = spec.finish(sites, tot.series, year, opt)
 	return res, nil
+}
+
+// idxSpec computes station rows while the totals are still being read: a
+// station's row is computed as soon as its first run of rows ends, for the
+// target year (or, by default, the latest year seen so far). At the end a
+// row is kept only if the station's series did not grow afterwards and the
+// year was the right one; every other row is computed then. A row depends
+// only on its station's totals and the year, so the result is the same as
+// computing every row at the end, for any number of workers. Reading stays
+// on its own goroutine with GOMAXPROCS-1 workers beside it; with one core,
+// or once a station comes back in a later run (a file not grouped by
+// station), nothing more is handed over.
+type idxSpec struct {
+	rows    []IndexRow
+	year    []int32 // year a row was computed for; 0 = not computed
+	n       []int32 // series length it was computed on
+	fixed   int     // the target year when given
+	work    chan int
+	series  [][]idxEntry // series handed over, by station
+	wg      sync.WaitGroup
+	abort   atomic.Bool
+	stopped bool
+}
+
+// idxSpecQueue is the hand-over queue length; when it is full the station
+// is left for the end rather than holding up reading.
+const idxSpecQueue = 4096
+
+func idxStartSpec(sites []idxSite, opt IndexOptions) *idxSpec {
+	sp := &idxSpec{rows: make([]IndexRow, len(sites)), fixed: opt.Year}
+	workers := opt.Workers
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	if workers < 2 {
+		sp.stopped = true
+		return sp
+	}
+	sp.year = make([]int32, len(sites))
+	sp.n = make([]int32, len(sites))
+	sp.series = make([][]idxEntry, len(sites))
+	sp.work = make(chan int, idxSpecQueue)
+	for w := 0; w < workers-1; w++ {
+		sp.wg.Add(1)
+		go func() {
+			defer sp.wg.Done()
+			var scratch []float64
+			for si := range sp.work {
+				if sp.abort.Load() {
+					continue
+				}
+				sp.rows[si], scratch = idxStationRow(sites[si], sp.series[si], int(sp.year[si]), opt, scratch)
+			}
+		}()
+	}
+	return sp
+}
+
+// run is the onRun hook of idxReadTotalsRuns.
+func (sp *idxSpec) run(si int, s []idxEntry, latest int, again bool) {
+	if sp.stopped {
+		return
+	}
+	if again {
+		sp.stopped = true // not grouped by station: stop handing over
+		return
+	}
+	year := sp.fixed
+	if year == 0 {
+		year = latest
+	}
+	if year == 0 {
+		return
+	}
+	sp.year[si], sp.n[si], sp.series[si] = int32(year), int32(len(s)), s
+	select {
+	case sp.work <- si:
+	default:
+		sp.year[si] = 0 // queue full: left for the end
+	}
+}
+
+// stop ends the hand-over and waits for the workers (abandoning the queue
+// when abort is set).
+func (sp *idxSpec) stop(abort bool) {
+	sp.stopped = true
+	if sp.work == nil {
+		return
+	}
+	sp.abort.Store(abort)
+	close(sp.work)
+	sp.wg.Wait()
+	sp.work = nil
+}
+
+// finish computes every row not computed ahead for the right year and
+// series, and returns the rows.
+func (sp *idxSpec) finish(sites []idxSite, series [][]idxEntry, year int, opt IndexOptions) []IndexRow {
+	keep := func(i int) bool {
+		return sp.year != nil && int(sp.year[i]) == year && int(sp.n[i]) == len(series[i])
+	}
+	idxComputeRows(sp.rows, sites, series, year, opt, keep)
+	return sp.rows
 }
 
 // idxComputeAll computes every station's row with a pool of workers; each
@@ -188,6 +293,13 @@ func idxCompute(st, tt *Table, opt IndexOptions) (*IndexResult, error) {
 // number of workers.
 func idxComputeAll(sites []idxSite, series [][]idxEntry, year int, opt IndexOptions) []IndexRow {
 	rows := make([]IndexRow, len(sites))
+	idxComputeRows(rows, sites, series, year, opt, nil)
+	return rows
+}
+
+// idxComputeRows fills rows[i] for every station i for which keep (when not
+// nil) is false.
+func idxComputeRows(rows []IndexRow, sites []idxSite, series [][]idxEntry, year int, opt IndexOptions, keep func(i int) bool) {
 	workers := opt.Workers
 	if workers <= 0 {
 		workers = runtime.GOMAXPROCS(0)
@@ -207,13 +319,14 @@ func idxComputeAll(sites []idxSite, series [][]idxEntry, year int, opt IndexOpti
 				}
 				hi := min(lo+chunk, len(sites))
 				for i := lo; i < hi; i++ {
-					rows[i], scratch = idxStationRow(sites[i], series[i], year, opt, scratch)
+					if keep == nil || !keep(i) {
+						rows[i], scratch = idxStationRow(sites[i], series[i], year, opt, scratch)
+					}
 				}
 			}
 		}()
 	}
 	wg.Wait()
-	return rows
 }
 
 // idxStationRow computes one station's row; scratch is reused between calls.

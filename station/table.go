@@ -41,6 +41,16 @@ type Table struct {
 	csv     *csv.Reader
 	closers []io.Closer
 	last    int // line of the last record returned
+
+	// Fast path: physical lines without a double quote are split here, straight
+	// from the buffered input, exactly as encoding/csv would split them; any
+	// other line (and the end of the input) goes to csv, which reads through
+	// gate one physical line at a time so that it never reads ahead of the
+	// record it parses (its line count plus fast is the file's line).
+	br   *bufio.Reader
+	gate *tableGate
+	fast int      // physical lines consumed by the fast path (csv does not count them)
+	rec  [][]byte // fields of the last record from nextFields (trimmed)
 }
 
 // OpenTable opens the file at path and reads its header. Errors name the file.
@@ -109,7 +119,9 @@ func newTable(name string, r io.Reader, c io.Closer) (*Table, error) {
 		return nil, fmt.Errorf("%s line 1: lines end in a bare carriage return (CR); save the file with LF or CRLF line endings", name)
 	}
 	t.Delim = tableSniff(headerRaw)
-	cr := csv.NewReader(io.MultiReader(bytes.NewReader(prefix), br))
+	t.br = br
+	t.gate = &tableGate{prefix: prefix, br: br}
+	cr := csv.NewReader(t.gate)
 	cr.Comma = t.Delim
 	cr.FieldsPerRecord = -1 // checked here, for a clearer message
 	cr.ReuseRecord = false
@@ -222,37 +234,160 @@ func (t *Table) FieldError(line, col int, format string, args ...any) error {
 // end it returns io.EOF. Errors name the file and line (and column when
 // known).
 func (t *Table) Next() (rec []string, line int, err error) {
+	fields, line, err := t.nextFields()
+	if err != nil {
+		return nil, line, err
+	}
+	rec = make([]string, len(fields))
+	for i, f := range fields {
+		rec[i] = string(f)
+	}
+	return rec, line, nil
+}
+
+// nextFields is Next without copying: the fields (trimmed) are valid only
+// until the next call. Errors and line numbers are those of Next.
+func (t *Table) nextFields() ([][]byte, int, error) {
 	if t.csv == nil {
 		return nil, 0, io.EOF
 	}
 	for {
-		rec, err := t.csv.Read()
-		if err != nil {
-			if err == io.EOF {
-				return nil, 0, io.EOF
+		var line int
+		valid := false // every field is known to be valid UTF-8
+		t.rec = t.rec[:0]
+		if raw, ok := t.fastLine(); ok {
+			t.fast++
+			line = t.gate.lines + t.fast
+			// As encoding/csv: CRLF counts as LF, an empty line is skipped,
+			// and a line without quotes splits at every delimiter.
+			raw = raw[:len(raw)-1]
+			if n := len(raw); n > 0 && raw[n-1] == '\r' {
+				raw = raw[:n-1]
 			}
-			return nil, 0, t.wrapErr(err, t.last+1)
+			if len(raw) == 0 {
+				continue
+			}
+			// Valid UTF-8 splits at an ASCII delimiter into valid fields, so
+			// one check of the line spares one per field.
+			valid = utf8.Valid(raw)
+			d := byte(t.Delim)
+			for {
+				i := bytes.IndexByte(raw, d)
+				if i < 0 {
+					t.rec = append(t.rec, raw)
+					break
+				}
+				t.rec = append(t.rec, raw[:i])
+				raw = raw[i+1:]
+			}
+		} else {
+			rec, err := t.csv.Read()
+			if err != nil {
+				if err == io.EOF {
+					return nil, 0, io.EOF
+				}
+				return nil, 0, t.wrapErr(err, t.last+1)
+			}
+			line, _ = t.csv.FieldPos(0)
+			line += t.fast
+			for _, f := range rec {
+				t.rec = append(t.rec, []byte(f))
+			}
 		}
-		line, _ := t.csv.FieldPos(0)
 		t.last = line
 		blank := true
-		for i, f := range rec {
-			if !utf8.ValidString(f) {
+		for i, f := range t.rec {
+			if !valid && !utf8.Valid(f) {
 				return nil, line, t.FieldError(line, tableCol(i, len(t.Header)), "not valid UTF-8 text")
 			}
-			rec[i] = strings.TrimSpace(f)
-			if rec[i] != "" {
+			f = bytes.TrimSpace(f)
+			t.rec[i] = f
+			if len(f) != 0 {
 				blank = false
 			}
 		}
 		if blank {
 			continue
 		}
-		if len(rec) != len(t.Header) {
-			return nil, line, fmt.Errorf("%s line %d: %d fields, but the header (line %d) has %d", t.Path, line, len(rec), t.HeaderLine, len(t.Header))
+		if len(t.rec) != len(t.Header) {
+			return nil, line, fmt.Errorf("%s line %d: %d fields, but the header (line %d) has %d", t.Path, line, len(t.rec), t.HeaderLine, len(t.Header))
 		}
-		return rec, line, nil
+		return t.rec, line, nil
 	}
+}
+
+// fastLine returns the next physical line (with its LF) when it is complete
+// in the buffer and holds no double quote, consuming it; otherwise it
+// consumes nothing and reports false (csv then reads the record). The line is
+// valid until the next read.
+func (t *Table) fastLine() ([]byte, bool) {
+	if len(t.gate.prefix) > 0 || t.gate.err != nil {
+		return nil, false
+	}
+	for {
+		n := t.br.Buffered()
+		buf, _ := t.br.Peek(n)
+		if i := bytes.IndexByte(buf, '\n'); i >= 0 {
+			line := buf[:i+1]
+			if bytes.IndexByte(line, '"') >= 0 {
+				return nil, false
+			}
+			t.br.Discard(i + 1)
+			return line, true
+		}
+		if n >= t.br.Size() {
+			return nil, false // longer than the buffer
+		}
+		if _, err := t.br.Peek(n + 1); err != nil {
+			if err != bufio.ErrBufferFull {
+				t.gate.err = err // owed to csv after the buffered bytes
+			}
+			return nil, false
+		}
+	}
+}
+
+// tableGate feeds the csv reader: first the replayed lines before the
+// header, then the buffered input, one physical line per Read, so that csv
+// never reads ahead of the record it parses. It counts the LFs it hands out.
+type tableGate struct {
+	prefix []byte
+	br     *bufio.Reader
+	err    error // a read error met by the fast path, returned once after the buffered bytes
+	lines  int
+}
+
+// Read implements io.Reader.
+func (g *tableGate) Read(p []byte) (int, error) {
+	if len(p) == 0 {
+		return 0, nil
+	}
+	src := g.prefix
+	if len(src) == 0 {
+		if g.br.Buffered() == 0 {
+			if err := g.err; err != nil {
+				g.err = nil
+				return 0, err
+			}
+			if _, err := g.br.Peek(1); err != nil {
+				return 0, err
+			}
+		}
+		src, _ = g.br.Peek(g.br.Buffered())
+	}
+	if i := bytes.IndexByte(src, '\n'); i >= 0 {
+		src = src[:i+1]
+	}
+	n := copy(p, src)
+	if n > 0 && p[n-1] == '\n' {
+		g.lines++
+	}
+	if len(g.prefix) > 0 {
+		g.prefix = g.prefix[n:]
+	} else {
+		g.br.Discard(n)
+	}
+	return n, nil
 }
 
 // tableCol returns i when it is a header column, else -1 (no column name).
@@ -267,7 +402,7 @@ func tableCol(i, n int) int {
 func (t *Table) wrapErr(err error, line int) error {
 	var pe *csv.ParseError
 	if errors.As(err, &pe) {
-		return fmt.Errorf("%s line %d (byte %d of the line): %w", t.Path, pe.Line, pe.Column, pe.Err)
+		return fmt.Errorf("%s line %d (byte %d of the line): %w", t.Path, pe.Line+t.fast, pe.Column, pe.Err)
 	}
 	if errors.Is(err, io.ErrUnexpectedEOF) || errors.Is(err, gzip.ErrChecksum) || errors.Is(err, gzip.ErrHeader) {
 		return fmt.Errorf("%s line %d: truncated or corrupt compressed data: %w", t.Path, line, err)

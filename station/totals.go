@@ -1,6 +1,7 @@
 package station
 
 import (
+	"bytes"
 	"fmt"
 	"io"
 	"math"
@@ -116,6 +117,17 @@ func idxReadSites(t *Table) ([]idxSite, map[string]int, error) {
 // that is not an integer in [1000, 3000], a total that is not a finite
 // number, a negative total, and the same station-year on two lines.
 func idxReadTotals(t *Table, byID map[string]int, ids []string, totalColumn string) (*idxTotals, error) {
+	return idxReadTotalsRuns(t, byID, ids, totalColumn, nil)
+}
+
+// idxReadTotalsRuns is idxReadTotals that also calls onRun, when not nil,
+// each time a station's first run of rows ends in year order: si is the
+// station, s its series so far and latest the latest year with a total so
+// far. s is never written to afterwards (a later run of the same station is
+// appended to a copy, and a series in order is not sorted again), so onRun
+// may hand it to another goroutine. When a later run of a station ends,
+// onRun gets again = true and a nil s.
+func idxReadTotalsRuns(t *Table, byID map[string]int, ids []string, totalColumn string, onRun func(si int, s []idxEntry, latest int, again bool)) (*idxTotals, error) {
 	idC, err := t.FindColumn("station id", "", IDAliases)
 	if err != nil {
 		return nil, err
@@ -130,8 +142,41 @@ func idxReadTotals(t *Table, byID map[string]int, ids []string, totalColumn stri
 	}
 	tt := &idxTotals{path: t.Path, series: make([][]idxEntry, len(ids))}
 	unknown := make(map[string]bool)
+	// Rows of one station usually come together (a run); a run is gathered
+	// in run and then copied into an exact-sized slice of a shared arena, so
+	// the series take 16 bytes a row and no slice grows by doubling. A
+	// station whose rows come in several runs has its series appended to.
+	var run, arena []idxEntry
+	runSite := -1
+	flush := func() {
+		if runSite < 0 || len(run) == 0 {
+			return
+		}
+		again := tt.series[runSite] != nil
+		if again {
+			tt.series[runSite] = append(tt.series[runSite], run...)
+		} else {
+			if len(run) > len(arena) {
+				arena = make([]idxEntry, max(len(run), idxArenaChunk))
+			}
+			n := copy(arena, run)
+			tt.series[runSite] = arena[:n:n]
+			arena = arena[n:]
+		}
+		run = run[:0]
+		if onRun != nil {
+			switch {
+			case again:
+				onRun(runSite, nil, tt.latest, true)
+			case idxSorted(tt.series[runSite]):
+				onRun(runSite, tt.series[runSite], tt.latest, false)
+			}
+		}
+	}
+	var lastID []byte
+	lastSite := -1
 	for {
-		rec, line, err := t.Next()
+		rec, line, err := t.nextFields()
 		if err == io.EOF {
 			break
 		}
@@ -139,29 +184,43 @@ func idxReadTotals(t *Table, byID map[string]int, ids []string, totalColumn stri
 			return nil, err
 		}
 		tt.rows++
-		id := rec[idC]
-		if id == "" {
+		idb := rec[idC]
+		if len(idb) == 0 {
 			return nil, t.FieldError(line, idC, "missing station id")
 		}
-		si, ok := byID[id]
-		if !ok {
-			if tt.skippedUnknown == 0 {
-				tt.firstUnknown = fmt.Sprintf("%s (line %d)", id, line)
+		si := lastSite
+		if si < 0 || !bytes.Equal(idb, lastID) {
+			var ok bool
+			si, ok = byID[string(idb)]
+			if !ok {
+				if tt.skippedUnknown == 0 {
+					tt.firstUnknown = fmt.Sprintf("%s (line %d)", idb, line)
+				}
+				tt.skippedUnknown++
+				if !unknown[string(idb)] {
+					unknown[string(idb)] = true
+					tt.unknownIDs++
+				}
+				continue
 			}
-			tt.skippedUnknown++
-			if !unknown[id] {
-				unknown[id] = true
-				tt.unknownIDs++
-			}
-			continue
+			lastID = append(lastID[:0], idb...)
+			lastSite = si
 		}
-		ys := rec[yearC]
-		year, err := strconv.Atoi(ys)
-		if err != nil || year < MinTotalYear || year > MaxTotalYear {
-			return nil, t.FieldError(line, yearC, "year %q is not an integer from %d to %d", ys, MinTotalYear, MaxTotalYear)
+		year, ok := idxYear4(rec[yearC])
+		if !ok {
+			ys := string(rec[yearC])
+			year, err = strconv.Atoi(ys)
+			if err != nil || year < MinTotalYear || year > MaxTotalYear {
+				return nil, t.FieldError(line, yearC, "year %q is not an integer from %d to %d", ys, MinTotalYear, MaxTotalYear)
+			}
 		}
 		total := math.NaN()
-		if s := rec[totC]; !IsMissing(s) {
+		if v, ok := idxDecimal(rec[totC]); ok {
+			total = v
+			if year > tt.latest {
+				tt.latest = year
+			}
+		} else if s := string(rec[totC]); !IsMissing(s) {
 			v, err := t.ParseFloat(s)
 			if err != nil {
 				return nil, t.FieldError(line, totC, "total %v", err)
@@ -180,13 +239,18 @@ func idxReadTotals(t *Table, byID map[string]int, ids []string, totalColumn stri
 		if line > math.MaxUint32 {
 			return nil, t.FieldError(line, totC, "totals table longer than %d lines", uint32(math.MaxUint32))
 		}
-		tt.series[si] = append(tt.series[si], idxEntry{total: total, line: uint32(line), year: int32(year)})
+		if si != runSite {
+			flush()
+			runSite = si
+		}
+		run = append(run, idxEntry{total: total, line: uint32(line), year: int32(year)})
 	}
+	flush()
 	// Sort each series by year (input is usually sorted already) and find the
 	// duplicate station-year whose second line comes first in the file.
 	dupA, dupB, dupID, dupYear := 0, 0, "", 0
 	for si, s := range tt.series {
-		if !sort.SliceIsSorted(s, func(i, j int) bool { return idxEntryLess(s[i], s[j]) }) {
+		if !idxSorted(s) {
 			sort.Slice(s, func(i, j int) bool { return idxEntryLess(s[i], s[j]) })
 		}
 		for i := 1; i < len(s); i++ {
@@ -207,4 +271,70 @@ func idxEntryLess(a, b idxEntry) bool {
 		return a.year < b.year
 	}
 	return a.line < b.line
+}
+
+// idxSorted reports whether s is in idxEntryLess order.
+func idxSorted(s []idxEntry) bool {
+	for i := 1; i < len(s); i++ {
+		if idxEntryLess(s[i], s[i-1]) {
+			return false
+		}
+	}
+	return true
+}
+
+// idxArenaChunk is the number of entries the series arena allocates at a
+// time (1 MiB).
+const idxArenaChunk = 1 << 16
+
+// idxYear4 parses a year of exactly four ASCII digits in [MinTotalYear,
+// MaxTotalYear], the common case; anything else reports false and is left
+// to strconv.Atoi (which gives the same value wherever this one succeeds).
+func idxYear4(b []byte) (int, bool) {
+	if len(b) != 4 {
+		return 0, false
+	}
+	y := 0
+	for _, c := range b {
+		if c < '0' || c > '9' {
+			return 0, false
+		}
+		y = y*10 + int(c-'0')
+	}
+	return y, y >= MinTotalYear && y <= MaxTotalYear
+}
+
+// idxPow10 holds the powers of ten that float64 represents exactly.
+var idxPow10 = [...]float64{1, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15}
+
+// idxDecimal parses the common form of a total, ASCII digits with at most
+// one decimal point (at least one digit, at most 15), and reports false for
+// anything else, which is left to Table.ParseFloat. With at most 15 digits
+// the digits form an integer below 2^53 and the divisor 10^k is exact, so the
+// one IEEE division rounds correctly and the result is exactly that of
+// strconv.ParseFloat (Clinger 1990, the exact fast path strconv also takes).
+func idxDecimal(b []byte) (float64, bool) {
+	if len(b) == 0 || len(b) > 16 {
+		return 0, false
+	}
+	var m uint64
+	digits, frac, dot := 0, 0, false
+	for _, c := range b {
+		switch {
+		case c >= '0' && c <= '9':
+			m = m*10 + uint64(c-'0')
+			digits++
+			if dot {
+				frac++
+			}
+		case c == '.' && !dot:
+			dot = true
+		default:
+			return 0, false
+		}
+	}
+	if digits == 0 || digits > 15 {
+		return 0, false
+	}
+	return float64(m) / idxPow10[frac], true
 }
