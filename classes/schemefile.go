@@ -15,6 +15,8 @@ import (
 	"unicode/utf8"
 
 	"github.com/BurntSushi/toml"
+
+	"drygrid/internal/tomlpos"
 )
 
 // maxSchemeBytes bounds a scheme file; real ones are a few kilobytes.
@@ -202,85 +204,11 @@ func schemeTOMLError(file string, err error) error {
 	return fmt.Errorf("scheme %s: %w", file, err)
 }
 
-// schemeLine is where a key or table header sits in the file: the key path
-// as the decoder reports it ("band.color") and, inside [[band]], which band
-// (1-based; 0 outside).
-type schemeLine struct {
-	path string
-	band int
-	line int
-}
-
-var (
-	schemeKeyPart   = `(?:[A-Za-z0-9_-]+|"[^"]*"|'[^']*')`
-	schemeAssignRE  = regexp.MustCompile(`^\s*(` + schemeKeyPart + `(?:\s*\.\s*` + schemeKeyPart + `)*)\s*=`)
-	schemeArrayRE   = regexp.MustCompile(`^\s*\[\[\s*([^\]]+?)\s*\]\]`)
-	schemeTableRE   = regexp.MustCompile(`^\s*\[\s*([^\]]+?)\s*\]`)
-	schemeKeyPartRE = regexp.MustCompile(schemeKeyPart)
-)
-
-// schemeIndexLines finds the line of every key assignment and table header.
-// It only serves error messages, so a line it cannot place costs nothing
-// but precision.
-func schemeIndexLines(data []byte) []schemeLine {
-	var out []schemeLine
-	section, band, bands, inMulti := "", 0, 0, ""
-	for i, l := range strings.Split(string(data), "\n") {
-		n := i + 1
-		if inMulti != "" { // inside a multi-line string
-			if strings.Count(l, inMulti)%2 == 1 {
-				inMulti = ""
-			}
-			continue
-		}
-		for _, q := range []string{`"""`, `'''`} {
-			if strings.Count(l, q)%2 == 1 {
-				inMulti = q
-			}
-		}
-		if m := schemeArrayRE.FindStringSubmatch(l); m != nil {
-			section = schemeJoinKey(m[1])
-			band = 0
-			if section == "band" {
-				bands++
-				band = bands
-			}
-			out = append(out, schemeLine{section, band, n})
-			continue
-		}
-		if m := schemeTableRE.FindStringSubmatch(l); m != nil {
-			section, band = schemeJoinKey(m[1]), 0
-			out = append(out, schemeLine{section, 0, n})
-			continue
-		}
-		if m := schemeAssignRE.FindStringSubmatch(l); m != nil {
-			p := schemeJoinKey(m[1])
-			if section != "" {
-				p = section + "." + p
-			}
-			out = append(out, schemeLine{p, band, n})
-		}
-	}
-	return out
-}
-
-// schemeJoinKey normalises a dotted TOML key: parts unquoted, joined by '.'.
-func schemeJoinKey(k string) string {
-	var parts []string
-	for _, p := range schemeKeyPartRE.FindAllString(k, -1) {
-		if len(p) >= 2 && (p[0] == '"' || p[0] == '\'') {
-			p = p[1 : len(p)-1]
-		}
-		parts = append(parts, p)
-	}
-	return strings.Join(parts, ".")
-}
-
 type schemeParser struct {
 	file   string
 	data   []byte
-	inBand map[schemeLineKey]int // first line of a path in a band (0: outside)
-	first  map[string]schemeLine // first line of a path anywhere
+	inBand map[schemeLineKey]int  // first line of a path in a band (0: outside)
+	first  map[string]tomlpos.Key // first place of a path anywhere
 }
 
 type schemeLineKey struct {
@@ -293,14 +221,17 @@ func (p *schemeParser) index() {
 	if p.first != nil {
 		return
 	}
-	p.inBand, p.first = map[schemeLineKey]int{}, map[string]schemeLine{}
-	for _, l := range schemeIndexLines(p.data) {
-		k := schemeLineKey{l.path, l.band}
-		if _, ok := p.inBand[k]; !ok {
-			p.inBand[k] = l.line
+	p.inBand, p.first = map[schemeLineKey]int{}, map[string]tomlpos.Key{}
+	for _, k := range tomlpos.Index(p.data) {
+		if k.Path != "band" && !strings.HasPrefix(k.Path, "band.") {
+			k.Elem = 0 // only [[band]] elements number the bands
 		}
-		if _, ok := p.first[l.path]; !ok {
-			p.first[l.path] = l
+		lk := schemeLineKey{k.Path, k.Elem}
+		if _, ok := p.inBand[lk]; !ok {
+			p.inBand[lk] = k.Line
+		}
+		if _, ok := p.first[k.Path]; !ok {
+			p.first[k.Path] = k
 		}
 	}
 }
@@ -343,7 +274,7 @@ func (p *schemeParser) unknownKey(keys []toml.Key) error {
 	for _, k := range keys {
 		path := strings.Join(k, ".")
 		l := p.first[path]
-		hits = append(hits, hit{path, l.band, l.line})
+		hits = append(hits, hit{path, l.Elem, l.Line})
 	}
 	rank := func(l int) int {
 		if l == 0 {

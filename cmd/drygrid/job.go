@@ -14,6 +14,7 @@ import (
 
 	"github.com/BurntSushi/toml"
 
+	"drygrid/internal/tomlpos"
 	"drygrid/interp"
 	"drygrid/station"
 )
@@ -120,62 +121,13 @@ func (p *jobParser) errAt(key string, format string, args ...any) error {
 	return fmt.Errorf("job %s: %s: %s", p.name, key, msg)
 }
 
-var (
-	jobKeyPart  = `(?:[A-Za-z0-9_-]+|"[^"\n]*"|'[^'\n]*')`
-	jobAssignRE = regexp.MustCompile(`^(\s*)(` + jobKeyPart + `(?:\s*\.\s*` + jobKeyPart + `)*)\s*=\s*`)
-	jobTableRE  = regexp.MustCompile(`^\s*\[\[?\s*([^\]]+?)\s*\]\]?`)
-	jobPartRE   = regexp.MustCompile(jobKeyPart)
-)
-
-// jobJoinKey normalises a dotted TOML key: parts unquoted, joined by '.'.
-func jobJoinKey(k string) string {
-	var parts []string
-	for _, part := range jobPartRE.FindAllString(k, -1) {
-		if len(part) >= 2 && (part[0] == '"' || part[0] == '\'') {
-			part = part[1 : len(part)-1]
-		}
-		parts = append(parts, part)
-	}
-	return strings.Join(parts, ".")
-}
-
-// jobIndexLines finds where each key's value (and each table header) sits.
-// It only serves error messages: a key it cannot place is reported without
-// a line.
+// jobIndexLines finds where each key's value (and each table header) sits:
+// the first place of each path.
 func jobIndexLines(data []byte) map[string]jobPos {
 	pos := map[string]jobPos{}
-	section, inMulti := "", ""
-	for i, l := range strings.Split(string(data), "\n") {
-		n := i + 1
-		if inMulti != "" {
-			if strings.Count(l, inMulti)%2 == 1 {
-				inMulti = ""
-			}
-			continue
-		}
-		put := func(k string, col int) {
-			if _, ok := pos[k]; !ok {
-				pos[k] = jobPos{n, col}
-			}
-		}
-		if m := jobTableRE.FindStringSubmatchIndex(l); m != nil && !jobAssignRE.MatchString(l) {
-			section = jobJoinKey(l[m[2]:m[3]])
-			put(section, m[2]+1)
-			continue
-		}
-		if m := jobAssignRE.FindStringSubmatchIndex(l); m != nil {
-			k := jobJoinKey(l[m[4]:m[5]])
-			if section != "" {
-				k = section + "." + k
-			}
-			col := utf8.RuneCountInString(l[:m[1]]) + 1
-			put(k, col)
-			rest := l[m[1]:]
-			for _, q := range []string{`"""`, `'''`} {
-				if strings.Count(rest, q)%2 == 1 {
-					inMulti = q
-				}
-			}
+	for _, k := range tomlpos.Index(data) {
+		if _, ok := pos[k.Path]; !ok {
+			pos[k.Path] = jobPos{k.Line, k.Col}
 		}
 	}
 	return pos
