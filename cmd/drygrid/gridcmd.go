@@ -129,8 +129,8 @@ func (f gridFlags) job() (gridJob, error) {
 		return j, usagef("--history needs --regions FILE.geojson")
 	}
 	if f.date != "" {
-		if _, err := time.Parse("2006-01-02", f.date); err != nil {
-			return j, usagef("--date %q: want YYYY-MM-DD", f.date)
+		if err := checkDate(f.date); err != nil {
+			return j, err
 		}
 	}
 	if f.regions == "" {

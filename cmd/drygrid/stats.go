@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
-	"time"
 
 	"github.com/spf13/cobra"
 
@@ -68,8 +67,8 @@ func runStats(cmd *cobra.Command, f statsFlags) error {
 		return usagef("--history needs --date YYYY-MM-DD (the day the band raster describes)")
 	}
 	if f.date != "" {
-		if _, err := time.Parse("2006-01-02", f.date); err != nil || len(f.date) != 10 {
-			return usagef("--date %q is not a calendar date YYYY-MM-DD", f.date)
+		if err := checkDate(f.date); err != nil {
+			return err
 		}
 	}
 	scheme := classes.Default()
