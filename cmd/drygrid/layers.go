@@ -1,8 +1,6 @@
 package main
 
 import (
-	"fmt"
-	"sort"
 	"strings"
 )
 
@@ -59,21 +57,4 @@ func (l layerSet) String() string {
 		}
 	}
 	return strings.Join(out, ",")
-}
-
-// files lists the files the set writes, sorted.
-func (l layerSet) files() []string {
-	var out []string
-	for name := range l {
-		out = append(out, layerFiles[name]...)
-	}
-	sort.Strings(out)
-	return out
-}
-
-func (l layerSet) check(hasRegions bool) error {
-	if l["regions"] && !hasRegions {
-		return fmt.Errorf("layer regions needs --regions FILE.geojson")
-	}
-	return nil
 }
