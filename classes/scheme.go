@@ -38,9 +38,9 @@ func (s *Scheme) Classify(z float64) uint8 {
 	if math.IsNaN(z) {
 		return 0
 	}
-	for _, b := range s.Bands {
-		if b.Contains(z) {
-			return b.Code
+	for i := range s.Bands { // by index: a Band is too large to copy per cell
+		if s.Bands[i].Contains(z) {
+			return s.Bands[i].Code
 		}
 	}
 	return 0

@@ -111,9 +111,7 @@ func tiffFillByteTile(l *tiffLevel, t, tx, ty int, nodata uint8, predict bool, b
 			out[j] = nodata
 		}
 		if predict {
-			for i := t - 1; i > 0; i-- {
-				out[i] -= out[i-1]
-			}
+			tiffByteDiff(out)
 		}
 	}
 }

@@ -143,7 +143,7 @@ func (ip *Interpolator) distKm(c2 float64, rk int32, cx, cy, cz float64) float64
 func (ip *Interpolator) angleSq(c2 float64, rk int32, cx, cy, cz float64) float64 {
 	if c2 <= 0.01 {
 		t := c2 / 4
-		return 4 * t * (1 + t*(1.0/3+t*(8.0/45+t*(4.0/35+t*(128.0/1575+t*(128.0/2079+t*(1024.0/21021)))))))
+		return 4 * t * asinSqSeries(t)
 	}
 	a := ip.distKm(c2, rk, cx, cy, cz) / EarthRadiusKm
 	return a * a

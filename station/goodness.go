@@ -39,7 +39,7 @@ func gofAD(s []float64, shape, scale float64) float64 {
 	floor := math.Log(math.SmallestNonzeroFloat64)
 	lga, _ := math.Lgamma(shape)
 	var stack [128]float64 // most records are shorter: no allocation per station
-	lnQ := stack[:0]
+	var lnQ []float64
 	if n <= len(stack) {
 		lnQ = stack[:n]
 	} else {

@@ -102,13 +102,9 @@ func runCrossval(f crossvalFlags, terms []string, stdout, stderr io.Writer) erro
 			return usageError{err}
 		}
 	}
-	scheme := classes.Default()
-	if f.scheme != "" {
-		s, err := classes.LoadScheme(f.scheme)
-		if err != nil {
-			return err
-		}
-		scheme = s
+	scheme, err := loadScheme(f.scheme)
+	if err != nil {
+		return err
 	}
 	vals, err := station.ReadValues(f.stations, values)
 	if err != nil {
@@ -120,7 +116,7 @@ func runCrossval(f crossvalFlags, terms []string, stdout, stderr io.Writer) erro
 	if len(vals.Stations) == 0 {
 		return fmt.Errorf("stations %s: no station with a usable %s value (%d rows read)", f.stations, vals.Column, vals.Read)
 	}
-	pts := cvPoints(vals)
+	pts := points(vals)
 	if combos != nil {
 		return cvRunSearch(pts, combos, scheme, f.json, stdout)
 	}
@@ -143,19 +139,10 @@ func runCrossval(f crossvalFlags, terms []string, stdout, stderr io.Writer) erro
 	return nil
 }
 
-// cvPoints are the stations as interpolation points.
-func cvPoints(v *station.Values) []interp.Point {
-	pts := make([]interp.Point, len(v.Stations))
-	for i, s := range v.Stations {
-		pts[i] = interp.Point{Lon: s.Lon, Lat: s.Lat, Z: s.Z}
-	}
-	return pts
-}
-
 // crossvalGrid is the cross-validation of a grid run (--crossval): the
 // run's stations with the run's parameters and bands.
 func crossvalGrid(res *gridResult, p interp.Params) (interp.CrossValResult, error) {
-	return interp.CrossValidate(cvPoints(res.Values), p, res.Scheme.Classify)
+	return interp.CrossValidate(points(res.Values), p, res.Scheme.Classify)
 }
 
 // cvNum is a figure for JSON: NaN (nothing counted) becomes null.

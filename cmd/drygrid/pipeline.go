@@ -68,7 +68,7 @@ type gridResult struct {
 	Files   []string
 	Elapsed time.Duration
 	// Rows, when not nil, streams the index rows into the GeoTIFF writers
-	// (Index and Bands are then nil, Tally holds the band areas).
+	// (Index and Bands are then nil). Tally holds the band areas either way.
 	Rows  export.TIFFRowFunc
 	Tally *bandTally
 
@@ -82,13 +82,9 @@ type gridResult struct {
 // (publish.go), so a failed run leaves earlier outputs untouched.
 func runGrid(job gridJob, stderr io.Writer) (*gridResult, error) {
 	start := manifestNow()
-	scheme := classes.Default()
-	if job.Scheme != "" {
-		s, err := classes.LoadScheme(job.Scheme)
-		if err != nil {
-			return nil, err
-		}
-		scheme = s
+	scheme, err := loadScheme(job.Scheme)
+	if err != nil {
+		return nil, err
 	}
 	var regions []grid.Region
 	if job.Regions != "" {
@@ -99,7 +95,6 @@ func runGrid(job gridJob, stderr io.Writer) (*gridResult, error) {
 		regions = r
 	}
 	var vals *station.Values
-	var err error
 	if job.StationsData != nil {
 		vals, err = station.ParseValues(job.Stations, bytes.NewReader(job.StationsData), job.Values)
 	} else {
@@ -117,10 +112,7 @@ func runGrid(job gridJob, stderr io.Writer) (*gridResult, error) {
 	if len(vals.Stations) == 0 {
 		return nil, fmt.Errorf("stations %s: no station with a usable %s value (%d rows read)", job.Stations, vals.Column, vals.Read)
 	}
-	pts := make([]interp.Point, len(vals.Stations))
-	for i, s := range vals.Stations {
-		pts[i] = interp.Point{Lon: s.Lon, Lat: s.Lat, Z: s.Z}
-	}
+	pts := points(vals)
 	spec, err := gridSpec(job, pts)
 	if err != nil {
 		return nil, err
@@ -149,6 +141,8 @@ func runGrid(job gridJob, stderr io.Writer) (*gridResult, error) {
 		index := ip.Grid(spec, bar.set)
 		bar.done()
 		res.Index, res.Bands = index, classify(index, scheme)
+		res.Tally = newBandTally(spec)
+		res.Tally.add(0, spec.Rows, res.Bands.Data)
 		if len(regions) > 0 {
 			res.Regions = grid.Zonal(res.Bands, index, regions)
 		}
@@ -192,6 +186,23 @@ func gridSpec(job gridJob, pts []interp.Point) (grid.Spec, error) {
 	}
 	w, s, e, n := interp.Extent(pts, job.Params.RadiusKm, job.Res)
 	return grid.NewSpec(w, s, e, n, job.Res)
+}
+
+// loadScheme reads a band scheme file, or gives the default bands for "".
+func loadScheme(path string) (*classes.Scheme, error) {
+	if path == "" {
+		return classes.Default(), nil
+	}
+	return classes.LoadScheme(path)
+}
+
+// points are the stations as the interpolator takes them.
+func points(v *station.Values) []interp.Point {
+	pts := make([]interp.Point, len(v.Stations))
+	for i, s := range v.Stations {
+		pts[i] = interp.Point{Lon: s.Lon, Lat: s.Lat, Z: s.Z}
+	}
+	return pts
 }
 
 // classify turns the index raster into band codes (0 = no data).

@@ -71,13 +71,9 @@ func runStats(cmd *cobra.Command, f statsFlags) error {
 			return err
 		}
 	}
-	scheme := classes.Default()
-	if f.scheme != "" {
-		s, err := classes.LoadScheme(f.scheme)
-		if err != nil {
-			return err
-		}
-		scheme = s
+	scheme, err := loadScheme(f.scheme)
+	if err != nil {
+		return err
 	}
 	regions, err := grid.ReadRegions(f.regions, f.regionKey)
 	if err != nil {

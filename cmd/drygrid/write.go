@@ -178,16 +178,7 @@ func buildManifest(job gridJob, res *gridResult, dir string, start time.Time) (*
 	for reason, n := range res.Values.RejectedByReason() {
 		rejected[reason] = n
 	}
-	covered := 0
-	if res.Bands == nil {
-		covered = res.Tally.cells
-	} else {
-		for _, c := range res.Bands.Data {
-			if c != res.Bands.NoData {
-				covered++
-			}
-		}
-	}
+	covered := res.Tally.cells
 	counts := map[string]any{
 		"stations_read": res.Values.Read, "stations_used": len(res.Values.Stations),
 		"stations_rejected": rejected, "station_warnings": len(res.Values.Warnings),

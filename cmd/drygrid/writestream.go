@@ -29,8 +29,10 @@ func (w *layerWriter) writeStreamed(name string, opt export.TIFFOptions) error {
 	return nil
 }
 
-// bandTally sums, from band codes row by row, what coverageShares sums
-// from the band raster, in the same order (so the same figures).
+// bandTally sums the band areas from band codes row by row (code 0 is no
+// data), cells weighted by their ellipsoidal area, for the summary and the
+// manifest: the same sums in the same order whether the rows come streamed
+// or from a band raster in memory.
 type bandTally struct {
 	areas          []float64
 	cols           int
@@ -59,7 +61,8 @@ func (t *bandTally) add(row0, n int, codes []uint8) {
 	}
 }
 
-// shares is coverageShares of the tallied rows.
+// shares gives the covered share of the tallied area and each band's share
+// of the covered area, both in percent.
 func (t *bandTally) shares() (coveredPct float64, bandPct map[uint8]float64) {
 	bandPct = map[uint8]float64{}
 	for c, a := range t.byCode {
