@@ -35,6 +35,9 @@ func WriteFileAtomic(path string, write func(w *bufio.Writer) error) (err error)
 	if err = w.Flush(); err != nil {
 		return fmt.Errorf("write %s: %w", path, err)
 	}
+	if err = f.Sync(); err != nil { // on disk before the rename makes it the file
+		return fmt.Errorf("write %s: %w", path, err)
+	}
 	if err = f.Chmod(0o644); err != nil {
 		return fmt.Errorf("write %s: %w", path, err)
 	}

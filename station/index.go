@@ -1,13 +1,10 @@
 package station
 
 import (
-	"bufio"
 	"encoding/csv"
 	"fmt"
 	"io"
 	"math"
-	"os"
-	"path/filepath"
 	"runtime"
 	"sort"
 	"strconv"
@@ -515,50 +512,4 @@ func WriteIndexCSV(w io.Writer, res *IndexResult) error {
 	}
 	cw.Flush()
 	return cw.Error()
-}
-
-// WriteIndexFile writes the index table to path atomically: to a temporary
-// file in the same directory, renamed over path only when complete, so a
-// failed run leaves an earlier file untouched.
-func WriteIndexFile(path string, res *IndexResult) error {
-	return idxWriteFileAtomic(path, func(w *bufio.Writer) error { return WriteIndexCSV(w, res) })
-}
-
-// idxWriteFileAtomic writes path through a temporary file and a rename.
-func idxWriteFileAtomic(path string, write func(w *bufio.Writer) error) (err error) {
-	dir, base := filepath.Split(path)
-	if dir == "" {
-		dir = "."
-	}
-	f, err := os.CreateTemp(dir, "."+base+".tmp-*")
-	if err != nil {
-		return fmt.Errorf("writing %s: %w", path, err)
-	}
-	tmp := f.Name()
-	defer func() {
-		if err != nil {
-			f.Close()
-			os.Remove(tmp)
-		}
-	}()
-	bw := bufio.NewWriterSize(f, 64<<10)
-	if err = write(bw); err != nil {
-		return fmt.Errorf("writing %s: %w", path, err)
-	}
-	if err = bw.Flush(); err != nil {
-		return fmt.Errorf("writing %s: %w", path, err)
-	}
-	if err = f.Sync(); err != nil {
-		return fmt.Errorf("writing %s: %w", path, err)
-	}
-	if err = f.Chmod(0o644); err != nil {
-		return fmt.Errorf("writing %s: %w", path, err)
-	}
-	if err = f.Close(); err != nil {
-		return fmt.Errorf("writing %s: %w", path, err)
-	}
-	if err = os.Rename(tmp, path); err != nil {
-		return fmt.Errorf("writing %s: %w", path, err)
-	}
-	return nil
 }

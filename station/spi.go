@@ -56,9 +56,7 @@ func GringortenSPI(sample []float64, x float64) float64 {
 		n++
 		equal = 1
 	}
-	i := float64(below) + float64(equal+1)/2
-	p := (i - 0.44) / (float64(n) + 0.12)
-	return spiQuantile(p, 1-p)
+	return idxGringortenSorted(below, equal, n)
 }
 
 // spiCount counts the members of sample below and equal to x.

@@ -88,7 +88,7 @@ func run(a []string) error {
 		if err != nil {
 			return err
 		}
-		return station.WriteIndexFile(a[3], res)
+		return export.WriteFileAtomic(a[3], func(w *bufio.Writer) error { return station.WriteIndexCSV(w, res) })
 	case a[0] == "scale" && len(a) == 8:
 		return scale(a[1:])
 	}

@@ -32,7 +32,7 @@ func demoHistory(sc *station.Scenario, stationsCSV, totalsCSV string, tmpl gridJ
 			return nil, nil, fmt.Errorf("demo history %d: %w", y, err)
 		}
 		values := filepath.Join(tmp, fmt.Sprintf("index-%d.csv", y))
-		if err := station.WriteIndexFile(values, res); err != nil {
+		if err := writeIndexTable(values, res); err != nil {
 			return nil, nil, err
 		}
 		job := tmpl

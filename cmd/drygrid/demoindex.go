@@ -16,7 +16,7 @@ func demoIndex(sc *station.Scenario, stationsCSV, totalsCSV, dir string, stderr 
 		return "", fmt.Errorf("demo index: %w", err)
 	}
 	out := filepath.Join(dir, "index.csv")
-	if err := station.WriteIndexFile(out, res); err != nil {
+	if err := writeIndexTable(out, res); err != nil {
 		return "", err
 	}
 	s := res.Summary()

@@ -73,7 +73,7 @@ hydrological service and local rules.`,
 			if err != nil {
 				return err
 			}
-			if err := station.WriteIndexFile(f.out, res); err != nil {
+			if err := writeIndexTable(f.out, res); err != nil {
 				return err
 			}
 			indexSummary(cmd.ErrOrStderr(), res, f.out)

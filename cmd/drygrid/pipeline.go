@@ -188,6 +188,11 @@ func gridSpec(job gridJob, pts []interp.Point) (grid.Spec, error) {
 	return grid.NewSpec(w, s, e, n, job.Res)
 }
 
+// writeIndexTable writes the index step's table to path atomically.
+func writeIndexTable(path string, res *station.IndexResult) error {
+	return writeStream(path, func(w io.Writer) error { return station.WriteIndexCSV(w, res) })
+}
+
 // loadScheme reads a band scheme file, or gives the default bands for "".
 func loadScheme(path string) (*classes.Scheme, error) {
 	if path == "" {
