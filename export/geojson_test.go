@@ -100,7 +100,10 @@ func TestPolygonizeAntimeridian(t *testing.T) {
 }
 
 // TestGeoJSONDecimals: a cell edge is West + k*Res, so the decimals of Res,
-// West and North suffice (decimal arithmetic, the examples).
+// West and North suffice (decimal arithmetic, the examples). A
+// resolution with no short decimal form (1/12) gets drygrid's cap of 9
+// decimals: our own rule (1e-9 deg is about 0.1 mm on the ground), not a
+// standard's.
 func TestGeoJSONDecimals(t *testing.T) {
 	for _, tc := range []struct {
 		west, north, res float64

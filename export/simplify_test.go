@@ -93,6 +93,9 @@ func TestSimplifyLaws(t *testing.T) {
 		type seg [2]orb.Point
 		segs := map[seg]int{}
 		nv, ne := 0, 0
+		if len(polys) != len(exact) {
+			t.Fatalf("%s: %d bands after simplifying, %d exact", sc.c.name, len(polys), len(exact))
+		}
 		for code, mp := range polys {
 			if len(mp) != len(exact[code]) {
 				t.Fatalf("%s: code %d: %d polygons, exact layer %d", sc.c.name, code, len(mp), len(exact[code]))

@@ -126,9 +126,20 @@ func TestSectorsOneSidedCluster(t *testing.T) {
 		if !ok || n != c.n || math.Abs(z-c.z) > 1e-9 {
 			t.Errorf("sectors %d: z %v from %d stations, want %v from %d", c.sectors, z, n, c.z, c.n)
 		}
-		// With equal weights, z = (east - west) / n, so the western share
-		// of the weight is (1 - z) / 2.
-		if west := (1 - z) / 2; math.Abs(west-c.west) > 1e-9 {
+		// The western stations' share of the weight, measured on its own:
+		// the same stations valued 1 in the west and 0 in the east.
+		ind := append([]Point(nil), pts...)
+		for i := range ind {
+			ind[i].Z = 0
+			if i >= 10 {
+				ind[i].Z = 1
+			}
+		}
+		ipw, err := New(ind, p)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if west, _, _ := ipw.At(0, 0); math.Abs(west-c.west) > 1e-9 {
 			t.Errorf("sectors %d: western weight share %v, want %v", c.sectors, west, c.west)
 		}
 		// The grid agrees at a cell centred on (0, 0).

@@ -49,6 +49,10 @@ func TestScenarioThroughIndex(t *testing.T) {
 	}
 	rms := math.Sqrt(sum2 / float64(len(v.Stations)))
 	t.Logf("index SPI vs imposed z over %d stations: rms difference %.3f", len(v.Stations), rms)
+	// A chosen engineering bound, not a published one: the index refits a
+	// gamma to 30-65 invented years, whose sampling error in the fitted
+	// quantile is of the order of 0.1-0.2 in z; 0.25 rms flags a scenario
+	// whose imposed anomaly the index step no longer recovers.
 	if rms > 0.25 {
 		t.Errorf("index SPI differs from the imposed anomaly by %.3f rms", rms)
 	}

@@ -233,7 +233,7 @@ func TestScenarioTotals(t *testing.T) {
 		m /= n
 		stdMeans = append(stdMeans, (m-k*th)/(math.Sqrt(k)*th/math.Sqrt(n)))
 	}
-	if short < 2 || short > 3 {
+	if short < 2 || short > 3 { // the scenario's own plan: three short records (scenario.go)
 		t.Errorf("%d stations with under 30 years, want 2-3", short)
 	}
 	if gappy < 5 || noTarget != 1 || zeroed < 3 {
@@ -274,7 +274,8 @@ func TestScenarioTotals(t *testing.T) {
 	if math.Abs(mu) > 4*se || sd < 0.6 || sd > 1.25 {
 		t.Errorf("standardised station means: mean %.3f (se %.3f) sd %.3f, want ~0 and ~1", mu, se, sd)
 	}
-	// A plausible 30-day total for a wet maritime mid-latitude climate.
+	// A plausible 30-day total for a wet maritime mid-latitude climate
+	// (common practice; a chosen bound for the invented scenario).
 	if m := all / nAll; m < 60 || m > 200 {
 		t.Errorf("mean window total %.1f mm", m)
 	}

@@ -76,7 +76,7 @@ func TestSPIStandardNormalProperty(t *testing.T) {
 // hand values. n = 5, x the 3rd of 5 distinct values: p = 2.56/5.12 = 0.5,
 // so the SPI is exactly 0; the smallest of 5: p = 0.56/5.12 = 0.109375,
 // Phi^-1(0.109375) = -1.2297 (Abramowitz and Stegun 1964, table 26.1, by
-// interpolation: Phi(-1.23) = 0.10935). Ties {1, 2, 2, 3}: x = 2 has
+// interpolation: Phi(-1.23) = 0.10935; the table value is from memory). Ties {1, 2, 2, 3}: x = 2 has
 // mid-rank 2.5, p = 2.06/4.12 = 0.5.
 func TestGringortenSPI(t *testing.T) {
 	s := []float64{5, 1, 3, 2, 4}
