@@ -27,20 +27,20 @@ func (ip *Interpolator) Grid(spec grid.Spec, progress func(rowsDone, rows int)) 
 		return &grid.Float32{Spec: spec, NoData: grid.NoDataIndex}
 	}
 	out := grid.NewFloat32(spec, grid.NoDataIndex)
-	colLon := make([]float64, spec.Cols)
-	colCos := make([]float64, spec.Cols)
-	colSin := make([]float64, spec.Cols)
-	for c := range colLon {
-		lon, _ := spec.Center(c, 0)
-		colLon[c] = normLon(lon)
-		colSin[c], colCos[c] = math.Sincos(colLon[c] * degToRad)
-	}
+	ip.rows(spec, 0, spec.Rows, out.Data, progress)
+	return out
+}
+
+// rows fills rows row0 .. row0+n-1 of spec into dst (already no data),
+// spread over Params.Workers goroutines; progress, when not nil, is called
+// after each row as Grid documents.
+func (ip *Interpolator) rows(spec grid.Spec, row0, n int, dst []float32, progress func(rowsDone, rows int)) {
+	colLon, colCos, colSin := rowsColumns(spec)
 	workers := ip.p.Workers
 	if workers <= 0 {
 		workers = runtime.GOMAXPROCS(0)
 	}
-	workers = min(workers, spec.Rows)
-
+	workers = min(workers, n)
 	var next atomic.Int64
 	var mu sync.Mutex
 	done := 0
@@ -51,23 +51,22 @@ func (ip *Interpolator) Grid(spec grid.Spec, progress func(rowsDone, rows int)) 
 			defer wg.Done()
 			w := ip.newRowWork()
 			for {
-				row := int(next.Add(1) - 1)
-				if row >= spec.Rows {
+				i := int(next.Add(1) - 1)
+				if i >= n {
 					return
 				}
-				_, lat := spec.Center(0, row)
-				ip.gridRow(w, lat, spec.Res, colLon, colCos, colSin, out.Data[row*spec.Cols:(row+1)*spec.Cols])
+				_, lat := spec.Center(0, row0+i)
+				ip.gridRow(w, lat, spec.Res, colLon, colCos, colSin, dst[i*spec.Cols:(i+1)*spec.Cols])
 				if progress != nil {
 					mu.Lock()
 					done++
-					progress(done, spec.Rows)
+					progress(done, n)
 					mu.Unlock()
 				}
 			}
 		}()
 	}
 	wg.Wait()
-	return out
 }
 
 // rowWork is one worker's scratch space.

@@ -3,9 +3,6 @@ package interp
 import (
 	"fmt"
 	"math"
-	"runtime"
-	"sync"
-	"sync/atomic"
 
 	"drygrid/grid"
 )
@@ -30,35 +27,12 @@ func (ip *Interpolator) Rows(spec grid.Spec, row0, n int, dst []float32) error {
 	if n == 0 || spec.Cols == 0 {
 		return nil
 	}
-	colLon, colCos, colSin := rowsColumns(spec)
-	workers := ip.p.Workers
-	if workers <= 0 {
-		workers = runtime.GOMAXPROCS(0)
-	}
-	workers = min(workers, n)
-	var next atomic.Int64
-	var wg sync.WaitGroup
-	for range workers {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			w := ip.newRowWork()
-			for {
-				i := int(next.Add(1) - 1)
-				if i >= n {
-					return
-				}
-				_, lat := spec.Center(0, row0+i)
-				ip.gridRow(w, lat, spec.Res, colLon, colCos, colSin, dst[i*spec.Cols:(i+1)*spec.Cols])
-			}
-		}()
-	}
-	wg.Wait()
+	ip.rows(spec, row0, n, dst, nil)
 	return nil
 }
 
 // rowsColumns computes the column longitudes of spec and their sines and
-// cosines the way Grid does (a few microseconds per block).
+// cosines (a few microseconds per block).
 func rowsColumns(spec grid.Spec) (lon, cos, sin []float64) {
 	lon, cos, sin = make([]float64, spec.Cols), make([]float64, spec.Cols), make([]float64, spec.Cols)
 	for i := range lon {
