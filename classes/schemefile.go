@@ -8,7 +8,6 @@ import (
 	"os"
 	"path/filepath"
 	"regexp"
-	"sort"
 	"strconv"
 	"strings"
 	"unicode"
@@ -264,45 +263,16 @@ var schemeKnownKeys = map[string][]string{
 
 // unknownKey reports the first (by line) key the format does not know.
 func (p *schemeParser) unknownKey(keys []toml.Key) error {
-	type hit struct {
-		path string
-		band int
-		line int
-	}
-	var hits []hit
 	p.index()
-	for _, k := range keys {
-		path := strings.Join(k, ".")
-		l := p.first[path]
-		hits = append(hits, hit{path, l.Elem, l.Line})
+	paths := make([]string, len(keys))
+	for i, k := range keys {
+		paths[i] = strings.Join(k, ".")
 	}
-	rank := func(l int) int {
-		if l == 0 {
-			return math.MaxInt // unplaced keys last
-		}
-		return l
+	at, msg := tomlpos.Unknown(paths, p.first, schemeKnownKeys)
+	if strings.HasSuffix(at.Path, ".colour") || at.Path == "colour" {
+		msg += `; did you mean "color"?`
 	}
-	sort.SliceStable(hits, func(i, j int) bool { return rank(hits[i].line) < rank(hits[j].line) })
-	h := hits[0]
-	level, last := "", h.path
-	if i := strings.LastIndexByte(h.path, '.'); i >= 0 {
-		level, last = h.path[:i], h.path[i+1:]
-	}
-	where := "at the top level"
-	if level != "" {
-		where = "in [" + level + "]"
-		if h.band > 0 {
-			where = fmt.Sprintf("in [[band]] %d", h.band)
-		}
-	}
-	msg := fmt.Sprintf("unknown key %q %s", last, where)
-	if known, ok := schemeKnownKeys[level]; ok {
-		msg += " (known: " + strings.Join(known, ", ") + ")"
-		if last == "colour" {
-			msg += `; did you mean "color"?`
-		}
-	}
-	return p.errf(h.line, "%s", msg)
+	return p.errf(at.Line, "%s", msg)
 }
 
 func (p *schemeParser) build(f *schemeFile) (*Scheme, error) {

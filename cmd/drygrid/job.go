@@ -6,7 +6,6 @@ import (
 	"math"
 	"path/filepath"
 	"regexp"
-	"sort"
 	"strconv"
 	"strings"
 	"time"
@@ -103,34 +102,19 @@ type runJob struct {
 	History string
 }
 
-// jobPos is where a key's value sits in the job file.
-type jobPos struct{ line, col int }
-
 type jobParser struct {
-	name string
-	data []byte
-	text string            // data without a byte-order mark, as decoded
-	pos  map[string]jobPos // "grid.res" -> position of the value
+	name  string
+	data  []byte
+	text  string                 // data without a byte-order mark, as decoded
+	first map[string]tomlpos.Key // "grid.res" -> where its value sits
 }
 
 func (p *jobParser) errAt(key string, format string, args ...any) error {
 	msg := fmt.Sprintf(format, args...)
-	if at, ok := p.pos[key]; ok {
-		return fmt.Errorf("job %s line %d column %d: %s: %s", p.name, at.line, at.col, key, msg)
+	if at, ok := p.first[key]; ok {
+		return fmt.Errorf("job %s line %d column %d: %s: %s", p.name, at.Line, at.Col, key, msg)
 	}
 	return fmt.Errorf("job %s: %s: %s", p.name, key, msg)
-}
-
-// jobIndexLines finds where each key's value (and each table header) sits:
-// the first place of each path.
-func jobIndexLines(data []byte) map[string]jobPos {
-	pos := map[string]jobPos{}
-	for _, k := range tomlpos.Index(data) {
-		if _, ok := pos[k.Path]; !ok {
-			pos[k.Path] = jobPos{k.Line, k.Col}
-		}
-	}
-	return pos
 }
 
 // jobTOMLLine matches the plain decode errors of BurntSushi/toml:
@@ -162,8 +146,8 @@ func (p *jobParser) jobTOMLError(err error) error {
 		return fmt.Errorf("job %s: %s", p.name, msg)
 	}
 	if m := jobTOMLLine.FindStringSubmatch(err.Error()); m != nil {
-		if at, ok := p.pos[m[2]]; ok {
-			return fmt.Errorf("job %s line %d column %d: %s: %s", p.name, at.line, at.col, m[2], m[3])
+		if at, ok := p.first[m[2]]; ok {
+			return fmt.Errorf("job %s line %d column %d: %s: %s", p.name, at.Line, at.Col, m[2], m[3])
 		}
 		return fmt.Errorf("job %s line %s: %s: %s", p.name, m[1], m[2], m[3])
 	}
@@ -185,7 +169,7 @@ func parseJob(name string, data []byte) (*runJob, error) {
 		line := strings.Count(string(data[:jobFirstInvalid(data)]), "\n") + 1
 		return nil, fmt.Errorf("job %s line %d: not valid UTF-8; save the file as UTF-8", name, line)
 	}
-	p.pos = jobIndexLines(data)
+	p.first = tomlpos.First(tomlpos.Index(data))
 	p.text = strings.TrimPrefix(string(data), "\ufeff")
 	var f jobFile
 	md, err := toml.Decode(p.text, &f)
@@ -212,37 +196,13 @@ func jobFirstInvalid(data []byte) int {
 
 // unknownKey reports the first (by line) key the format does not know.
 func (p *jobParser) unknownKey(keys []toml.Key) error {
-	type hit struct {
-		path string
-		at   jobPos
+	paths := make([]string, len(keys))
+	for i, k := range keys {
+		paths[i] = strings.Join(k, ".")
 	}
-	var hits []hit
-	for _, k := range keys {
-		path := strings.Join(k, ".")
-		hits = append(hits, hit{path, p.pos[path]})
-	}
-	rank := func(h hit) int {
-		if h.at.line == 0 {
-			return math.MaxInt
-		}
-		return h.at.line
-	}
-	sort.SliceStable(hits, func(i, j int) bool { return rank(hits[i]) < rank(hits[j]) })
-	h := hits[0]
-	level, last := "", h.path
-	if i := strings.LastIndexByte(h.path, '.'); i >= 0 {
-		level, last = h.path[:i], h.path[i+1:]
-	}
-	where := "at the top level"
-	if level != "" {
-		where = "in [" + level + "]"
-	}
-	msg := fmt.Sprintf("unknown key %q %s", last, where)
-	if known, ok := jobKnownKeys[level]; ok {
-		msg += " (known: " + strings.Join(known, ", ") + ")"
-	}
-	if h.at.line > 0 {
-		return fmt.Errorf("job %s line %d column %d: %s", p.name, h.at.line, h.at.col, msg)
+	at, msg := tomlpos.Unknown(paths, p.first, jobKnownKeys)
+	if at.Line > 0 {
+		return fmt.Errorf("job %s line %d column %d: %s", p.name, at.Line, at.Col, msg)
 	}
 	return fmt.Errorf("job %s: %s", p.name, msg)
 }

@@ -7,6 +7,7 @@ package tomlpos
 
 import (
 	"regexp"
+	"strconv"
 	"strings"
 	"unicode/utf8"
 )
@@ -80,4 +81,47 @@ func Index(data []byte) []Key {
 		}
 	}
 	return out
+}
+
+// Unknown describes the first, by position in the file, of the undecoded
+// key paths (dotted, as toml.Key.String gives them): its place (zero when
+// the scanner could not place it) and a message "unknown key "x" in
+// [table] (known: a, b)", with "in [[table]] N" inside an array of tables.
+// first maps a path to its first place (see First); known lists the keys
+// each table accepts.
+func Unknown(paths []string, first map[string]Key, known map[string][]string) (Key, string) {
+	best, bestPath := Key{}, ""
+	for i, p := range paths {
+		k := first[p]
+		if i == 0 || (k.Line > 0 && (best.Line == 0 || k.Line < best.Line)) {
+			best, bestPath = k, p
+		}
+	}
+	level, last := "", bestPath
+	if i := strings.LastIndexByte(bestPath, '.'); i >= 0 {
+		level, last = bestPath[:i], bestPath[i+1:]
+	}
+	where := "at the top level"
+	if level != "" {
+		where = "in [" + level + "]"
+		if best.Elem > 0 {
+			where = "in [[" + level + "]] " + strconv.Itoa(best.Elem)
+		}
+	}
+	msg := "unknown key " + strconv.Quote(last) + " " + where
+	if k, ok := known[level]; ok {
+		msg += " (known: " + strings.Join(k, ", ") + ")"
+	}
+	return best, msg
+}
+
+// First maps each path of an index to its first place in the file.
+func First(index []Key) map[string]Key {
+	first := map[string]Key{}
+	for _, k := range index {
+		if _, ok := first[k.Path]; !ok {
+			first[k.Path] = k
+		}
+	}
+	return first
 }

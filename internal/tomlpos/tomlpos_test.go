@@ -69,3 +69,20 @@ func FuzzIndex(f *testing.F) {
 		}
 	})
 }
+
+// TestUnknown: the first placed unknown key is named, with its table, its
+// element in an array of tables, and the keys the table knows; an
+// unplaced key is named only when no other can be placed.
+func TestUnknown(t *testing.T) {
+	doc := []byte("[grid]\nres = 1\n[[band]]\nkey = \"a\"\n[[band]]\ncolr = \"#000000\"\n[grid2]\nx = 1\n")
+	first := First(Index(doc))
+	known := map[string][]string{"band": {"key", "color"}}
+	at, msg := Unknown([]string{"grid2.x", "band.colr", "nowhere"}, first, known)
+	if at.Line != 6 || msg != `unknown key "colr" in [[band]] 2 (known: key, color)` {
+		t.Errorf("Unknown: line %d %q", at.Line, msg)
+	}
+	at, msg = Unknown([]string{"nowhere"}, first, known)
+	if at.Line != 0 || msg != `unknown key "nowhere" at the top level` {
+		t.Errorf("unplaced: line %d %q", at.Line, msg)
+	}
+}
