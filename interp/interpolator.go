@@ -47,6 +47,7 @@ type Interpolator struct {
 	// Stations in longitude order (rank r), ties by input order.
 	lon     []float64
 	x, y, z []float64 // unit vectors
+	cosLat  []float64 // hypot(x, y): the cosine of the latitude, for sector bearings
 	val     []float64
 	id      []int32 // input index
 
@@ -111,7 +112,10 @@ func New(pts []Point, p Params) (*Interpolator, error) {
 	ip := &Interpolator{
 		p: p, theta: theta, thetaDeg: theta / degToRad, c2max: ch * ch,
 		lon: make([]float64, n), x: make([]float64, n), y: make([]float64, n), z: make([]float64, n),
-		val: make([]float64, n), id: order, pts: make([][2]float64, n),
+		val:    make([]float64, n), id: order, pts: make([][2]float64, n),
+	}
+	if p.Sectors > 0 {
+		ip.cosLat = make([]float64, n)
 	}
 	ip.fast = p.Power == 2 && ip.c2max <= 0.01
 	ip.k = min(p.Neighbors, n)
@@ -119,6 +123,9 @@ func New(pts []Point, p Params) (*Interpolator, error) {
 		q := pts[i]
 		ip.lon[r] = nl[i]
 		ip.x[r], ip.y[r], ip.z[r] = unitVector(q.Lon, q.Lat)
+		if p.Sectors > 0 {
+			ip.cosLat[r] = math.Hypot(ip.x[r], ip.y[r])
+		}
 		ip.val[r] = q.Z
 		ip.pts[r] = [2]float64{nl[i], q.Lat}
 	}

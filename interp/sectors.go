@@ -86,7 +86,7 @@ func (ip *Interpolator) sectorPick(cs []cand, lon, sp, cp float64) int {
 	for i := range cs {
 		r := cs[i].rk
 		sdl, cdl := sincosLonDiff(ip.lon[r] - lon)
-		cp2 := math.Hypot(ip.x[r], ip.y[r]) // cosine of the station's latitude
+		cp2 := ip.cosLat[r]
 		sec := sectorOf(sdl*cp2, cp*ip.z[r]-sp*cp2*cdl, s)
 		if count[sec] == quota {
 			continue
