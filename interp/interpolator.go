@@ -112,7 +112,7 @@ func New(pts []Point, p Params) (*Interpolator, error) {
 	ip := &Interpolator{
 		p: p, theta: theta, thetaDeg: theta / degToRad, c2max: ch * ch,
 		lon: make([]float64, n), x: make([]float64, n), y: make([]float64, n), z: make([]float64, n),
-		val:    make([]float64, n), id: order, pts: make([][2]float64, n),
+		val: make([]float64, n), id: order, pts: make([][2]float64, n),
 	}
 	if p.Sectors > 0 {
 		ip.cosLat = make([]float64, n)
