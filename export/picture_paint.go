@@ -27,6 +27,7 @@ type picPainter struct {
 	headerBottom  int
 	lonStep       float64
 	latStep       float64
+	hatchPer      int // spacing of the no-data hatch, in pixels (from the scale)
 	lonDec        int
 	latDec        int
 	legendX       int
@@ -171,8 +172,10 @@ func (p *picPainter) drawHeader() {
 // picHatch is the no-data fill at pixel (x, y): light grey with thin
 // diagonal lines, in image coordinates so the legend swatch matches the map.
 func (p *picPainter) hatchAt(x, y int) color.RGBA {
-	per := max(6, p.px(9))
-	if (x+y)%per == 0 {
+	if p.hatchPer == 0 {
+		p.hatchPer = max(6, p.px(9))
+	}
+	if (x+y)%p.hatchPer == 0 {
 		return picNoDataLine
 	}
 	return picNoData

@@ -385,14 +385,3 @@ func cvRunSearch(pts []interp.Point, combos []interp.Params, scheme *classes.Sch
 	fmt.Fprintf(w, "ranked by RMSE (ties by MAE, then the order given) over %d stations; n = stations counted; bias = mean of predicted - observed\n", len(pts))
 	return nil
 }
-
-// gridCrossvalFigures cross-validates a grid run with its parameters and
-// returns crossvalFigures, for the "crossval" entry of the manifest's counts
-// (grid --crossval).
-func gridCrossvalFigures(res *gridResult, p interp.Params) (map[string]any, error) {
-	r, err := crossvalGrid(res, p)
-	if err != nil {
-		return nil, err
-	}
-	return crossvalFigures(r), nil
-}

@@ -355,7 +355,8 @@ func TestGridSectorsAgainstNumPy(t *testing.T) {
 func TestGridCrossvalFigures(t *testing.T) {
 	out := filepath.Join(t.TempDir(), "layers")
 	f := gridFlags{inputFlags: inputFlags{stations: exampleSPI, kind: "spi"}, res: 0.1,
-		interpFlags: interpFlags{power: 2, neighbors: 12, radiusKm: 300, minStations: 3, sectors: 4}, layers: "index", out: out}
+		interpFlags: interpFlags{power: 2, neighbors: 12, radiusKm: 300, minStations: 3, sectors: 4}, layers: "index", out: out,
+		crossval: true}
 	job, err := f.job()
 	if err != nil {
 		t.Fatal(err)
@@ -364,11 +365,23 @@ func TestGridCrossvalFigures(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	figs, err := gridCrossvalFigures(res, job.Params)
+	if res.crossval == nil {
+		t.Fatal("grid --crossval: no cross-validation in the result")
+	}
+	// The figures as the manifest records them.
+	mb, err := os.ReadFile(filepath.Join(out, "manifest.json"))
 	if err != nil {
 		t.Fatal(err)
 	}
-	b, _ := json.Marshal(figs)
+	var man struct {
+		Counts struct {
+			CrossVal json.RawMessage `json:"crossval"`
+		} `json:"counts"`
+	}
+	if err := json.Unmarshal(mb, &man); err != nil {
+		t.Fatal(err)
+	}
+	b := []byte(man.Counts.CrossVal)
 	stdout, _, err := cvExec("crossval", "--stations", exampleSPI, "--sectors", "4", "--json")
 	if err != nil {
 		t.Fatal(err)
