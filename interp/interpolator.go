@@ -195,21 +195,3 @@ func (ip *Interpolator) selectAt(lon, lat float64, c *cands) int {
 	}
 	return len(c.cs)
 }
-
-// nearest lists the stations At would weight at lon, lat: input indices and
-// great-circle distances in km, nearest first, ties by input order (for
-// tests and diagnostics).
-func (ip *Interpolator) nearest(lon, lat float64) (ids []int, distKm []float64) {
-	c := newCands(ip.k)
-	m := ip.selectAt(lon, lat, c)
-	cx, cy, cz := unitVector(lon, lat)
-	kb := &c.kb
-	for i := range m {
-		kb.offer(c.cs[i].d2, ip.id[c.cs[i].rk], c.cs[i].rk)
-	}
-	for i := 0; i < kb.n; i++ {
-		ids = append(ids, int(kb.id[i]))
-		distKm = append(distKm, ip.distKm(kb.d2[i], kb.rk[i], cx, cy, cz))
-	}
-	return ids, distKm
-}

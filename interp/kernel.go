@@ -317,19 +317,3 @@ func relWeightSq(q, p float64) float64 {
 	}
 	return math.Pow(q, p/2)
 }
-
-// idwWeights are the normalised Shepard (1968) weights d_i^-p / sum d_j^-p
-// for distances none below 1 m, nearest first, computed as estimate does.
-func idwWeights(distKm []float64, p float64) []float64 {
-	w := make([]float64, len(distKm))
-	var s float64
-	for i, d := range distKm {
-		r := distKm[0] / d
-		w[i] = relWeightSq(r*r, p)
-		s += w[i]
-	}
-	for i := range w {
-		w[i] /= s
-	}
-	return w
-}
