@@ -77,18 +77,53 @@ type rowWork struct {
 	// -360, as they are, and shifted by +360, so that any window narrower
 	// than 360 degrees is one contiguous range.
 	lon []float64
-	st  []rowStation
+	st  stationCols
+	d2  []float64    // the window kernel's chords squared
+	kth []uint64     // scratch of kthChord
+	k   windowConsts // the kernel's constants, this worker's copy (the radius changes for a k-th chord)
 	c   *cands
+	o   windowOut
 }
 
-// rowStation is a candidate of a row: unit vector, value and rank.
-type rowStation struct {
-	x, y, z, v float64
-	rk         int32
+// stationCols are the candidate stations of a row, column by column (the
+// layout the window kernel loads four at a time): unit vector, value and
+// rank.
+type stationCols struct {
+	x, y, z, v []float64
+	rk         []int32
+}
+
+func (s *stationCols) reset() {
+	s.x, s.y, s.z, s.v, s.rk = s.x[:0], s.y[:0], s.z[:0], s.v[:0], s.rk[:0]
+}
+
+func (s *stationCols) add(x, y, z, v float64, rk int32) {
+	s.x, s.y, s.z, s.v, s.rk = append(s.x, x), append(s.y, y), append(s.z, z), append(s.v, v), append(s.rk, rk)
+}
+
+// pad puts windowLanes-1 entries past the end, so that the kernel may read
+// a window's last block whole (it masks what lies past the window).
+func (s *stationCols) pad() {
+	n := len(s.x)
+	for range windowLanes - 1 {
+		s.add(0, 0, 0, 0, -1)
+	}
+	s.x, s.y, s.z, s.v, s.rk = s.x[:n], s.y[:n], s.z[:n], s.v[:n], s.rk[:n]
+}
+
+// from is the columns x, y, z, v from station lo on, padding included (the
+// kernel's view of a window starting at lo).
+func (s *stationCols) from(lo int) (x, y, z, v []float64) {
+	return s.x[lo:cap(s.x)], s.y[lo:cap(s.y)], s.z[lo:cap(s.z)], s.v[lo:cap(s.v)]
+}
+
+// window is stations lo .. hi-1.
+func (s *stationCols) window(lo, hi int) stationCols {
+	return stationCols{s.x[lo:hi], s.y[lo:hi], s.z[lo:hi], s.v[lo:hi], s.rk[lo:hi]}
 }
 
 func (ip *Interpolator) newRowWork() *rowWork {
-	return &rowWork{bits: make([]uint64, (len(ip.val)+63)/64), c: newCands(ip.k)}
+	return &rowWork{bits: make([]uint64, (len(ip.val)+63)/64), c: newCands(ip.k), k: *ip.window}
 }
 
 // rowCandidates collects the ranks of the stations whose latitude is within
@@ -117,20 +152,21 @@ func (ip *Interpolator) rowCandidates(w *rowWork, lat float64) []int32 {
 
 // rowStations gathers the candidate stations of a row at latitude lat into
 // w.lon and w.st, with copies shifted by -360 and +360 unless the search
-// window spans every longitude (full). dl is the half-width of the window
-// in longitude; ok is false when the row has fewer candidates than
-// MinStations, so every cell of it is no data.
-func (ip *Interpolator) rowStations(w *rowWork, lat float64) (dl float64, full, ok bool) {
+// window spans every longitude, and returns the cursor of the cells'
+// longitude windows over them; ok is false when the row has fewer
+// candidates than MinStations, so every cell of it is no data.
+func (ip *Interpolator) rowStations(w *rowWork, lat float64) (win lonWindow, ok bool) {
 	ranks := ip.rowCandidates(w, lat)
 	if len(ranks) < ip.p.MinStations {
-		return 0, false, false
+		return lonWindow{}, false
 	}
-	dl = lonHalfWidth(lat, ip.theta)
-	full = dl > 179
-	w.lon, w.st = w.lon[:0], w.st[:0]
+	dl := lonHalfWidth(lat, ip.theta)
+	full := dl > 179
+	w.lon = w.lon[:0]
+	w.st.reset()
 	add := func(r int32, shift float64) {
 		w.lon = append(w.lon, ip.lon[r]+shift)
-		w.st = append(w.st, rowStation{ip.x[r], ip.y[r], ip.z[r], ip.val[r], r})
+		w.st.add(ip.x[r], ip.y[r], ip.z[r], ip.val[r], r)
 	}
 	if full {
 		for _, r := range ranks {
@@ -159,74 +195,230 @@ func (ip *Interpolator) rowStations(w *rowWork, lat float64) (dl float64, full, 
 			add(r, 360)
 		}
 	}
-	// A sentinel past the end, so that gridRow's window can move without
-	// testing the length: no bound is above +Inf.
+	w.st.pad()
+	// A sentinel past the end, so that the window can move without testing
+	// the length: no bound is above +Inf.
 	w.lon = append(w.lon, math.Inf(1))
 	w.lon = w.lon[:len(w.lon)-1]
-	return dl, full, true
+	return lonWindow{lons: w.lon, dl: dl, full: full, hi: len(w.lon), prev: math.Inf(1)}, true
+}
+
+// lonWindow is the range [lo, hi) of a row's stations (in longitude order,
+// with a +Inf sentinel past the end) within dl (plus lonEps) of a cell's
+// longitude: all of them when full.
+type lonWindow struct {
+	lons   []float64
+	dl     float64
+	full   bool
+	lo, hi int
+	prev   float64 // the longitude of the last move
+}
+
+// move puts the window on the cell at longitude l.
+func (w *lonWindow) move(l float64) {
+	if w.full {
+		return
+	}
+	a, b := l-w.dl-lonEps, l+w.dl+lonEps
+	lons := w.lons
+	if l < w.prev {
+		w.lo = sort.SearchFloat64s(lons, a)
+		w.hi = w.lo + sort.Search(len(lons)-w.lo, func(i int) bool { return lons[w.lo+i] > b })
+	} else {
+		// The window moves by a station or none from one cell to the
+		// next, most of the time: one step without a branch, then a loop
+		// that is seldom entered. lons[len(lons)] is the sentinel.
+		sl := lons[:len(lons)+1]
+		lo, hi := w.lo, w.hi
+		lo += b2i(sl[lo] < a)
+		hi += b2i(sl[hi] <= b)
+		for sl[lo] < a {
+			lo++
+		}
+		for sl[hi] <= b {
+			hi++
+		}
+		w.lo, w.hi = lo, hi
+	}
+	w.prev = l
 }
 
 // gridRow fills one row of cells at latitude lat; colStep is the longitude
 // step between cell centres.
 func (ip *Interpolator) gridRow(w *rowWork, lat, colStep float64, colLon, colCos, colSin []float64, dst []float32) {
-	if ip.p.Sectors > 0 {
+	switch {
+	case ip.p.Sectors > 0:
 		ip.gridRowSectors(w, lat, colLon, colCos, colSin, dst) // sectors.go
-		return
+	case ip.fast && ip.c2max/4 <= shortSeriesMaxT:
+		ip.gridRowWindow(w, lat, colStep, colLon, colCos, colSin, dst)
+	default:
+		ip.gridRowCands(w, lat, colStep, colLon, colCos, colSin, dst)
 	}
-	dl, full, ok := ip.rowStations(w, lat)
+}
+
+// gridRowWindow is gridRow through the window kernel (window.go), for
+// power 2 and a radius of up to 337 km. A cell whose k nearest stations
+// within the radius are the stations within some chord of it is the
+// kernel's weighted mean over that chord; any other (a tie at the k-th
+// distance, a station within 1 m) goes through the candidate list as in
+// gridRowCands.
+//
+// The chord: the radius, unless the previous cell (delta away) had k or
+// more stations within it, the k-th nearest at chord sqrt(tau). Then this
+// cell has at least k stations within sqrt(tau) + delta (triangle
+// inequality), and when exactly k lie within that they are the k nearest;
+// when more do, the kernel runs again out to the k-th smallest chord.
+func (ip *Interpolator) gridRowWindow(w *rowWork, lat, colStep float64, colLon, colCos, colSin []float64, dst []float32) {
+	win, ok := ip.rowStations(w, lat)
+	if !ok {
+		return // already no data
+	}
+	sp, cp := math.Sincos(lat * degToRad)
+	if need := len(win.lons) + windowLanes; cap(w.d2) < need {
+		w.d2 = make([]float64, need)
+		w.kth = make([]uint64, need+1)
+	}
+	d2 := w.d2[:cap(w.d2)]
+	c := w.c
+	c.reset(len(win.lons) + 1)
+	st, o, k := &w.st, &w.o, ip.k
+	c2max := ip.c2max
+	tau := -1.0                                                 // the previous cell's k-th chord squared, if it had k or more
+	delta := 2 * cp * math.Sin(colStep*degToRad/2) * (1 + 1e-9) // chord between neighbouring cell centres
+	for col := range dst {
+		win.move(colLon[col])
+		lo, m := win.lo, win.hi-win.lo
+		cx, cy, cz := cp*colCos[col], cp*colSin[col], sp
+		x, y, z, v := st.from(lo)
+		rc := c2max
+		if tau >= 0 {
+			u := math.Sqrt(tau) + delta
+			rc = min(c2max, u*u)
+		}
+		w.radius(rc)
+		windowSums(x, y, z, v, d2, m, cx, cy, cz, &w.k, o)
+		n := int(o.n)
+		if n < k && rc < c2max { // not expected (see above); to be safe
+			w.radius(c2max)
+			windowSums(x, y, z, v, d2, m, cx, cy, cz, &w.k, o)
+			n = int(o.n)
+		}
+		if n < ip.p.MinStations {
+			tau = -1
+			continue
+		}
+		tau = -1
+		if n >= k {
+			tau = o.far
+		}
+		if n > k {
+			tau = kthChord(d2[:m], rc, k, w.kth)
+			w.radius(tau)
+			windowSums(x, y, z, v, d2, m, cx, cy, cz, &w.k, o)
+		}
+		if int(o.n) == min(n, k) && o.ex == 0 {
+			dst[col] = float32(o.value())
+			continue
+		}
+		// A tie at the k-th distance, or a station within 1 m: the
+		// candidate list, from the chords the kernel wrote.
+		n = gatherWindow(st.window(lo, lo+m), d2[:m], c.cs, c2max)
+		if v, _, ok := ip.estimate(c, n, cx, cy, cz); ok {
+			dst[col] = float32(v)
+		}
+	}
+}
+
+// radius sets the chord squared out to which the kernel counts stations.
+func (w *rowWork) radius(c2 float64) {
+	if w.k.c2max[0] != c2 {
+		w.k.c2max = [windowLanes]float64{c2, c2, c2, c2}
+	}
+}
+
+// kthChord is the k-th smallest of the chords squared in d2 that are within
+// c2max, when more than k are, found in scratch (longer than d2): it drops
+// the largest until k are left. Chords squared are never NaN nor -0, so
+// their bits order as their values (maxD2), and an integer maximum chooses
+// without a branch.
+func kthChord(d2 []float64, c2max float64, k int, scratch []uint64) float64 {
+	b := scratch[:len(d2)+1]
+	n := 0
+	for _, c2 := range d2 {
+		b[n] = math.Float64bits(c2)
+		n += b2i(c2 <= c2max)
+	}
+	b = b[:n]
+	for len(b) > k {
+		top := maxBits(b)
+		i := 0
+		for b[i] != top {
+			i++
+		}
+		b[i] = b[len(b)-1]
+		b = b[:len(b)-1]
+	}
+	return math.Float64frombits(maxBits(b))
+}
+
+// maxBits is the largest of b (not empty), with two running maxima.
+func maxBits(b []uint64) uint64 {
+	x, y := b[0], b[0]
+	i := 1
+	for ; i+1 < len(b); i += 2 {
+		x, y = max(x, b[i]), max(y, b[i+1])
+	}
+	if i < len(b) {
+		x = max(x, b[i])
+	}
+	return max(x, y)
+}
+
+// gatherWindow puts in cs the stations of win whose chord squared (d2,
+// computed) is within c2max and returns their number.
+func gatherWindow(win stationCols, d2 []float64, cs []cand, c2max float64) int {
+	n := 0
+	for j, c2 := range d2 {
+		if c2 <= c2max {
+			cs[n] = cand{c2, win.v[j], win.rk[j]}
+			n++
+		}
+	}
+	return n
+}
+
+// gridRowCands is gridRow through the candidate list of each cell, for
+// the settings the window kernel does not serve.
+func (ip *Interpolator) gridRowCands(w *rowWork, lat, colStep float64, colLon, colCos, colSin []float64, dst []float32) {
+	win, ok := ip.rowStations(w, lat)
 	if !ok {
 		return // already no data
 	}
 	sp, cp := math.Sincos(lat * degToRad)
 	c2max := ip.c2max
 	c := w.c
-	c.reset(len(w.lon) + 1)
+	c.reset(len(win.lons) + 1)
 	cs := c.cs
-	lons, st := w.lon, w.st
-	lo, hi := 0, len(lons)
-	prev := math.Inf(1)
 	k := ip.k
 	kth := -1.0                                                 // k-th chord squared at the previous cell, when it had k or more
 	delta := 2 * cp * math.Sin(colStep*degToRad/2) * (1 + 1e-9) // chord between neighbouring cell centres
 	for col := range dst {
-		l := colLon[col]
-		if !full {
-			a, b := l-dl-lonEps, l+dl+lonEps
-			if l < prev {
-				lo = sort.SearchFloat64s(lons, a)
-				hi = lo + sort.Search(len(lons)-lo, func(i int) bool { return lons[lo+i] > b })
-			} else {
-				// The window moves by a station or none from one cell to
-				// the next, most of the time: one step without a branch,
-				// then a loop that is seldom entered. lons[len(lons)] is
-				// rowStations's sentinel.
-				sl := lons[:len(lons)+1]
-				lo += b2i(sl[lo] < a)
-				hi += b2i(sl[hi] <= b)
-				for sl[lo] < a {
-					lo++
-				}
-				for sl[hi] <= b {
-					hi++
-				}
-			}
-			prev = l
-		}
+		win.move(colLon[col])
 		cx, cy, cz := cp*colCos[col], cp*colSin[col], sp
 		// The k-th nearest of the previous cell, delta away, bounds this
 		// cell's k-th nearest by sqrt(kth) + delta (triangle inequality):
 		// when at least k candidates lie within that, the k nearest are
 		// among them and the rest need not be kept. Otherwise, scan again
 		// out to the radius.
-		win := st[lo:hi]
+		st := w.st.window(win.lo, win.hi)
 		thr := c2max
 		if kth >= 0 {
 			u := math.Sqrt(kth) + delta
 			thr = min(c2max, u*u)
 		}
-		n := scanWindow(win, cs, cx, cy, cz, thr)
+		n := scanWindow(st, cs, cx, cy, cz, thr)
 		if n < k && thr < c2max {
-			n = scanWindow(win, cs, cx, cy, cz, c2max)
+			n = scanWindow(st, cs, cx, cy, cz, c2max)
 		}
 		if n < ip.p.MinStations {
 			kth = -1
@@ -247,20 +439,21 @@ func (ip *Interpolator) gridRow(w *rowWork, lat, colStep float64, colLon, colCos
 }
 
 // scanWindow puts in cs the stations of win within chord squared c2max of
-// the unit vector (cx, cy, cz) and returns their number; cs must be at
-// least as long as win. A function of its own, so that the compiler keeps
-// the loop in registers.
-func scanWindow(win []rowStation, cs []cand, cx, cy, cz, c2max float64) int {
+// the unit vector (cx, cy, cz) and returns their number; cs must be longer
+// than win. A function of its own, so that the compiler keeps the loop in
+// registers.
+func scanWindow(win stationCols, cs []cand, cx, cy, cz, c2max float64) int {
 	n := 0
-	cs = cs[:len(win)+1]
-	for j := range win {
-		s := &win[j]
-		// s.x - cx is exactly -(cx - s.x), so the square has the same
+	x := win.x
+	y, z, v, rk := win.y[:len(x)], win.z[:len(x)], win.v[:len(x)], win.rk[:len(x)]
+	cs = cs[:len(x)+1]
+	for j := range x {
+		// x[j] - cx is exactly -(cx - x[j]), so the square has the same
 		// bits; written this way round the compiler needs no copies of
 		// cx, cy, cz (the subtraction overwrites its first operand).
-		dx, dy, dz := s.x-cx, s.y-cy, s.z-cz
+		dx, dy, dz := x[j]-cx, y[j]-cy, z[j]-cz
 		d2 := dx*dx + dy*dy + dz*dz
-		cs[n] = cand{d2, s.v, s.rk}
+		cs[n] = cand{d2, v[j], rk[j]}
 		n += b2i(d2 <= c2max) // branch-free: the test is unpredictable
 	}
 	return n

@@ -38,11 +38,12 @@ const lonEps = 1e-9
 // index. It is built once by New and is safe for concurrent use.
 type Interpolator struct {
 	p        Params
-	theta    float64 // search radius as a central angle, radians
-	thetaDeg float64 // the same in degrees
-	c2max    float64 // chord length squared of the search radius (unit sphere)
-	fast     bool    // power 2 and c2max <= 0.01: the series path of estimate
-	k        int     // Neighbors, at most the number of stations (sizes the buffers)
+	theta    float64       // search radius as a central angle, radians
+	thetaDeg float64       // the same in degrees
+	c2max    float64       // chord length squared of the search radius (unit sphere)
+	fast     bool          // power 2 and c2max <= 0.01: the series path of estimate
+	k        int           // Neighbors, at most the number of stations (sizes the buffers)
+	window   *windowConsts // the window kernel's constants (window.go)
 
 	// Stations in longitude order (rank r), ties by input order.
 	lon     []float64
@@ -119,6 +120,7 @@ func New(pts []Point, p Params) (*Interpolator, error) {
 	}
 	ip.fast = p.Power == 2 && ip.c2max <= 0.01
 	ip.k = min(p.Neighbors, n)
+	ip.window = newWindowConsts(ip.c2max)
 	for r, i := range order {
 		q := pts[i]
 		ip.lon[r] = nl[i]

@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"math"
 	"slices"
-	"sort"
 )
 
 // Direction sectors (Params.Sectors), after Shepard's (1968) directional
@@ -154,25 +153,18 @@ func (ip *Interpolator) estimateAt(c *cands, n int, lon, lat, cx, cy, cz float64
 // longitude window out to the full radius (the k-th-nearest shortcut of
 // gridRow does not hold when far stations in empty sectors are wanted).
 func (ip *Interpolator) gridRowSectors(w *rowWork, lat float64, colLon, colCos, colSin []float64, dst []float32) {
-	dl, full, ok := ip.rowStations(w, lat)
+	win, ok := ip.rowStations(w, lat)
 	if !ok {
 		return // already no data
 	}
 	sp, cp := math.Sincos(lat * degToRad)
 	c := w.c
-	c.reset(len(w.lon) + 1)
-	lons, st := w.lon, w.st
+	c.reset(len(win.lons) + 1)
 	for col := range dst {
 		l := colLon[col]
-		win := st
-		if !full {
-			a, b := l-dl-lonEps, l+dl+lonEps
-			lo := sort.SearchFloat64s(lons, a)
-			hi := lo + sort.Search(len(lons)-lo, func(i int) bool { return lons[lo+i] > b })
-			win = st[lo:hi]
-		}
+		win.move(l)
 		cx, cy, cz := cp*colCos[col], cp*colSin[col], sp
-		n := scanWindow(win, c.cs, cx, cy, cz, ip.c2max)
+		n := scanWindow(w.st.window(win.lo, win.hi), c.cs, cx, cy, cz, ip.c2max)
 		if n < ip.p.MinStations {
 			continue
 		}

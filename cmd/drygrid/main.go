@@ -77,4 +77,9 @@ func run(args []string) int {
 	return exitData
 }
 
-func main() { os.Exit(run(os.Args[1:])) }
+func main() {
+	stop := startProfile()
+	code := run(os.Args[1:])
+	stop()
+	os.Exit(code)
+}
