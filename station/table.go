@@ -460,11 +460,34 @@ func (t *Table) ParseFloat(s string) (float64, error) {
 	return v, nil
 }
 
+// floatField is Float for a record of nextFields: the common form of a
+// decimal (signedDecimal) without a copy, anything else through Float.
+func (t *Table) floatField(rec [][]byte, line, col int, what string) (float64, error) {
+	if x, ok := signedDecimal(rec[col]); ok {
+		return x, nil
+	}
+	return t.floatCell(string(rec[col]), line, col, what)
+}
+
+// signedDecimal is idxDecimal with an optional leading minus sign: exactly
+// strconv.ParseFloat's value for those forms (including -0).
+func signedDecimal(b []byte) (float64, bool) {
+	if len(b) > 0 && b[0] == '-' {
+		x, ok := idxDecimal(b[1:])
+		return -x, ok
+	}
+	return idxDecimal(b)
+}
+
 // Float reads a required finite number from column col of a record: a
 // missing cell, a non-number, NaN or Inf is an error naming the file, line
 // and column; what names the quantity in the message.
 func (t *Table) Float(rec []string, line, col int, what string) (float64, error) {
-	s := rec[col]
+	return t.floatCell(rec[col], line, col, what)
+}
+
+// floatCell is Float of the cell s in column col.
+func (t *Table) floatCell(s string, line, col int, what string) (float64, error) {
 	if IsMissing(s) {
 		return 0, t.FieldError(line, col, "missing %s", what)
 	}

@@ -215,7 +215,7 @@ func readValues(t *Table, opt ValueOptions) (*Values, error) {
 		}
 	}
 	for {
-		rec, line, err := t.Next()
+		rec, line, err := t.nextFields()
 		if err == io.EOF {
 			break
 		}
@@ -223,18 +223,18 @@ func readValues(t *Table, opt ValueOptions) (*Values, error) {
 			return nil, err
 		}
 		v.Read++
-		id := rec[idC]
-		if id == "" {
+		idb := rec[idC]
+		if len(idb) == 0 {
 			return nil, t.FieldError(line, idC, "missing station id")
 		}
-		lat, err := t.Float(rec, line, latC, "latitude")
+		lat, err := t.floatField(rec, line, latC, "latitude")
 		if err != nil {
 			return nil, err
 		}
 		if lat < -90 || lat > 90 {
 			return nil, t.FieldError(line, latC, "latitude %s outside [-90, 90]", rec[latC])
 		}
-		lon, err := t.Float(rec, line, lonC, "longitude")
+		lon, err := t.floatField(rec, line, lonC, "longitude")
 		if err != nil {
 			return nil, err
 		}
@@ -244,12 +244,17 @@ func readValues(t *Table, opt ValueOptions) (*Values, error) {
 		if lon >= 180 {
 			lon -= 360 // 0-360 input normalised to [-180, 180)
 		}
-		row := valuesRow{line: line, lat: lat, lon: lon, missing: IsMissing(rec[valC])}
-		if !row.missing {
-			x, err := t.Float(rec, line, valC, string(kind))
+		row := valuesRow{line: line, lat: lat, lon: lon}
+		if x, ok := signedDecimal(rec[valC]); ok {
+			row.value = x
+		} else if row.missing = IsMissing(string(rec[valC])); !row.missing {
+			row.value, err = t.floatField(rec, line, valC, string(kind))
 			if err != nil {
 				return nil, err
 			}
+		}
+		if !row.missing {
+			x := row.value
 			switch kind {
 			case KindPercentile:
 				if x < 0 || x > 100 {
@@ -260,9 +265,9 @@ func readValues(t *Table, opt ValueOptions) (*Values, error) {
 					return nil, t.FieldError(line, valC, "spi %s outside [-%d, %d], implausible", rec[valC], SPILimit, SPILimit)
 				}
 			}
-			row.value = x
 		}
-		if first, dup := byID[id]; dup {
+		if first, dup := byID[string(idb)]; dup {
+			id := string(idb)
 			if !valuesSamePoint(first.lat, first.lon, lat, lon) {
 				col := latC
 				if math.Abs(first.lat-lat) <= 1e-9 {
@@ -276,6 +281,7 @@ func readValues(t *Table, opt ValueOptions) (*Values, error) {
 			warn("%s line %d: repeats station %s of line %d exactly; kept once", t.Path, line, id, first.line)
 			continue
 		}
+		id := string(idb)
 		byID[id] = row
 		if row.missing {
 			v.Rejected = append(v.Rejected, Rejection{Line: line, ID: id, Reason: ReasonNoValue})
