@@ -82,7 +82,6 @@ type rowWork struct {
 	kth []uint64     // scratch of kthChord
 	k   windowConsts // the kernel's constants, this worker's copy (the radius changes for a k-th chord)
 	c   *cands
-	o   windowOut
 }
 
 // stationCols are the candidate stations of a row, column by column (the
@@ -281,26 +280,28 @@ func (ip *Interpolator) gridRowWindow(w *rowWork, lat, colStep float64, colLon, 
 	d2 := w.d2[:cap(w.d2)]
 	c := w.c
 	c.reset(len(win.lons) + 1)
-	st, o, k := &w.st, &w.o, ip.k
+	st, k := &w.st, ip.k
 	c2max := ip.c2max
+	kc := &windowCell{d2: d2, k: &w.k}
+	o := &kc.out
 	tau := -1.0                                                 // the previous cell's k-th chord squared, if it had k or more
 	delta := 2 * cp * math.Sin(colStep*degToRad/2) * (1 + 1e-9) // chord between neighbouring cell centres
 	for col := range dst {
 		win.move(colLon[col])
 		lo, m := win.lo, win.hi-win.lo
-		cx, cy, cz := cp*colCos[col], cp*colSin[col], sp
-		x, y, z, v := st.from(lo)
+		kc.x, kc.y, kc.z, kc.v = st.from(lo)
+		kc.m, kc.cx, kc.cy, kc.cz = m, cp*colCos[col], cp*colSin[col], sp
 		rc := c2max
 		if tau >= 0 {
 			u := math.Sqrt(tau) + delta
 			rc = min(c2max, u*u)
 		}
 		w.radius(rc)
-		windowSums(x, y, z, v, d2, m, cx, cy, cz, &w.k, o)
+		kc.sums()
 		n := int(o.n)
 		if n < k && rc < c2max { // not expected (see above); to be safe
 			w.radius(c2max)
-			windowSums(x, y, z, v, d2, m, cx, cy, cz, &w.k, o)
+			kc.sums()
 			n = int(o.n)
 		}
 		if n < ip.p.MinStations {
@@ -314,16 +315,16 @@ func (ip *Interpolator) gridRowWindow(w *rowWork, lat, colStep float64, colLon, 
 		if n > k {
 			tau = kthChord(d2[:m], rc, k, w.kth)
 			w.radius(tau)
-			windowSums(x, y, z, v, d2, m, cx, cy, cz, &w.k, o)
+			kc.sums()
 		}
-		if int(o.n) == min(n, k) && o.ex == 0 {
+		if int(o.n) == min(n, k) && o.near >= exactChordSq {
 			dst[col] = float32(o.value())
 			continue
 		}
 		// A tie at the k-th distance, or a station within 1 m: the
 		// candidate list, from the chords the kernel wrote.
 		n = gatherWindow(st.window(lo, lo+m), d2[:m], c.cs, c2max)
-		if v, _, ok := ip.estimate(c, n, cx, cy, cz); ok {
+		if v, _, ok := ip.estimate(c, n, kc.cx, kc.cy, kc.cz); ok {
 			dst[col] = float32(v)
 		}
 	}

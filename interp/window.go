@@ -22,82 +22,109 @@ import "math"
 const windowLanes = 4
 
 // windowConsts are the kernel's constants, each repeated in four lanes for
-// the vector loads: the asinSqSeries4 coefficients, the radius and the 1 m
-// rule as chords squared, and the lane numbers. The order is the one
-// window_amd64.s reads (32 bytes each).
+// the vector loads: the weight's series coefficients (see windowSumsGo) and
+// the radius as a chord squared. The order is the one window_amd64.s reads
+// (32 bytes each).
 type windowConsts struct {
-	quarter, r4, r3, r2, r1, one [windowLanes]float64
-	posInf, negInf               [windowLanes]float64
-	four                         [windowLanes]int64 // the step of the lane numbers
-	c2max, exact                 [windowLanes]float64
-	lane                         [windowLanes]int64 // 0, 1, 2, 3
+	r4, r3, r2, r1, one [windowLanes]float64
+	posInf, negInf      [windowLanes]float64
+	c2max               [windowLanes]float64
 }
 
 func newWindowConsts(c2max float64) *windowConsts {
 	k := &windowConsts{}
 	for l := range windowLanes {
-		k.quarter[l], k.r4[l], k.r3[l], k.r2[l], k.r1[l], k.one[l] = 0.25, -289.0/14175, -31.0/945, -1.0/15, -1.0/3, 1
-		k.posInf[l], k.negInf[l] = math.Inf(1), math.Inf(-1)
-		k.four[l], k.lane[l] = windowLanes, int64(l)
-		k.c2max[l], k.exact[l] = c2max, exactChordSq
+		// -1/3, -1/15, -31/945, -289/14175 times 4^-n (exact).
+		k.r1[l], k.r2[l], k.r3[l], k.r4[l] = -1.0/3/4, -1.0/15/16, -31.0/945/64, -289.0/14175/256
+		k.one[l], k.posInf[l], k.negInf[l] = 1, math.Inf(1), math.Inf(-1)
+		k.c2max[l] = c2max
 	}
 	return k
 }
 
-// windowOut is what the kernel gives, over the stations within the radius:
-// the sums of w and w v and the smallest and largest v, the lanes put
-// together in their fixed order; the largest chord squared (+0 for none);
-// ex, not zero when one of them is within 1 m; n, their number. The layout
-// is the one window_amd64.s writes.
+// windowOut is what the kernel gives: over the stations within the radius,
+// the sums of w and w v, the smallest and largest v and the largest chord
+// squared (+0 for none), and their number n; and near, the smallest chord
+// squared of all the stations read. Lanes are put together in their fixed
+// order. The layout is the one window_amd64.s writes.
 type windowOut struct {
-	sw, swz, lo, hi, far float64
-	ex, n                int64
+	sw, swz, lo, hi, far, near float64
+	n                          int64
 }
 
-// windowSums runs the kernel over the m stations at x, y, z, v (each
-// readable to m rounded up to a multiple of four) for the cell at the unit
-// vector (cx, cy, cz), writing every chord squared to d2 (as long) and the
-// sums to out. It is windowSumsAVX2 where the processor has AVX2, else
-// windowSumsGo: the same bits either way (TestWindowSumsAsm).
-var windowSums = windowSumsGo
+// windowCell is one call of the kernel: the stations at x, y, z, v, and the
+// cell at the unit vector (cx, cy, cz). The kernel reads stations 0 .. m-1
+// and the padding after them to a multiple of four, which must lie outside
+// the radius (in the grid they are the stations after the cell's
+// longitude window, or the padding of the row, so they do); it writes every
+// chord squared to d2 and its sums to out. The layout is the one
+// window_amd64.s reads.
+type windowCell struct {
+	x, y, z, v, d2 []float64
+	m              int
+	cx, cy, cz     float64
+	k              *windowConsts
+	out            windowOut
+}
+
+// sums runs the kernel: the AVX2 version where the processor has it, else
+// windowSumsGo; the same bits either way (TestWindowSumsAsm).
+func (c *windowCell) sums() {
+	if hasWindowAVX2 {
+		windowSumsVec(c)
+		return
+	}
+	windowSumsGo(c)
+}
 
 // windowSumsGo is the kernel in Go, lane by lane as the vector version
-// computes it. A station outside the radius (or past m) adds nothing to its
-// lane: the vector version adds +0 there, which changes no lane sum (a sum
-// that starts at +0 never becomes -0), and offers +Inf and -Inf to the
-// smallest and largest.
-func windowSumsGo(x, y, z, v, d2 []float64, m int, cx, cy, cz float64, k *windowConsts, out *windowOut) {
+// computes it. A station outside the radius adds nothing to its lane: the
+// vector version adds +0 there, which changes no lane sum (a sum that starts
+// at +0 never becomes -0), and offers +Inf and -Inf to the smallest and
+// largest value.
+//
+// The weight is 1/theta^2 for the central angle theta = 2 asin(c/2) of the
+// chord c: (1/c^2) R(c^2), where R(s) = c^2/theta^2 = 1 - t/3 - t^2/15 -
+// 31 t^3/945 - 289 t^4/14175 with t = s/4 (the reciprocal of
+// asinSqSeries, worked out term by term with exact fractions; the first
+// omitted term is below 3e-18 for a radius of up to 337 km). It is written
+// in s, with the coefficients scaled by powers of four (exactly), and
+// evaluated in Estrin's scheme, which the vector version overlaps with the
+// division.
+func windowSumsGo(c *windowCell) {
+	x, y, z, v, d2, m, cx, cy, cz, k := c.x, c.y, c.z, c.v, c.d2, c.m, c.cx, c.cy, c.cz, c.k
 	var sw, swz, far [windowLanes]float64
-	lo, hi := k.posInf, k.negInf
-	*out = windowOut{}
+	lo, hi, near := k.posInf, k.negInf, k.posInf
+	var n int64
 	for b := 0; b < m; b += windowLanes {
 		for l := range windowLanes {
 			j := b + l
 			dx, dy, dz := x[j]-cx, y[j]-cy, z[j]-cz
 			c2 := dx*dx + dy*dy + dz*dz
 			d2[j] = c2
-			if j >= m || !(c2 <= k.c2max[l]) {
+			near[l] = minLane(near[l], c2)
+			if !(c2 <= k.c2max[l]) {
 				continue
 			}
-			out.n++
-			if c2 < k.exact[l] {
-				out.ex = 1
-			}
-			t := c2 * k.quarter[l]
-			t2 := t * t
-			w := (k.one[l] / c2) * ((k.one[l] + k.r1[l]*t) + t2*((k.r2[l]+k.r3[l]*t)+k.r4[l]*t2))
+			n++
+			far[l] = maxLane(far[l], c2)
+			s2 := c2 * c2
+			w := (k.one[l] / c2) * ((k.one[l] + k.r1[l]*c2) + s2*((k.r2[l]+k.r3[l]*c2)+k.r4[l]*s2))
 			sw[l] += w
 			swz[l] += w * v[j]
 			lo[l] = minLane(lo[l], v[j])
 			hi[l] = maxLane(hi[l], v[j])
-			far[l] = maxLane(far[l], c2)
 		}
 	}
-	out.sw = (sw[0] + sw[1]) + (sw[2] + sw[3])
-	out.swz = (swz[0] + swz[1]) + (swz[2] + swz[3])
-	out.lo = minLane(minLane(lo[0], lo[1]), minLane(lo[2], lo[3]))
-	out.hi = maxLane(maxLane(hi[0], hi[1]), maxLane(hi[2], hi[3]))
-	out.far = maxLane(maxLane(far[0], far[1]), maxLane(far[2], far[3]))
+	c.out = windowOut{
+		sw:   (sw[0] + sw[1]) + (sw[2] + sw[3]),
+		swz:  (swz[0] + swz[1]) + (swz[2] + swz[3]),
+		lo:   minLane(minLane(lo[0], lo[1]), minLane(lo[2], lo[3])),
+		hi:   maxLane(maxLane(hi[0], hi[1]), maxLane(hi[2], hi[3])),
+		far:  maxLane(maxLane(far[0], far[1]), maxLane(far[2], far[3])),
+		near: minLane(minLane(near[0], near[1]), minLane(near[2], near[3])),
+		n:    n,
+	}
 }
 
 // minLane and maxLane are the SSE/AVX MINPD and MAXPD of one lane: the first

@@ -2,50 +2,54 @@
 
 #include "textflag.h"
 
-// Offsets in windowConsts (32 bytes each) and windowOut.
-#define QUARTER 0
-#define R4 32
-#define R3 64
-#define R2 96
-#define R1 128
-#define ONE 160
-#define POSINF 192
-#define NEGINF 224
-#define FOUR 256
-#define C2MAX 288
-#define EXACT 320
-#define LANE 352
+// go_asm.h gives the offsets of the Go structs: windowConsts_r4 and so on.
+#include "go_asm.h"
 
-// func windowSumsAVX2(x, y, z, v, d2 *float64, m int, cx, cy, cz float64, k *windowConsts, out *windowOut)
+// LANEMIN and LANEMAX put in X2 the lanes of Y as MINPD(MINPD(0, 1),
+// MINPD(2, 3)) (MAXPD likewise): windowSumsGo's order. X1, X3 are scratch.
+#define LANEMIN(Y, X) \
+	VEXTRACTF128 $1, Y, X1 \
+	VUNPCKLPD X1, X, X2 \
+	VUNPCKHPD X1, X, X3 \
+	VMINPD X3, X2, X2 \
+	VPERMILPD $1, X2, X3 \
+	VMINSD X3, X2, X2
+
+#define LANEMAX(Y, X) \
+	VEXTRACTF128 $1, Y, X1 \
+	VUNPCKLPD X1, X, X2 \
+	VUNPCKHPD X1, X, X3 \
+	VMAXPD X3, X2, X2 \
+	VPERMILPD $1, X2, X3 \
+	VMAXSD X3, X2, X2
+
+// func windowSumsAVX2(c *windowCell)
 //
 // The loop of windowSumsGo, four stations per block. Registers:
 // Y15, Y14, Y13 the cell (cx, cy, cz); Y12 sw, Y11 swz, Y10 lo, Y9 hi,
-// Y8 the largest chord squared within the radius, Y7 the lane numbers j,
-// Y6 m; R10 the count, R13 the 1 m flags.
-// Go assembler order: the destination is the last operand, and
-// VSUBPD A, B, D is D = B - A.
-TEXT ·windowSumsAVX2(SB), NOSPLIT, $0-88
-	MOVQ x+0(FP), AX
-	MOVQ y+8(FP), BX
-	MOVQ z+16(FP), CX
-	MOVQ v+24(FP), DX
-	MOVQ d2+32(FP), DI
-	MOVQ m+40(FP), R8
-	MOVQ k+72(FP), R9
-	MOVQ out+80(FP), R12
-
-	VBROADCASTSD cx+48(FP), Y15
-	VBROADCASTSD cy+56(FP), Y14
-	VBROADCASTSD cz+64(FP), Y13
+// Y8 far, Y7 near, Y6 the count (each lane subtracts its mask, -1 where
+// within the radius). Go assembler order: the destination is the last
+// operand, and VSUBPD A, B, D is D = B - A.
+TEXT ·windowSumsAVX2(SB), NOSPLIT, $0-8
+	MOVQ c+0(FP), R12
+	MOVQ windowCell_x(R12), AX
+	MOVQ windowCell_y(R12), BX
+	MOVQ windowCell_z(R12), CX
+	MOVQ windowCell_v(R12), DX
+	MOVQ windowCell_d2(R12), DI
+	MOVQ windowCell_m(R12), R8
+	MOVQ windowCell_k(R12), R9
+	VBROADCASTSD windowCell_cx(R12), Y15
+	VBROADCASTSD windowCell_cy(R12), Y14
+	VBROADCASTSD windowCell_cz(R12), Y13
+	ADDQ $windowCell_out, R12
 	VXORPD Y12, Y12, Y12
 	VXORPD Y11, Y11, Y11
-	VMOVUPD POSINF(R9), Y10
-	VMOVUPD NEGINF(R9), Y9
+	VMOVUPD windowConsts_posInf(R9), Y10
+	VMOVUPD windowConsts_negInf(R9), Y9
 	VXORPD Y8, Y8, Y8
-	VMOVDQU LANE(R9), Y7
-	VPBROADCASTQ m+40(FP), Y6
-	XORQ R10, R10
-	XORQ R13, R13
+	VMOVUPD windowConsts_posInf(R9), Y7
+	VPXOR Y6, Y6, Y6
 	XORQ SI, SI
 
 loop:
@@ -66,40 +70,27 @@ loop:
 	VADDPD Y1, Y0, Y0
 	VMOVUPD Y0, (DI)(SI*8)
 
-	// Y2 = the lanes within the radius (c2 <= c2max) and before m.
-	VCMPPD $2, C2MAX(R9), Y0, Y2
-	VPCMPGTQ Y7, Y6, Y3
-	VANDPD Y3, Y2, Y2
-	VPADDQ FOUR(R9), Y7, Y7
-	VMOVMSKPD Y2, R11
-	POPCNTL R11, R11
-	ADDQ R11, R10
-
-	// The 1 m rule: c2 < exact in a lane within the radius.
-	VCMPPD $1, EXACT(R9), Y0, Y3
-	VANDPD Y2, Y3, Y3
-	VMOVMSKPD Y3, R11
-	ORQ R11, R13
-
-	// The largest chord squared within the radius (a chord squared is
-	// not negative, so the lanes outside count as +0).
+	// Y2 = the lanes within the radius (c2 <= c2max); count them; near =
+	// MINPD(near, c2); far = MAXPD(far, in ? c2 : +0).
+	VCMPPD $2, windowConsts_c2max(R9), Y0, Y2
+	VPSUBQ Y2, Y6, Y6
+	VMINPD Y0, Y7, Y7
 	VANDPD Y2, Y0, Y3
 	VMAXPD Y3, Y8, Y8
 
-	// w = (1 / c2) ((1 + r1 t) + t^2 ((r2 + r3 t) + r4 t^2)), t = c2 / 4,
-	// zero outside the lanes of Y2. The division and the polynomial
-	// (Estrin's scheme) depend on c2 only, so they overlap.
-	VMOVUPD ONE(R9), Y5
+	// w = (1 / c2) ((1 + r1 c2) + c2^2 ((r2 + r3 c2) + r4 c2^2)), zero
+	// outside the lanes of Y2. The division and the polynomial (Estrin's
+	// scheme) depend on c2 only, so they overlap.
+	VMOVUPD windowConsts_one(R9), Y5
 	VDIVPD Y0, Y5, Y5
-	VMULPD QUARTER(R9), Y0, Y1
-	VMULPD Y1, Y1, Y3
-	VMULPD R3(R9), Y1, Y4
-	VADDPD R2(R9), Y4, Y4
-	VMULPD R4(R9), Y3, Y0
-	VADDPD Y0, Y4, Y4
+	VMULPD Y0, Y0, Y3
+	VMULPD windowConsts_r3(R9), Y0, Y4
+	VADDPD windowConsts_r2(R9), Y4, Y4
+	VMULPD windowConsts_r4(R9), Y3, Y1
+	VADDPD Y1, Y4, Y4
 	VMULPD Y4, Y3, Y4
-	VMULPD R1(R9), Y1, Y1
-	VADDPD ONE(R9), Y1, Y1
+	VMULPD windowConsts_r1(R9), Y0, Y1
+	VADDPD windowConsts_one(R9), Y1, Y1
 	VADDPD Y4, Y1, Y1
 	VMULPD Y1, Y5, Y1
 	VANDPD Y2, Y1, Y1
@@ -111,10 +102,10 @@ loop:
 	VADDPD Y1, Y11, Y11
 
 	// lo = MINPD(lo, in ? v : +Inf); hi = MAXPD(hi, in ? v : -Inf).
-	VMOVUPD POSINF(R9), Y5
+	VMOVUPD windowConsts_posInf(R9), Y5
 	VBLENDVPD Y2, Y4, Y5, Y5
 	VMINPD Y5, Y10, Y10
-	VMOVUPD NEGINF(R9), Y5
+	VMOVUPD windowConsts_negInf(R9), Y5
 	VBLENDVPD Y2, Y4, Y5, Y5
 	VMAXPD Y5, Y9, Y9
 
@@ -122,35 +113,24 @@ loop:
 	JMP loop
 
 done:
-	// The lanes in their fixed order: sw and swz as (0 + 1) + (2 + 3),
-	// VHADDPD making [sw0+sw1, swz0+swz1, sw2+sw3, swz2+swz3]; lo and hi
-	// as MINPD(MINPD(0, 1), MINPD(2, 3)) and the same with MAXPD.
+	// sw and swz as (0 + 1) + (2 + 3): VHADDPD makes [sw0+sw1, swz0+swz1,
+	// sw2+sw3, swz2+swz3].
 	VHADDPD Y11, Y12, Y0
 	VEXTRACTF128 $1, Y0, X1
 	VADDPD X1, X0, X0
-	VMOVUPD X0, 0(R12)
-	VEXTRACTF128 $1, Y10, X1
-	VUNPCKLPD X1, X10, X2
-	VUNPCKHPD X1, X10, X3
-	VMINPD X3, X2, X2
-	VPERMILPD $1, X2, X3
-	VMINSD X3, X2, X2
-	MOVSD X2, 16(R12)
-	VEXTRACTF128 $1, Y9, X1
-	VUNPCKLPD X1, X9, X2
-	VUNPCKHPD X1, X9, X3
-	VMAXPD X3, X2, X2
-	VPERMILPD $1, X2, X3
-	VMAXSD X3, X2, X2
-	MOVSD X2, 24(R12)
-	VEXTRACTF128 $1, Y8, X1
-	VUNPCKLPD X1, X8, X2
-	VUNPCKHPD X1, X8, X3
-	VMAXPD X3, X2, X2
-	VPERMILPD $1, X2, X3
-	VMAXSD X3, X2, X2
-	MOVSD X2, 32(R12)
-	MOVQ R13, 40(R12)
-	MOVQ R10, 48(R12)
+	VMOVUPD X0, windowOut_sw(R12)
+	LANEMIN(Y10, X10)
+	VMOVSD X2, windowOut_lo(R12)
+	LANEMAX(Y9, X9)
+	VMOVSD X2, windowOut_hi(R12)
+	LANEMAX(Y8, X8)
+	VMOVSD X2, windowOut_far(R12)
+	LANEMIN(Y7, X7)
+	VMOVSD X2, windowOut_near(R12)
+	VEXTRACTI128 $1, Y6, X1
+	VPADDQ X1, X6, X1
+	VPSHUFD $0x4e, X1, X2
+	VPADDQ X2, X1, X1
+	VMOVQ X1, windowOut_n(R12)
 	VZEROUPPER
 	RET

@@ -49,7 +49,6 @@ func TestWindowWeightIsGreatCircle(t *testing.T) {
 	r := rand.New(rand.NewPCG(9, 10))
 	c2max := 4 * shortSeriesMaxT
 	k := newWindowConsts(c2max)
-	var o windowOut
 	d2 := make([]float64, windowLanes)
 	for range 20000 {
 		c := math.Sqrt(exactChordSq) * math.Pow(math.Sqrt(c2max/exactChordSq), r.Float64()) * 0.999
@@ -57,7 +56,9 @@ func TestWindowWeightIsGreatCircle(t *testing.T) {
 		y := []float64{c * math.Sqrt(1-c*c/4), 0, 0, 0}
 		z := []float64{0, 0, 0, 0}
 		v := []float64{1, 0, 0, 0}
-		windowSumsGo(x, y, z, v, d2, 1, 1, 0, 0, k, &o)
+		call := &windowCell{x: x, y: y, z: z, v: v, d2: d2, m: 1, cx: 1, k: k}
+		windowSumsGo(call)
+		o := call.out
 		if o.n != 1 {
 			t.Fatalf("chord %g: %d stations counted", c, o.n)
 		}
