@@ -283,14 +283,14 @@ func (ip *Interpolator) gridRowWindow(w *rowWork, lat, colStep float64, colLon, 
 	st, k := &w.st, ip.k
 	c2max := ip.c2max
 	kc := &windowCell{d2: d2, k: &w.k}
+	kc.x, kc.y, kc.z, kc.v = st.from(0)
 	o := &kc.out
 	tau := -1.0                                                 // the previous cell's k-th chord squared, if it had k or more
 	delta := 2 * cp * math.Sin(colStep*degToRad/2) * (1 + 1e-9) // chord between neighbouring cell centres
 	for col := range dst {
 		win.move(colLon[col])
 		lo, m := win.lo, win.hi-win.lo
-		kc.x, kc.y, kc.z, kc.v = st.from(lo)
-		kc.m, kc.cx, kc.cy, kc.cz = m, cp*colCos[col], cp*colSin[col], sp
+		kc.lo, kc.m, kc.cx, kc.cy, kc.cz = lo, m, cp*colCos[col], cp*colSin[col], sp
 		rc := c2max
 		if tau >= 0 {
 			u := math.Sqrt(tau) + delta
@@ -317,7 +317,7 @@ func (ip *Interpolator) gridRowWindow(w *rowWork, lat, colStep float64, colLon, 
 			w.radius(tau)
 			kc.sums()
 		}
-		if int(o.n) == min(n, k) && o.near >= exactChordSq {
+		if int(o.n) == min(n, k) && o.sw < exactWeight {
 			dst[col] = float32(o.value())
 			continue
 		}

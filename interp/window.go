@@ -44,24 +44,30 @@ func newWindowConsts(c2max float64) *windowConsts {
 
 // windowOut is what the kernel gives: over the stations within the radius,
 // the sums of w and w v, the smallest and largest v and the largest chord
-// squared (+0 for none), and their number n; and near, the smallest chord
-// squared of all the stations read. Lanes are put together in their fixed
-// order. The layout is the one window_amd64.s writes.
+// squared (+0 for none), and their number n. Lanes are put together in
+// their fixed order. The layout is the one window_amd64.s writes.
 type windowOut struct {
-	sw, swz, lo, hi, far, near float64
-	n                          int64
+	sw, swz, lo, hi, far float64
+	n                    int64
 }
 
-// windowCell is one call of the kernel: the stations at x, y, z, v, and the
-// cell at the unit vector (cx, cy, cz). The kernel reads stations 0 .. m-1
-// and the padding after them to a multiple of four, which must lie outside
-// the radius (in the grid they are the stations after the cell's
-// longitude window, or the padding of the row, so they do); it writes every
-// chord squared to d2 and its sums to out. The layout is the one
-// window_amd64.s reads.
+// exactWeight bounds the sum of weights of a cell with a station within
+// 1 m from below: that station's weight alone is about 1/exactChordSq (the
+// series factor is 1 to 1e-14 there). A smaller sum has no such station; a
+// larger one goes through the candidate list, which applies the 1 m rule
+// (or finds no station that close).
+var exactWeight = 0.5 / exactChordSq
+
+// windowCell is one call of the kernel: the stations of a row at x, y, z,
+// v, the window lo .. lo+m-1 of them, and the cell at the unit vector (cx,
+// cy, cz). The kernel reads the window and the stations after it to a
+// multiple of four, which must lie outside the radius (in the grid they
+// are the stations after the cell's longitude window, or the padding of the
+// row, so they do); it writes the chord squared of window station j to
+// d2[j] and its sums to out. The layout is the one window_amd64.s reads.
 type windowCell struct {
 	x, y, z, v, d2 []float64
-	m              int
+	lo, m          int
 	cx, cy, cz     float64
 	k              *windowConsts
 	out            windowOut
@@ -92,9 +98,10 @@ func (c *windowCell) sums() {
 // evaluated in Estrin's scheme, which the vector version overlaps with the
 // division.
 func windowSumsGo(c *windowCell) {
-	x, y, z, v, d2, m, cx, cy, cz, k := c.x, c.y, c.z, c.v, c.d2, c.m, c.cx, c.cy, c.cz, c.k
+	x, y, z, v := c.x[c.lo:], c.y[c.lo:], c.z[c.lo:], c.v[c.lo:]
+	d2, m, cx, cy, cz, k := c.d2, c.m, c.cx, c.cy, c.cz, c.k
 	var sw, swz, far [windowLanes]float64
-	lo, hi, near := k.posInf, k.negInf, k.posInf
+	lo, hi := k.posInf, k.negInf
 	var n int64
 	for b := 0; b < m; b += windowLanes {
 		for l := range windowLanes {
@@ -102,7 +109,6 @@ func windowSumsGo(c *windowCell) {
 			dx, dy, dz := x[j]-cx, y[j]-cy, z[j]-cz
 			c2 := dx*dx + dy*dy + dz*dz
 			d2[j] = c2
-			near[l] = minLane(near[l], c2)
 			if !(c2 <= k.c2max[l]) {
 				continue
 			}
@@ -117,13 +123,12 @@ func windowSumsGo(c *windowCell) {
 		}
 	}
 	c.out = windowOut{
-		sw:   (sw[0] + sw[1]) + (sw[2] + sw[3]),
-		swz:  (swz[0] + swz[1]) + (swz[2] + swz[3]),
-		lo:   minLane(minLane(lo[0], lo[1]), minLane(lo[2], lo[3])),
-		hi:   maxLane(maxLane(hi[0], hi[1]), maxLane(hi[2], hi[3])),
-		far:  maxLane(maxLane(far[0], far[1]), maxLane(far[2], far[3])),
-		near: minLane(minLane(near[0], near[1]), minLane(near[2], near[3])),
-		n:    n,
+		sw:  (sw[0] + sw[1]) + (sw[2] + sw[3]),
+		swz: (swz[0] + swz[1]) + (swz[2] + swz[3]),
+		lo:  minLane(minLane(lo[0], lo[1]), minLane(lo[2], lo[3])),
+		hi:  maxLane(maxLane(hi[0], hi[1]), maxLane(hi[2], hi[3])),
+		far: maxLane(maxLane(far[0], far[1]), maxLane(far[2], far[3])),
+		n:   n,
 	}
 }
 

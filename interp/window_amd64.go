@@ -15,13 +15,14 @@ func windowSumsAVX2(c *windowCell)
 var hasWindowAVX2 = cpu.X86.HasAVX2 && cpu.X86.HasPOPCNT
 
 // windowSumsVec is the kernel in AVX2, once the slices are known to reach
-// m rounded up to a multiple of four.
+// the window's end rounded up to a multiple of four.
 func windowSumsVec(c *windowCell) {
 	if c.m <= 0 {
-		c.out = windowOut{lo: c.k.posInf[0], hi: c.k.negInf[0], near: c.k.posInf[0]}
+		c.out = windowOut{lo: c.k.posInf[0], hi: c.k.negInf[0]}
 		return
 	}
 	n := (c.m + windowLanes - 1) &^ (windowLanes - 1)
-	_, _, _, _, _ = c.x[n-1], c.y[n-1], c.z[n-1], c.v[n-1], c.d2[n-1]
+	e := c.lo + n
+	_, _, _, _, _, _ = c.x[c.lo], c.x[e-1], c.y[e-1], c.z[e-1], c.v[e-1], c.d2[n-1]
 	windowSumsAVX2(c)
 }

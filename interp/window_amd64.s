@@ -27,7 +27,7 @@
 //
 // The loop of windowSumsGo, four stations per block. Registers:
 // Y15, Y14, Y13 the cell (cx, cy, cz); Y12 sw, Y11 swz, Y10 lo, Y9 hi,
-// Y8 far, Y7 near, Y6 the count (each lane subtracts its mask, -1 where
+// Y8 far, Y6 the count (each lane subtracts its mask, -1 where
 // within the radius). Go assembler order: the destination is the last
 // operand, and VSUBPD A, B, D is D = B - A.
 TEXT ·windowSumsAVX2(SB), NOSPLIT, $0-8
@@ -38,6 +38,11 @@ TEXT ·windowSumsAVX2(SB), NOSPLIT, $0-8
 	MOVQ windowCell_v(R12), DX
 	MOVQ windowCell_d2(R12), DI
 	MOVQ windowCell_m(R12), R8
+	MOVQ windowCell_lo(R12), R10
+	LEAQ (AX)(R10*8), AX
+	LEAQ (BX)(R10*8), BX
+	LEAQ (CX)(R10*8), CX
+	LEAQ (DX)(R10*8), DX
 	MOVQ windowCell_k(R12), R9
 	VBROADCASTSD windowCell_cx(R12), Y15
 	VBROADCASTSD windowCell_cy(R12), Y14
@@ -48,7 +53,6 @@ TEXT ·windowSumsAVX2(SB), NOSPLIT, $0-8
 	VMOVUPD windowConsts_posInf(R9), Y10
 	VMOVUPD windowConsts_negInf(R9), Y9
 	VXORPD Y8, Y8, Y8
-	VMOVUPD windowConsts_posInf(R9), Y7
 	VPXOR Y6, Y6, Y6
 	XORQ SI, SI
 
@@ -70,11 +74,10 @@ loop:
 	VADDPD Y1, Y0, Y0
 	VMOVUPD Y0, (DI)(SI*8)
 
-	// Y2 = the lanes within the radius (c2 <= c2max); count them; near =
-	// MINPD(near, c2); far = MAXPD(far, in ? c2 : +0).
+	// Y2 = the lanes within the radius (c2 <= c2max); count them;
+	// far = MAXPD(far, in ? c2 : +0).
 	VCMPPD $2, windowConsts_c2max(R9), Y0, Y2
 	VPSUBQ Y2, Y6, Y6
-	VMINPD Y0, Y7, Y7
 	VANDPD Y2, Y0, Y3
 	VMAXPD Y3, Y8, Y8
 
@@ -125,8 +128,6 @@ done:
 	VMOVSD X2, windowOut_hi(R12)
 	LANEMAX(Y8, X8)
 	VMOVSD X2, windowOut_far(R12)
-	LANEMIN(Y7, X7)
-	VMOVSD X2, windowOut_near(R12)
 	VEXTRACTI128 $1, Y6, X1
 	VPADDQ X1, X6, X1
 	VPSHUFD $0x4e, X1, X2

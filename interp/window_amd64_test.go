@@ -33,7 +33,7 @@ func TestWindowSumsAsm(t *testing.T) {
 		windowSumsVec(&cb)
 		a, b := ca.out, cb.out
 		if a.n != b.n || !same(a.sw, b.sw) || !same(a.swz, b.swz) || !same(a.lo, b.lo) || !same(a.hi, b.hi) ||
-			!same(a.far, b.far) || !same(a.near, b.near) {
+			!same(a.far, b.far) {
 			t.Fatalf("trial %d (m %d): Go %+v, AVX2 %+v", trial, m, a, b)
 		}
 		for j := range m {
