@@ -32,7 +32,8 @@ func (w *layerWriter) writeStreamed(name string, opt export.TIFFOptions) error {
 // bandTally sums the band areas from band codes row by row (code 0 is no
 // data), cells weighted by their ellipsoidal area, for the summary and the
 // manifest: the same sums in the same order whether the rows come streamed
-// or from a band raster in memory.
+// or from a band raster in memory. The cells of a row have one area, so a
+// row adds its count of each code times that area.
 type bandTally struct {
 	areas          []float64
 	cols           int
@@ -47,15 +48,20 @@ func newBandTally(s grid.Spec) *bandTally {
 }
 
 func (t *bandTally) add(row0, n int, codes []uint8) {
+	var count [256]int
 	for r := range n {
-		a := t.areas[row0+r]
+		count = [256]int{}
 		for _, c := range codes[r*t.cols : (r+1)*t.cols] {
-			t.total += a
-			if c != 0 {
-				t.covered += a
-				t.byCode[c] += a
+			count[c]++
+		}
+		a := t.areas[row0+r]
+		t.total += a * float64(t.cols)
+		t.covered += a * float64(t.cols-count[0])
+		t.cells += t.cols - count[0]
+		for c := 1; c < len(count); c++ {
+			if count[c] > 0 {
+				t.byCode[c] += a * float64(count[c])
 				t.seen[c] = true
-				t.cells++
 			}
 		}
 	}
