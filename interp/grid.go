@@ -92,22 +92,26 @@ type stationCols struct {
 	rk         []int32
 }
 
-func (s *stationCols) reset() {
-	s.x, s.y, s.z, s.v, s.rk = s.x[:0], s.y[:0], s.z[:0], s.v[:0], s.rk[:0]
-}
-
-func (s *stationCols) add(x, y, z, v float64, rk int32) {
-	s.x, s.y, s.z, s.v, s.rk = append(s.x, x), append(s.y, y), append(s.z, z), append(s.v, v), append(s.rk, rk)
-}
-
-// pad puts windowLanes-1 entries past the end, so that the kernel may read
-// a window's last block whole (it masks what lies past the window).
-func (s *stationCols) pad() {
-	n := len(s.x)
-	for range windowLanes - 1 {
-		s.add(0, 0, 0, 0, -1)
+// resize makes the columns n stations long, with windowLanes-1 padding
+// entries (zeros) past the end, so that the kernel may read a window's
+// last block whole (it counts only stations within the radius, and the
+// padding lies a chord of 1 from every cell).
+func (s *stationCols) resize(n int) {
+	m := n + windowLanes - 1
+	if cap(s.x) < m {
+		c := max(m, 2*cap(s.x)) // rows ask for a little more each, towards the poles
+		s.x, s.y, s.z, s.v, s.rk = make([]float64, c), make([]float64, c), make([]float64, c), make([]float64, c), make([]int32, c)
+	}
+	s.x, s.y, s.z, s.v, s.rk = s.x[:m], s.y[:m], s.z[:m], s.v[:m], s.rk[:m]
+	for i := n; i < m; i++ {
+		s.set(i, 0, 0, 0, 0, -1)
 	}
 	s.x, s.y, s.z, s.v, s.rk = s.x[:n], s.y[:n], s.z[:n], s.v[:n], s.rk[:n]
+}
+
+// set puts station i.
+func (s *stationCols) set(i int, x, y, z, v float64, rk int32) {
+	s.x[i], s.y[i], s.z[i], s.v[i], s.rk[i] = x, y, z, v, rk
 }
 
 // from is the columns x, y, z, v from station lo on, padding included (the
@@ -161,17 +165,8 @@ func (ip *Interpolator) rowStations(w *rowWork, lat float64) (win lonWindow, ok 
 	}
 	dl := lonHalfWidth(lat, ip.theta)
 	full := dl > 179
-	w.lon = w.lon[:0]
-	w.st.reset()
-	add := func(r int32, shift float64) {
-		w.lon = append(w.lon, ip.lon[r]+shift)
-		w.st.add(ip.x[r], ip.y[r], ip.z[r], ip.val[r], r)
-	}
-	if full {
-		for _, r := range ranks {
-			add(r, 0)
-		}
-	} else {
+	pre, post := ranks[:0], ranks[:0]
+	if !full {
 		// No window reaches below -180 - dl - lonEps or above
 		// 180 + dl + lonEps, so the shifted copies need only the stations
 		// within dl (plus a degree to spare) of the antimeridian: every
@@ -181,24 +176,33 @@ func (ip *Interpolator) rowStations(w *rowWork, lat float64) (win lonWindow, ok 
 		for j > 0 && ip.lon[ranks[j-1]] >= 180-dl-1 {
 			j--
 		}
-		for _, r := range ranks[j:] {
-			add(r, -360)
+		q := 0
+		for q < len(ranks) && ip.lon[ranks[q]] <= -180+dl+1 {
+			q++
 		}
-		for _, r := range ranks {
-			add(r, 0)
-		}
-		for _, r := range ranks {
-			if ip.lon[r] > -180+dl+1 {
-				break
-			}
-			add(r, 360)
+		pre, post = ranks[j:], ranks[:q]
+	}
+	n := len(pre) + len(ranks) + len(post)
+	// One more longitude for a sentinel past the end, so that the window
+	// can move without testing the length (no bound is above +Inf).
+	if cap(w.lon) < n+1 {
+		w.lon = make([]float64, max(n+1, 2*cap(w.lon)))
+	}
+	w.lon = w.lon[:n+1]
+	w.lon[n] = math.Inf(1)
+	w.lon = w.lon[:n]
+	w.st.resize(n)
+	at := 0
+	for _, part := range [...]struct {
+		ranks []int32
+		shift float64
+	}{{pre, -360}, {ranks, 0}, {post, 360}} {
+		for _, r := range part.ranks {
+			w.lon[at] = ip.lon[r] + part.shift
+			w.st.set(at, ip.x[r], ip.y[r], ip.z[r], ip.val[r], r)
+			at++
 		}
 	}
-	w.st.pad()
-	// A sentinel past the end, so that the window can move without testing
-	// the length: no bound is above +Inf.
-	w.lon = append(w.lon, math.Inf(1))
-	w.lon = w.lon[:len(w.lon)-1]
 	return lonWindow{lons: w.lon, dl: dl, full: full, hi: len(w.lon), prev: math.Inf(1)}, true
 }
 
