@@ -34,7 +34,12 @@ package main
 // --layers choice) disappears, so OUT always matches its manifest. A file
 // this run reads as an input is always carried over.
 //
-// Two runs must not publish to the same OUT at the same time.
+// Two runs never publish to the same OUT at the same time: a run holds an
+// exclusive lock (flock) on the empty file .OUT.drygrid-lock beside OUT from
+// before it recovers or writes anything until the swap is done, and a
+// second run on OUT stops at once with an error (exit code 1) naming the
+// lock. The system drops the lock when the process ends, however it ends,
+// so a crash leaves no stale lock; the file itself stays, harmless.
 
 import (
 	"crypto/rand"
@@ -57,8 +62,9 @@ import (
 const publishStaleAfter = time.Hour
 
 const (
-	publishTmpTag = ".drygrid-tmp-"
-	publishOldTag = ".drygrid-old-"
+	publishTmpTag  = ".drygrid-tmp-"
+	publishOldTag  = ".drygrid-old-"
+	publishLockTag = ".drygrid-lock"
 )
 
 // publishPlan is one publication.
@@ -81,6 +87,11 @@ func publishDir(p publishPlan) error {
 	if err := os.MkdirAll(parent, 0o755); err != nil {
 		return fmt.Errorf("output directory %s: %w", p.Out, err)
 	}
+	unlock, err := publishLock(parent, base, p.Out)
+	if err != nil {
+		return err
+	}
+	defer unlock()
 	if err := publishRecover(parent, base); err != nil {
 		return err
 	}
@@ -133,6 +144,27 @@ func publishDir(p publishPlan) error {
 		return fmt.Errorf("publish %s: published, but the previous directory %s was not removed: %w", p.Out, old, err)
 	}
 	return nil
+}
+
+// publishLock takes the lock of the output directory base in parent (see
+// the file comment) and returns the function that releases it.
+func publishLock(parent, base, out string) (unlock func(), err error) {
+	path := filepath.Join(parent, "."+base+publishLockTag)
+	f, err := os.OpenFile(path, os.O_RDWR|os.O_CREATE, 0o644)
+	if err != nil {
+		return nil, fmt.Errorf("output directory %s: lock: %w", out, err)
+	}
+	if err := syscall.Flock(int(f.Fd()), syscall.LOCK_EX|syscall.LOCK_NB); err != nil {
+		f.Close()
+		if errors.Is(err, syscall.EWOULDBLOCK) {
+			return nil, fmt.Errorf("output directory %s: another drygrid run is writing it (it holds %s); run again when that one has ended", out, path)
+		}
+		return nil, fmt.Errorf("output directory %s: lock %s: %w", out, path, err)
+	}
+	return func() {
+		syscall.Flock(int(f.Fd()), syscall.LOCK_UN)
+		f.Close()
+	}, nil
 }
 
 // publishTarget is the absolute directory to replace: Out itself, or the

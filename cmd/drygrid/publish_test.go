@@ -12,7 +12,8 @@ import (
 	"time"
 )
 
-// parentLeftovers lists the hidden publish directories beside out.
+// parentLeftovers lists the hidden publish directories beside out (not the
+// lock file, which stays by design).
 func parentLeftovers(t *testing.T, out string) []string {
 	t.Helper()
 	entries, err := os.ReadDir(filepath.Dir(out))
@@ -21,7 +22,7 @@ func parentLeftovers(t *testing.T, out string) []string {
 	}
 	var left []string
 	for _, e := range entries {
-		if strings.HasPrefix(e.Name(), "."+filepath.Base(out)+".drygrid-") {
+		if strings.HasPrefix(e.Name(), "."+filepath.Base(out)+".drygrid-") && e.Name() != "."+filepath.Base(out)+publishLockTag {
 			left = append(left, e.Name())
 		}
 	}
@@ -192,5 +193,55 @@ func TestPublishThroughSymlink(t *testing.T) {
 	}
 	if _, err := os.Stat(filepath.Join(real, "index.tif")); err != nil {
 		t.Error(err)
+	}
+}
+
+// TestPublishLock: while another process holds the lock beside OUT (here
+// this test, through flock, as a second drygrid would), a run stops with
+// exit code 1, a message naming the lock, and OUT untouched; once the lock
+// is released the same run publishes.
+func TestPublishLock(t *testing.T) {
+	out := filepath.Join(t.TempDir(), "layers")
+	if code := run([]string{"grid", "--stations", exampleSPI, "--layers", "index", "--out", out}); code != exitOK {
+		t.Fatalf("first run: exit %d", code)
+	}
+	before, err := os.ReadFile(filepath.Join(out, "manifest.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	lock := filepath.Join(filepath.Dir(out), ".layers"+publishLockTag)
+	f, err := os.OpenFile(lock, os.O_RDWR|os.O_CREATE, 0o644)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	// flock locks belong to the open file, so this second descriptor
+	// conflicts with the run's own as another process's would.
+	if err := syscall.Flock(int(f.Fd()), syscall.LOCK_EX|syscall.LOCK_NB); err != nil {
+		t.Fatal(err)
+	}
+	stderr := captureStderr(t, func() {
+		if code := run([]string{"grid", "--stations", exampleSPI, "--layers", "index,bands", "--out", out}); code != exitData {
+			t.Errorf("locked run: exit %d, want %d", code, exitData)
+		}
+	})
+	if !strings.Contains(stderr, "another drygrid run is writing it") || !strings.Contains(stderr, lock) {
+		t.Errorf("message: %q", stderr)
+	}
+	if after, _ := os.ReadFile(filepath.Join(out, "manifest.json")); string(after) != string(before) {
+		t.Error("the locked run changed manifest.json")
+	}
+	if _, err := os.Stat(filepath.Join(out, "bands.tif")); !errors.Is(err, os.ErrNotExist) {
+		t.Errorf("the locked run wrote bands.tif: %v", err)
+	}
+	syscall.Flock(int(f.Fd()), syscall.LOCK_UN)
+	if code := run([]string{"grid", "--stations", exampleSPI, "--layers", "index,bands", "--out", out}); code != exitOK {
+		t.Fatalf("run after the lock is released: exit %d", code)
+	}
+	if _, err := os.Stat(filepath.Join(out, "bands.tif")); err != nil {
+		t.Error(err)
+	}
+	if left := parentLeftovers(t, out); len(left) > 0 {
+		t.Errorf("left behind %v", left)
 	}
 }
