@@ -24,26 +24,13 @@ func EncodeIndexTIFF(w io.Writer, r *grid.Float32, opt TIFFOptions) error {
 	if r == nil {
 		return errors.New("geotiff: nil index raster")
 	}
-	if err := tiffCheckSpec(r.Spec, len(r.Data)); err != nil {
-		return err
-	}
-	opt, err := tiffNormalize(opt)
-	if err != nil {
-		return err
-	}
-	img := tiffIndexImage(r.Spec, r.NoData, opt)
-	img.levels = []*tiffLevel{{cols: r.Spec.Cols, rows: r.Spec.Rows, f32: r.Data}}
-	if opt.Overviews {
-		for k, sz := range cogLevelSizes(r.Spec.Cols, r.Spec.Rows) {
-			f := 2 << k
-			img.levels = append(img.levels, &tiffLevel{cols: sz[0], rows: sz[1],
-				f32: cogMeanOverview(r.Data, r.Spec.Cols, r.Spec.Rows, f, r.NoData, opt.Workers)})
-		}
-	}
-	if err := tiffCompressTiles(img.levels, img, opt); err != nil {
-		return err
-	}
-	return tiffWrite(w, img, opt)
+	cols, rows := r.Spec.Cols, r.Spec.Rows
+	return tiffEncodeRaster(w, r.Spec, len(r.Data), opt,
+		func(opt TIFFOptions) *tiffImage { return tiffIndexImage(r.Spec, r.NoData, opt) },
+		&tiffLevel{cols: cols, rows: rows, f32: r.Data},
+		func(f, workers int) *tiffLevel {
+			return &tiffLevel{f32: cogMeanOverview(r.Data, cols, rows, f, r.NoData, workers)}
+		})
 }
 
 // EncodeBandsTIFF writes the band raster r as a tiled GeoTIFF on EPSG:4326:
@@ -58,20 +45,36 @@ func EncodeBandsTIFF(w io.Writer, r *grid.Uint8, s *classes.Scheme, opt TIFFOpti
 	if r == nil || s == nil {
 		return errors.New("geotiff: nil band raster or scheme")
 	}
-	if err := tiffCheckSpec(r.Spec, len(r.Data)); err != nil {
+	cols, rows := r.Spec.Cols, r.Spec.Rows
+	return tiffEncodeRaster(w, r.Spec, len(r.Data), opt,
+		func(opt TIFFOptions) *tiffImage { return tiffBandsImage(r.Spec, r.NoData, s, opt) },
+		&tiffLevel{cols: cols, rows: rows, u8: r.Data},
+		func(f, workers int) *tiffLevel {
+			return &tiffLevel{u8: cogModeOverview(r.Data, cols, rows, f, r.NoData, workers)}
+		})
+}
+
+// tiffEncodeRaster is the whole-raster encoder behind EncodeIndexTIFF and
+// EncodeBandsTIFF: it checks spec against the n pixels, makes the image's
+// tags with image, takes full as the full-resolution level and, with
+// opt.Overviews, overview(f, workers) for each overview level (f = 2, 4,
+// 8...), then compresses the tiles and writes the file.
+func tiffEncodeRaster(w io.Writer, spec grid.Spec, n int, opt TIFFOptions,
+	image func(TIFFOptions) *tiffImage, full *tiffLevel, overview func(f, workers int) *tiffLevel) error {
+	if err := tiffCheckSpec(spec, n); err != nil {
 		return err
 	}
 	opt, err := tiffNormalize(opt)
 	if err != nil {
 		return err
 	}
-	img := tiffBandsImage(r.Spec, r.NoData, s, opt)
-	img.levels = []*tiffLevel{{cols: r.Spec.Cols, rows: r.Spec.Rows, u8: r.Data}}
+	img := image(opt)
+	img.levels = []*tiffLevel{full}
 	if opt.Overviews {
-		for k, sz := range cogLevelSizes(r.Spec.Cols, r.Spec.Rows) {
-			f := 2 << k
-			img.levels = append(img.levels, &tiffLevel{cols: sz[0], rows: sz[1],
-				u8: cogModeOverview(r.Data, r.Spec.Cols, r.Spec.Rows, f, r.NoData, opt.Workers)})
+		for k, sz := range cogLevelSizes(spec.Cols, spec.Rows) {
+			l := overview(2<<k, opt.Workers)
+			l.cols, l.rows = sz[0], sz[1]
+			img.levels = append(img.levels, l)
 		}
 	}
 	if err := tiffCompressTiles(img.levels, img, opt); err != nil {

@@ -382,19 +382,55 @@ func (st *tiffRowState) addJobs(img *tiffImage, li int, src *tiffLevel, ty int) 
 // order cogMeanOverview adds them (row by row, west to east), so the bytes
 // agree; finished overview rows go to a tile row of t rows.
 type tiffMeanAcc struct {
+	tiffOverviewRows[float32]
+	nodata float32
+	sums   []float64
+	counts []int32
+}
+
+func newTiffMeanAcc(oc, f, t int, nodata float32) *tiffMeanAcc {
+	return &tiffMeanAcc{tiffOverviewRows: newTiffOverviewRows[float32](oc, f, t), nodata: nodata,
+		sums: make([]float64, oc), counts: make([]int32, oc)}
+}
+
+// tiffOverviewRows is the bookkeeping both overview accumulators share:
+// full-resolution rows in (in) towards the overview row being built (f of
+// them make one), finished overview rows gathered into a tile row of t
+// rows (filled), tile rows given out (ty).
+type tiffOverviewRows[T float32 | uint8] struct {
 	f, oc, t int
-	nodata   float32
-	sums     []float64
-	counts   []int32
 	in       int // full-resolution rows added to the current overview row
-	tile     []float32
+	tile     []T
 	filled   int // overview rows in tile
 	ty       int // tile rows finished
 }
 
-func newTiffMeanAcc(oc, f, t int, nodata float32) *tiffMeanAcc {
-	return &tiffMeanAcc{f: f, oc: oc, t: t, nodata: nodata, sums: make([]float64, oc),
-		counts: make([]int32, oc), tile: make([]float32, t*oc)}
+func newTiffOverviewRows[T float32 | uint8](oc, f, t int) tiffOverviewRows[T] {
+	return tiffOverviewRows[T]{f: f, oc: oc, t: t, tile: make([]T, t*oc)}
+}
+
+// ready reports whether the overview row is complete: f rows in, or the
+// image's last row.
+func (r *tiffOverviewRows[T]) ready(lastRow bool) bool { return r.in >= r.f || lastRow }
+
+// row is the overview row being finished.
+func (r *tiffOverviewRows[T]) row() []T { return r.tile[r.filled*r.oc : (r.filled+1)*r.oc] }
+
+// next closes the overview row and returns the tile row (its rows and
+// pixels) when it is complete or the image ends, else nil. The pixels stay
+// valid: a new tile is made for the next rows (the jobs still read the
+// old one).
+func (r *tiffOverviewRows[T]) next(lastRow bool) (rows int, tile []T) {
+	r.in = 0
+	r.filled++
+	if r.filled < r.t && !lastRow {
+		return 0, nil
+	}
+	rows, tile = r.filled, r.tile[:r.filled*r.oc]
+	r.tile = make([]T, r.t*r.oc)
+	r.filled = 0
+	r.ty++
+	return rows, tile
 }
 
 func (a *tiffMeanAcc) add(row []float32) {
@@ -418,10 +454,10 @@ func (a *tiffMeanAcc) add(row []float32) {
 // and returns the tile row when it is complete (or at the end), else nil.
 // The returned level stays valid until the next call.
 func (a *tiffMeanAcc) endRow(lastRow bool) *tiffLevel {
-	if a.in < a.f && !lastRow {
+	if !a.ready(lastRow) {
 		return nil
 	}
-	dst := a.tile[a.filled*a.oc : (a.filled+1)*a.oc]
+	dst := a.row()
 	for ox := range dst {
 		if a.counts[ox] == 0 {
 			dst[ox] = a.nodata
@@ -430,31 +466,23 @@ func (a *tiffMeanAcc) endRow(lastRow bool) *tiffLevel {
 		}
 		a.sums[ox], a.counts[ox] = 0, 0
 	}
-	a.in = 0
-	a.filled++
-	if a.filled < a.t && !lastRow {
+	rows, tile := a.next(lastRow)
+	if tile == nil {
 		return nil
 	}
-	l := &tiffLevel{cols: a.oc, rows: a.filled, f32: a.tile[:a.filled*a.oc]}
-	a.tile = make([]float32, a.t*a.oc) // the jobs still read the old one
-	a.filled = 0
-	a.ty++
-	return l
+	return &tiffLevel{cols: a.oc, rows: rows, f32: tile}
 }
 
 // tiffModeAcc builds one most-frequent-code overview level (cogModeOverview's
 // rule) from full-resolution rows of codes 0..m-1, 0 being no data.
 type tiffModeAcc struct {
-	f, oc, t, m int
-	counts      []int32 // oc x m
-	in          int
-	tile        []uint8
-	filled      int
-	ty          int
+	tiffOverviewRows[uint8]
+	m      int
+	counts []int32 // oc x m
 }
 
 func newTiffModeAcc(oc, f, t, m int) *tiffModeAcc {
-	return &tiffModeAcc{f: f, oc: oc, t: t, m: m, counts: make([]int32, oc*m), tile: make([]uint8, t*oc)}
+	return &tiffModeAcc{tiffOverviewRows: newTiffOverviewRows[uint8](oc, f, t), m: m, counts: make([]int32, oc*m)}
 }
 
 func (a *tiffModeAcc) add(row []uint8) {
@@ -466,10 +494,10 @@ func (a *tiffModeAcc) add(row []uint8) {
 }
 
 func (a *tiffModeAcc) endRow(lastRow bool) *tiffLevel {
-	if a.in < a.f && !lastRow {
+	if !a.ready(lastRow) {
 		return nil
 	}
-	dst := a.tile[a.filled*a.oc : (a.filled+1)*a.oc]
+	dst := a.row()
 	for ox := range dst {
 		c := a.counts[ox*a.m : (ox+1)*a.m]
 		// The most frequent code other than no data (0), the lowest on a
@@ -484,14 +512,9 @@ func (a *tiffModeAcc) endRow(lastRow bool) *tiffLevel {
 		dst[ox] = best
 		clear(c)
 	}
-	a.in = 0
-	a.filled++
-	if a.filled < a.t && !lastRow {
+	rows, tile := a.next(lastRow)
+	if tile == nil {
 		return nil
 	}
-	l := &tiffLevel{cols: a.oc, rows: a.filled, u8: a.tile[:a.filled*a.oc]}
-	a.tile = make([]uint8, a.t*a.oc)
-	a.filled = 0
-	a.ty++
-	return l
+	return &tiffLevel{cols: a.oc, rows: rows, u8: tile}
 }
