@@ -2,39 +2,6 @@ package interp
 
 import "math"
 
-// kBest keeps the k smallest (chord squared, input index) pairs offered, in
-// ascending order: distance ties go to the station that came first in the
-// input, so the choice does not depend on the order of the offers.
-type kBest struct {
-	k, n int
-	d2   []float64
-	id   []int32 // input index (tie-break)
-	rk   []int32 // rank in the interpolator's arrays
-}
-
-func newKBest(k int) kBest {
-	return kBest{k: k, d2: make([]float64, k), id: make([]int32, k), rk: make([]int32, k)}
-}
-
-// offer inserts a candidate if it is among the k best so far.
-func (b *kBest) offer(d2 float64, id, rk int32) {
-	i := b.n
-	if i == b.k {
-		last := i - 1
-		if d2 > b.d2[last] || (d2 == b.d2[last] && id > b.id[last]) {
-			return
-		}
-		i = last
-	} else {
-		b.n++
-	}
-	for i > 0 && (b.d2[i-1] > d2 || (b.d2[i-1] == d2 && b.id[i-1] > id)) {
-		b.d2[i], b.id[i], b.rk[i] = b.d2[i-1], b.id[i-1], b.rk[i-1]
-		i--
-	}
-	b.d2[i], b.id[i], b.rk[i] = d2, id, rk
-}
-
 // cand is a station within the radius of a cell: chord squared, value and
 // rank.
 type cand struct {
@@ -44,11 +11,11 @@ type cand struct {
 
 // cands are the candidates of one cell, in the order they were found.
 type cands struct {
-	cs []cand
-	kb kBest
+	cs  []cand
+	ang []float64 // k angles squared: scratch of weigh
 }
 
-func newCands(k int) *cands { return &cands{kb: newKBest(k)} }
+func newCands(k int) *cands { return &cands{ang: make([]float64, k)} }
 
 // reset empties the list and makes room for up to n candidates.
 func (c *cands) reset(n int) {
@@ -265,7 +232,7 @@ func (ip *Interpolator) weigh(c *cands, cs []cand, cx, cy, cz float64) float64 {
 		}
 	default:
 		a0 := math.Inf(1)
-		ang := c.kb.d2[:n]
+		ang := c.ang[:n]
 		for i := range cs {
 			x := &cs[i]
 			if x.d2 < exactChordSq {
