@@ -4,14 +4,21 @@ package export
 
 import (
 	"bufio"
+	"crypto/sha256"
+	"encoding/hex"
 	"fmt"
+	"io"
 	"os"
 	"path/filepath"
+	"sync"
+	"time"
 )
 
 // WriteFileAtomic writes path through write into a temporary file in the same
 // directory and renames it over path only when write and the flush succeed,
-// so a failed write leaves any earlier file at path untouched.
+// so a failed write leaves any earlier file at path untouched. The file is
+// on disk (fsync) before the rename. Its SHA-256 is computed from the
+// written file while the fsync runs, and kept for HashFile (writtenSums).
 func WriteFileAtomic(path string, write func(w *bufio.Writer) error) (err error) {
 	dir, base := filepath.Split(path)
 	if dir == "" {
@@ -35,7 +42,11 @@ func WriteFileAtomic(path string, write func(w *bufio.Writer) error) (err error)
 	if err = w.Flush(); err != nil {
 		return fmt.Errorf("write %s: %w", path, err)
 	}
-	if err = f.Sync(); err != nil { // on disk before the rename makes it the file
+	sum := make(chan fileSum, 1)
+	go func() { sum <- hashReader(io.NewSectionReader(f, 0, 1<<62)) }()
+	err = f.Sync() // on disk before the rename makes it the file
+	h := <-sum
+	if err != nil {
 		return fmt.Errorf("write %s: %w", path, err)
 	}
 	if err = f.Chmod(0o644); err != nil {
@@ -47,5 +58,71 @@ func WriteFileAtomic(path string, write func(w *bufio.Writer) error) (err error)
 	if err = os.Rename(tmp, path); err != nil {
 		return fmt.Errorf("rename %s: %w", path, err)
 	}
+	if h.err == nil {
+		writtenSums.put(path, h)
+	}
 	return nil
+}
+
+// fileSum is a file's size and SHA-256 (hex), with the modification time
+// it had when they were taken.
+type fileSum struct {
+	size int64
+	sum  string
+	mod  time.Time
+	err  error
+}
+
+// hashReader is the size and SHA-256 of what r holds.
+func hashReader(r io.Reader) fileSum {
+	h := sha256.New()
+	n, err := io.Copy(h, r)
+	return fileSum{size: n, sum: hex.EncodeToString(h.Sum(nil)), err: err}
+}
+
+// writtenSums holds the sums of the files WriteFileAtomic wrote, by path,
+// until HashFile asks for them once: a manifest then need not read them
+// again. HashFile uses a sum only while the file still has the size and
+// modification time it had when written; otherwise it reads the file.
+var writtenSums sumCache
+
+type sumCache struct {
+	mu sync.Mutex
+	m  map[string]fileSum
+}
+
+func (c *sumCache) put(path string, s fileSum) {
+	abs, err := filepath.Abs(path)
+	st, serr := os.Stat(path)
+	if err != nil || serr != nil || st.Size() != s.size {
+		return
+	}
+	s.mod = st.ModTime()
+	c.mu.Lock()
+	defer c.mu.Unlock()
+	if c.m == nil {
+		c.m = map[string]fileSum{}
+	}
+	c.m[abs] = s
+}
+
+// take removes and returns the sum kept for path, if the file is still as
+// it was written.
+func (c *sumCache) take(path string) (fileSum, bool) {
+	abs, err := filepath.Abs(path)
+	if err != nil {
+		return fileSum{}, false
+	}
+	c.mu.Lock()
+	s, ok := c.m[abs]
+	delete(c.m, abs)
+	c.mu.Unlock()
+	if !ok {
+		return fileSum{}, false
+	}
+	st, err := os.Stat(path)
+	if err != nil || !st.Mode().IsRegular() || st.Size() != s.size || !st.ModTime().Equal(s.mod) {
+		return fileSum{}, false
+	}
+	return s, true
 }

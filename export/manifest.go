@@ -3,12 +3,9 @@ package export
 import (
 	"bufio"
 	"bytes"
-	"crypto/sha256"
-	"encoding/hex"
 	"encoding/json"
 	"errors"
 	"fmt"
-	"io"
 	"os"
 	"path/filepath"
 	"sort"
@@ -54,19 +51,22 @@ type Manifest struct {
 }
 
 // HashFile returns the size and SHA-256 of the file at path, reading it as a
-// stream.
+// stream, or the sum WriteFileAtomic took of it while it was written, when
+// the file still has that size and modification time.
 func HashFile(path string) (int64, string, error) {
+	if s, ok := writtenSums.take(path); ok {
+		return s.size, s.sum, nil
+	}
 	f, err := os.Open(path)
 	if err != nil {
 		return 0, "", fmt.Errorf("manifest: %w", err)
 	}
 	defer f.Close()
-	h := sha256.New()
-	n, err := io.Copy(h, f)
-	if err != nil {
-		return 0, "", fmt.Errorf("manifest: reading %s: %w", path, err)
+	s := hashReader(f)
+	if s.err != nil {
+		return 0, "", fmt.Errorf("manifest: reading %s: %w", path, s.err)
 	}
-	return n, hex.EncodeToString(h.Sum(nil)), nil
+	return s.size, s.sum, nil
 }
 
 // ManifestInput describes the input file at path with its role.

@@ -1,0 +1,59 @@
+package export
+
+import (
+	"bufio"
+	"crypto/sha256"
+	"encoding/hex"
+	"os"
+	"path/filepath"
+	"testing"
+	"time"
+)
+
+// TestHashFileAfterWrite: HashFile gives the SHA-256 of the file as it is
+// (crypto/sha256 of its bytes, read here independently): the sum kept from
+// the write while the file is unchanged, and a fresh one after the file
+// was changed in place, even to the same size.
+func TestHashFileAfterWrite(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "layer.bin")
+	want := func() (int64, string) {
+		b, err := os.ReadFile(path)
+		if err != nil {
+			t.Fatal(err)
+		}
+		h := sha256.Sum256(b)
+		return int64(len(b)), hex.EncodeToString(h[:])
+	}
+	write := func(s string) {
+		if err := WriteFileAtomic(path, func(w *bufio.Writer) error { _, err := w.WriteString(s); return err }); err != nil {
+			t.Fatal(err)
+		}
+	}
+	check := func(what string) {
+		t.Helper()
+		n, sum, err := HashFile(path)
+		wn, wsum := want()
+		if err != nil || n != wn || sum != wsum {
+			t.Errorf("%s: HashFile %d %s %v, file %d %s", what, n, sum, err, wn, wsum)
+		}
+	}
+	write("first contents")
+	check("as written")
+	write("second contents, longer")
+	// Changed in place to the same size, with a later modification time.
+	if err := os.WriteFile(path, []byte("SECOND CONTENTS, LONGER"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	later := time.Now().Add(2 * time.Second)
+	if err := os.Chtimes(path, later, later); err != nil {
+		t.Fatal(err)
+	}
+	check("changed after the write")
+	write("third")
+	if f, err := os.OpenFile(path, os.O_APPEND|os.O_WRONLY, 0); err == nil {
+		f.WriteString("!")
+		f.Close()
+	}
+	check("appended to after the write")
+	check("asked twice")
+}
