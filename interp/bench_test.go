@@ -26,9 +26,12 @@ func uniformSphere(n int, seed uint64) []Point {
 
 // BenchmarkGridGlobal is the DESIGN.md target: 20,000 stations onto a
 // global 0.1 degree grid (3600 x 1800 = 6.48 M cells), k = 12, 300 km.
-func BenchmarkGridGlobal(b *testing.B) {
-	pts := uniformSphere(20000, 1)
-	ip, err := New(pts, DefaultParams())
+func BenchmarkGridGlobal(b *testing.B) { benchGridGlobal(b, DefaultParams()) }
+
+// benchGridGlobal grids uniformSphere(20000, 1) onto the global 0.1 degree
+// grid with p.
+func benchGridGlobal(b *testing.B, p Params) {
+	ip, err := New(uniformSphere(20000, 1), p)
 	if err != nil {
 		b.Fatal(err)
 	}

@@ -224,20 +224,7 @@ func gridSpecAround(lon, lat float64) (grid.Spec, error) {
 // BenchmarkGridGlobalSectors is BenchmarkGridGlobal (20,000 stations, a
 // global 0.1 degree grid, k = 12, 300 km) with 8 sectors.
 func BenchmarkGridGlobalSectors(b *testing.B) {
-	pts := uniformSphere(20000, 1)
 	p := DefaultParams()
 	p.Sectors = 8
-	ip, err := New(pts, p)
-	if err != nil {
-		b.Fatal(err)
-	}
-	spec, err := grid.Global(0.1)
-	if err != nil {
-		b.Fatal(err)
-	}
-	b.ReportAllocs()
-	for b.Loop() {
-		ip.Grid(spec, nil)
-	}
-	b.ReportMetric(float64(spec.Len())*float64(b.N)/b.Elapsed().Seconds(), "cells/s")
+	benchGridGlobal(b, p)
 }

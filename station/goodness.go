@@ -18,14 +18,7 @@ const ADMinCount = 8
 // with 1 - z taken from the complemented gamma integral. Zeros and
 // non-finite values are ignored; NaN when no positive value is left.
 func AndersonDarlingGamma(x []float64, shape, scale float64) float64 {
-	pos := make([]float64, 0, len(x))
-	for _, v := range x {
-		if v > 0 && !math.IsInf(v, 1) {
-			pos = append(pos, v)
-		}
-	}
-	sort.Float64s(pos)
-	return gofAD(pos, shape, scale)
+	return gofAD(gofPositives(x), shape, scale)
 }
 
 // gofAD is AndersonDarlingGamma on an ascending slice of positive values.
@@ -108,14 +101,7 @@ func ADCritical5(m float64) float64 {
 // x against the fitted gamma(shape, scale). tested is false when there are
 // fewer than ADMinCount positive values; ok is false when the test rejects.
 func GammaFitOK(x []float64, shape, scale float64) (a2 float64, ok, tested bool) {
-	pos := make([]float64, 0, len(x))
-	for _, v := range x {
-		if v > 0 && !math.IsInf(v, 1) {
-			pos = append(pos, v)
-		}
-	}
-	sort.Float64s(pos)
-	return gofTest(pos, shape, scale)
+	return gofTest(gofPositives(x), shape, scale)
 }
 
 // gofTest is GammaFitOK on an ascending slice of positive values.
@@ -125,4 +111,17 @@ func gofTest(s []float64, shape, scale float64) (a2 float64, ok, tested bool) {
 	}
 	a2 = gofAD(s, shape, scale)
 	return a2, a2 <= ADCritical5(shape), true
+}
+
+// gofPositives is the positive finite values of x, sorted: what the
+// Anderson-Darling statistic is taken over.
+func gofPositives(x []float64) []float64 {
+	pos := make([]float64, 0, len(x))
+	for _, v := range x {
+		if v > 0 && !math.IsInf(v, 1) {
+			pos = append(pos, v)
+		}
+	}
+	sort.Float64s(pos)
+	return pos
 }

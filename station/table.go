@@ -245,6 +245,19 @@ func (t *Table) Next() (rec []string, line int, err error) {
 	return rec, line, nil
 }
 
+// nextRecord is nextFields for a table keyed by station: it also returns
+// the id in column idC, and a missing id is an error naming the cell.
+func (t *Table) nextRecord(idC int) (rec [][]byte, id []byte, line int, err error) {
+	rec, line, err = t.nextFields()
+	if err != nil {
+		return nil, nil, line, err
+	}
+	if id = rec[idC]; len(id) == 0 {
+		return nil, nil, line, t.FieldError(line, idC, "missing station id")
+	}
+	return rec, id, line, nil
+}
+
 // nextFields is Next without copying: the fields (trimmed) are valid only
 // until the next call. Errors and line numbers are those of Next.
 func (t *Table) nextFields() ([][]byte, int, error) {

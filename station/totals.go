@@ -176,17 +176,13 @@ func idxReadTotalsRuns(t *Table, byID map[string]int, ids []string, totalColumn 
 	var lastID []byte
 	lastSite := -1
 	for {
-		rec, line, err := t.nextFields()
+		rec, idb, line, err := t.nextRecord(idC)
 		if err == io.EOF {
 			break
 		}
+		tt.rows++
 		if err != nil {
 			return nil, err
-		}
-		tt.rows++
-		idb := rec[idC]
-		if len(idb) == 0 {
-			return nil, t.FieldError(line, idC, "missing station id")
 		}
 		si := lastSite
 		if si < 0 || !bytes.Equal(idb, lastID) {

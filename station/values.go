@@ -215,17 +215,13 @@ func readValues(t *Table, opt ValueOptions) (*Values, error) {
 		}
 	}
 	for {
-		rec, line, err := t.nextFields()
+		rec, idb, line, err := t.nextRecord(idC)
 		if err == io.EOF {
 			break
 		}
+		v.Read++
 		if err != nil {
 			return nil, err
-		}
-		v.Read++
-		idb := rec[idC]
-		if len(idb) == 0 {
-			return nil, t.FieldError(line, idC, "missing station id")
 		}
 		lat, err := t.floatField(rec, line, latC, "latitude")
 		if err != nil {
