@@ -5,23 +5,16 @@
 // go_asm.h gives the offsets of the Go structs: windowConsts_r4 and so on.
 #include "go_asm.h"
 
-// LANEMIN and LANEMAX put in X2 the lanes of Y as MINPD(MINPD(0, 1),
-// MINPD(2, 3)) (MAXPD likewise): windowSumsGo's order. X1, X3 are scratch.
-#define LANEMIN(Y, X) \
+// LANES puts in X2 the lanes of Y (X its low half) as
+// OPPD(OPPD(0, 1), OPPD(2, 3)), OPSD the scalar form of OPPD: windowSumsGo's
+// order for VMINPD and VMAXPD. X1, X3 are scratch.
+#define LANES(OPPD, OPSD, Y, X) \
 	VEXTRACTF128 $1, Y, X1 \
 	VUNPCKLPD X1, X, X2 \
 	VUNPCKHPD X1, X, X3 \
-	VMINPD X3, X2, X2 \
+	OPPD X3, X2, X2 \
 	VPERMILPD $1, X2, X3 \
-	VMINSD X3, X2, X2
-
-#define LANEMAX(Y, X) \
-	VEXTRACTF128 $1, Y, X1 \
-	VUNPCKLPD X1, X, X2 \
-	VUNPCKHPD X1, X, X3 \
-	VMAXPD X3, X2, X2 \
-	VPERMILPD $1, X2, X3 \
-	VMAXSD X3, X2, X2
+	OPSD X3, X2, X2
 
 // func windowSumsAVX2(c *windowCell)
 //
@@ -122,11 +115,11 @@ done:
 	VEXTRACTF128 $1, Y0, X1
 	VADDPD X1, X0, X0
 	VMOVUPD X0, windowOut_sw(R12)
-	LANEMIN(Y10, X10)
+	LANES(VMINPD, VMINSD, Y10, X10)
 	VMOVSD X2, windowOut_lo(R12)
-	LANEMAX(Y9, X9)
+	LANES(VMAXPD, VMAXSD, Y9, X9)
 	VMOVSD X2, windowOut_hi(R12)
-	LANEMAX(Y8, X8)
+	LANES(VMAXPD, VMAXSD, Y8, X8)
 	VMOVSD X2, windowOut_far(R12)
 	VEXTRACTI128 $1, Y6, X1
 	VPADDQ X1, X6, X1
