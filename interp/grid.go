@@ -94,8 +94,7 @@ type stationCols struct {
 
 // resize makes the columns n stations long, with windowLanes-1 padding
 // entries (zeros) past the end, so that the kernel may read a window's
-// last block whole (it counts only stations within the radius, and the
-// padding lies a chord of 1 from every cell).
+// last block whole (it counts only the window's stations).
 func (s *stationCols) resize(n int) {
 	m := n + windowLanes - 1
 	if cap(s.x) < m {

@@ -29,6 +29,7 @@ type windowConsts struct {
 	r4, r3, r2, r1, one [windowLanes]float64
 	posInf, negInf      [windowLanes]float64
 	c2max               [windowLanes]float64
+	lane, four          [windowLanes]int64 // 0, 1, 2, 3 and the step between blocks
 }
 
 func newWindowConsts(c2max float64) *windowConsts {
@@ -38,6 +39,7 @@ func newWindowConsts(c2max float64) *windowConsts {
 		k.r1[l], k.r2[l], k.r3[l], k.r4[l] = -1.0/3/4, -1.0/15/16, -31.0/945/64, -289.0/14175/256
 		k.one[l], k.posInf[l], k.negInf[l] = 1, math.Inf(1), math.Inf(-1)
 		k.c2max[l] = c2max
+		k.lane[l], k.four[l] = int64(l), windowLanes
 	}
 	return k
 }
@@ -61,16 +63,19 @@ var exactWeight = 0.5 / exactChordSq
 // windowCell is one call of the kernel: the stations of a row at x, y, z,
 // v, the window lo .. lo+m-1 of them, and the cell at the unit vector (cx,
 // cy, cz). The kernel reads the window and the stations after it to a
-// multiple of four, which must lie outside the radius (in the grid they
-// are the stations after the cell's longitude window, or the padding of the
-// row, so they do); it writes the chord squared of window station j to
-// d2[j] and its sums to out. The layout is the one window_amd64.s reads.
+// multiple of four (the row's padding makes them readable) but counts
+// only the window: the stations after it may be copies of stations in it,
+// shifted by 360 degrees, in a row with few stations near the antimeridian.
+// It writes the chord squared of window station j to d2[j] (and of the
+// stations read after it) and its sums to out. The layout is the one
+// window_amd64.s reads.
 type windowCell struct {
 	x, y, z, v, d2 []float64
 	lo, m          int
 	cx, cy, cz     float64
 	k              *windowConsts
 	out            windowOut
+	last           [windowLanes]int64 // m - 1 in every lane: the AVX2 kernel's scratch
 }
 
 // sums runs the kernel: the AVX2 version where the processor has it, else
@@ -84,7 +89,8 @@ func (c *windowCell) sums() {
 }
 
 // windowSumsGo is the kernel in Go, lane by lane as the vector version
-// computes it. A station outside the radius adds nothing to its lane: the
+// computes it. A station outside the radius, or read after the window,
+// adds nothing to its lane: the
 // vector version adds +0 there, which changes no lane sum (a sum that starts
 // at +0 never becomes -0), and offers +Inf and -Inf to the smallest and
 // largest value.
@@ -109,7 +115,7 @@ func windowSumsGo(c *windowCell) {
 			dx, dy, dz := x[j]-cx, y[j]-cy, z[j]-cz
 			c2 := dx*dx + dy*dy + dz*dz
 			d2[j] = c2
-			if !(c2 <= k.c2max[l]) {
+			if j >= m || !(c2 <= k.c2max[l]) {
 				continue
 			}
 			n++

@@ -20,7 +20,7 @@
 //
 // The loop of windowSumsGo, four stations per block. Registers:
 // Y15, Y14, Y13 the cell (cx, cy, cz); Y12 sw, Y11 swz, Y10 lo, Y9 hi,
-// Y8 far, Y6 the count (each lane subtracts its mask, -1 where
+// Y8 far, Y7 the lane numbers j, Y6 the count (each lane subtracts its mask, -1 where
 // within the radius). Go assembler order: the destination is the last
 // operand, and VSUBPD A, B, D is D = B - A.
 TEXT ·windowSumsAVX2(SB), NOSPLIT, $0-8
@@ -40,7 +40,13 @@ TEXT ·windowSumsAVX2(SB), NOSPLIT, $0-8
 	VBROADCASTSD windowCell_cx(R12), Y15
 	VBROADCASTSD windowCell_cy(R12), Y14
 	VBROADCASTSD windowCell_cz(R12), Y13
-	ADDQ $windowCell_out, R12
+	// last = m - 1 in every lane, for the lane test below.
+	LEAQ -1(R8), R11
+	MOVQ R11, windowCell_last+0(R12)
+	MOVQ R11, windowCell_last+8(R12)
+	MOVQ R11, windowCell_last+16(R12)
+	MOVQ R11, windowCell_last+24(R12)
+	VMOVDQU windowConsts_lane(R9), Y7
 	VXORPD Y12, Y12, Y12
 	VXORPD Y11, Y11, Y11
 	VMOVUPD windowConsts_posInf(R9), Y10
@@ -67,9 +73,14 @@ loop:
 	VADDPD Y1, Y0, Y0
 	VMOVUPD Y0, (DI)(SI*8)
 
-	// Y2 = the lanes within the radius (c2 <= c2max); count them;
-	// far = MAXPD(far, in ? c2 : +0).
+	// Y2 = the lanes within the radius (c2 <= c2max) and of the window
+	// (j <= m - 1: the stations after it may be copies, shifted by 360
+	// degrees, of stations in it); count them; far = MAXPD(far, in ? c2 :
+	// +0).
 	VCMPPD $2, windowConsts_c2max(R9), Y0, Y2
+	VPCMPGTQ windowCell_last(R12), Y7, Y3
+	VANDNPD Y2, Y3, Y2
+	VPADDQ windowConsts_four(R9), Y7, Y7
 	VPSUBQ Y2, Y6, Y6
 	VANDPD Y2, Y0, Y3
 	VMAXPD Y3, Y8, Y8
@@ -109,6 +120,7 @@ loop:
 	JMP loop
 
 done:
+	LEAQ windowCell_out(R12), R12
 	// sw and swz as (0 + 1) + (2 + 3): VHADDPD makes [sw0+sw1, swz0+swz1,
 	// sw2+sw3, swz2+swz3].
 	VHADDPD Y11, Y12, Y0
