@@ -1,6 +1,7 @@
 package interp
 
 import (
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"slices"
@@ -314,22 +315,7 @@ func TestAntimeridianAndPole(t *testing.T) {
 	ip2, _ := New(pts, DefaultParams())
 	for _, bb := range [][4]float64{{170, -10, -170, 10}, {-180, 75, 180, 90}} {
 		spec, _ := grid.NewSpec(bb[0], bb[1], bb[2], bb[3], 0.5)
-		out := ip2.Grid(spec, nil)
-		have := 0
-		for row := range spec.Rows {
-			for col := range spec.Cols {
-				lon, lat := spec.Center(col, row)
-				z, _, ok := ip2.At(lon, lat)
-				v, has := out.At(col, row)
-				if ok != has || (ok && math.Abs(float64(v)-z) > 1e-6) {
-					t.Fatalf("bbox %v cell (%d,%d) at (%g,%g): Grid %v %v, At %v %v", bb, col, row, lon, lat, v, has, z, ok)
-				}
-				if has {
-					have++
-				}
-			}
-		}
-		if have == 0 {
+		if have := gridMatchesAt(t, ip2, spec, fmt.Sprintf("bbox %v", bb)); have == 0 {
 			t.Fatalf("bbox %v: no data at all", bb)
 		}
 	}
@@ -383,16 +369,27 @@ func TestGridMatchesAtDense(t *testing.T) {
 	} {
 		ip, _ := New(pts, p)
 		spec, _ := grid.NewSpec(-12, -12, 12, 12, 0.1)
-		out := ip.Grid(spec, nil)
-		for row := range spec.Rows {
-			for col := range spec.Cols {
-				lon, lat := spec.Center(col, row)
-				z, _, ok := ip.At(lon, lat)
-				v, has := out.At(col, row)
-				if ok != has || (ok && math.Abs(float64(v)-z) > 1e-6) {
-					t.Fatalf("%+v cell (%d,%d): Grid %v %v, At %v %v", p, col, row, v, has, z, ok)
-				}
+		gridMatchesAt(t, ip, spec, fmt.Sprintf("%+v", p))
+	}
+}
+
+// gridMatchesAt checks that Grid and At agree on every cell of spec (the
+// same coverage, values to 1e-6: At adds in another order) and returns
+// the number of covered cells; what names the case in a failure.
+func gridMatchesAt(t *testing.T, ip *Interpolator, spec grid.Spec, what string) int {
+	t.Helper()
+	out := ip.Grid(spec, nil)
+	have := 0
+	for row := range spec.Rows {
+		for col := range spec.Cols {
+			lon, lat := spec.Center(col, row)
+			z, _, ok := ip.At(lon, lat)
+			v, has := out.At(col, row)
+			if ok != has || (ok && math.Abs(float64(v)-z) > 1e-6) {
+				t.Fatalf("%s: cell (%d,%d) at (%g,%g): Grid %v %v, At %v %v", what, col, row, lon, lat, v, has, z, ok)
 			}
+			have += b2i(has)
 		}
 	}
+	return have
 }
