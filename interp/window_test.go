@@ -74,11 +74,13 @@ func TestWindowWeightIsGreatCircle(t *testing.T) {
 }
 
 // TestWindowPathMatchesCandidates: the window kernel and the candidate list
-// (the path of every other setting, and of At) give the same grid to a unit
-// in the last place of float32 (or 1e-15 where a weighted mean cancels to
-// about zero: the sums are taken in other orders), on stations dense enough that most cells
-// have more than k within the radius, with duplicates (ties at the k-th
-// distance) and stations on cell centres (the 1 m rule).
+// (the path of every other setting, and of At; the candidate list is
+// checked against a NumPy brute force in reference_test.go) give the same
+// grid to a unit in the last place of float32 (or 1e-15 where a weighted
+// mean cancels to about zero: the sums are taken in other orders), on
+// stations dense enough that most cells have more than k within the
+// radius, with duplicates (ties at the k-th distance) and stations on cell
+// centres (the 1 m rule).
 func TestWindowPathMatchesCandidates(t *testing.T) {
 	r := rand.New(rand.NewPCG(11, 12))
 	pts := randomStations(r, 2000, -20, -10, 20, 10)
