@@ -47,6 +47,15 @@ func unitVector(lon, lat float64) (x, y, z float64) {
 	return cp * cl, cp * sl, sp
 }
 
+// chordSq is the chord squared dx^2 + dy^2 + dz^2 between two unit vectors
+// whose difference is (dx, dy, dz), rounded after every operation (the
+// conversions keep the compiler from fusing them): every path of the
+// grid, and the window kernel's assembly, computes it so, to the same
+// bits, and so agrees on ties at the k-th distance.
+func chordSq(dx, dy, dz float64) float64 {
+	return float64(dx*dx) + float64(dy*dy) + float64(dz*dz)
+}
+
 // chordAngle is the central angle in radians for two unit vectors whose
 // chord length squared is c2 and whose sum has length squared s2 (the chord
 // to the antipode). s2 is only read when the angle is over 90 degrees;

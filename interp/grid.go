@@ -78,32 +78,24 @@ type rowWork struct {
 	// than 360 degrees is one contiguous range.
 	lon []float64
 	st  stationCols
-	d2  []float64    // the window kernel's chords squared
-	kth []uint64     // scratch of kthChord
-	k   windowConsts // the kernel's constants, this worker's copy (the radius changes for a k-th chord)
+	d2  []float64   // the window kernel's chords squared, four lanes a station
+	kth []uint64    // scratch of kthChord
+	g   windowGroup // the window kernel's call
 	c   *cands
 }
 
 // stationCols are the candidate stations of a row, column by column (the
-// layout the window kernel loads four at a time): unit vector, value and
-// rank.
+// layout the window kernel reads): unit vector, value and rank.
 type stationCols struct {
 	x, y, z, v []float64
 	rk         []int32
 }
 
-// resize makes the columns n stations long, with windowLanes-1 padding
-// entries (zeros) past the end, so that the kernel may read a window's
-// last block whole (it counts only the window's stations).
+// resize makes the columns n stations long.
 func (s *stationCols) resize(n int) {
-	m := n + windowLanes - 1
-	if cap(s.x) < m {
-		c := max(m, 2*cap(s.x)) // rows ask for a little more each, towards the poles
+	if cap(s.x) < n {
+		c := max(n, 2*cap(s.x)) // rows ask for a little more each, towards the poles
 		s.x, s.y, s.z, s.v, s.rk = make([]float64, c), make([]float64, c), make([]float64, c), make([]float64, c), make([]int32, c)
-	}
-	s.x, s.y, s.z, s.v, s.rk = s.x[:m], s.y[:m], s.z[:m], s.v[:m], s.rk[:m]
-	for i := n; i < m; i++ {
-		s.set(i, 0, 0, 0, 0, -1)
 	}
 	s.x, s.y, s.z, s.v, s.rk = s.x[:n], s.y[:n], s.z[:n], s.v[:n], s.rk[:n]
 }
@@ -113,19 +105,13 @@ func (s *stationCols) set(i int, x, y, z, v float64, rk int32) {
 	s.x[i], s.y[i], s.z[i], s.v[i], s.rk[i] = x, y, z, v, rk
 }
 
-// from is the columns x, y, z, v from station lo on, padding included (the
-// kernel's view of a window starting at lo).
-func (s *stationCols) from(lo int) (x, y, z, v []float64) {
-	return s.x[lo:cap(s.x)], s.y[lo:cap(s.y)], s.z[lo:cap(s.z)], s.v[lo:cap(s.v)]
-}
-
 // window is stations lo .. hi-1.
 func (s *stationCols) window(lo, hi int) stationCols {
 	return stationCols{s.x[lo:hi], s.y[lo:hi], s.z[lo:hi], s.v[lo:hi], s.rk[lo:hi]}
 }
 
 func (ip *Interpolator) newRowWork() *rowWork {
-	return &rowWork{bits: make([]uint64, (len(ip.val)+63)/64), c: newCands(ip.k), k: *ip.window}
+	return &rowWork{bits: make([]uint64, (len(ip.val)+63)/64), c: newCands(ip.k)}
 }
 
 // rowCandidates collects the ranks of the stations whose latitude is within
@@ -252,138 +238,100 @@ func (ip *Interpolator) gridRow(w *rowWork, lat, colStep float64, colLon, colCos
 	case ip.p.Sectors > 0:
 		ip.gridRowSectors(w, lat, colLon, colCos, colSin, dst) // sectors.go
 	case ip.fast && ip.c2max/4 <= shortSeriesMaxT:
-		ip.gridRowWindow(w, lat, colStep, colLon, colCos, colSin, dst)
+		ip.gridRowWindow(w, lat, colLon, colCos, colSin, dst)
 	default:
 		ip.gridRowCands(w, lat, colStep, colLon, colCos, colSin, dst)
 	}
 }
 
 // gridRowWindow is gridRow through the window kernel (window.go), for
-// power 2 and a radius of up to 337 km. A cell whose k nearest stations
-// within the radius are the stations within some chord of it is the
-// kernel's weighted mean over that chord; any other (a tie at the k-th
-// distance, a station within 1 m) goes through the candidate list as in
-// gridRowCands.
-//
-// The chord: the radius, unless the previous cell (delta away) had k or
-// more stations within it, the k-th nearest at chord sqrt(tau). Then this
-// cell has at least k stations within sqrt(tau) + delta (triangle
-// inequality), and when exactly k lie within that they are the k nearest;
-// when more do, the kernel runs again out to the k-th smallest chord.
-func (ip *Interpolator) gridRowWindow(w *rowWork, lat, colStep float64, colLon, colCos, colSin []float64, dst []float32) {
+// power 2 and a radius of up to 337 km, four cells at a time. A cell whose
+// k nearest stations within the radius are the stations within some chord
+// of it (the radius when at most k are within it, else the k-th smallest
+// chord) is the kernel's weighted mean over that chord; any other (a tie at
+// the k-th distance, a station within 1 m) goes through the candidate list
+// as in gridRowCands.
+func (ip *Interpolator) gridRowWindow(w *rowWork, lat float64, colLon, colCos, colSin []float64, dst []float32) {
 	win, ok := ip.rowStations(w, lat)
 	if !ok {
 		return // already no data
 	}
 	sp, cp := math.Sincos(lat * degToRad)
-	if need := len(win.lons) + windowLanes; cap(w.d2) < need {
+	if need := windowLanes * len(win.lons); cap(w.d2) < need {
 		w.d2 = make([]float64, need)
-		w.kth = make([]uint64, need+1)
+		w.kth = make([]uint64, len(win.lons))
 	}
-	d2 := w.d2[:cap(w.d2)]
 	c := w.c
 	c.reset(len(win.lons) + 1)
-	st, k := &w.st, ip.k
-	c2max := ip.c2max
-	kc := &windowCell{d2: d2, k: &w.k}
-	kc.x, kc.y, kc.z, kc.v = st.from(0)
-	o := &kc.out
-	tau := -1.0                                                 // the previous cell's k-th chord squared, if it had k or more
-	delta := 2 * cp * math.Sin(colStep*degToRad/2) * (1 + 1e-9) // chord between neighbouring cell centres
-	for col := range dst {
-		win.move(colLon[col])
-		lo, m := win.lo, win.hi-win.lo
-		kc.lo, kc.m, kc.cx, kc.cy, kc.cz = lo, m, cp*colCos[col], cp*colSin[col], sp
-		rc := c2max
-		if tau >= 0 {
-			u := math.Sqrt(tau) + delta
-			rc = min(c2max, u*u)
+	st, k, minSt := &w.st, ip.k, ip.p.MinStations
+	g := &w.g
+	g.k, g.d2, g.cz = ip.window, w.d2[:cap(w.d2)], [windowLanes]float64{sp, sp, sp, sp}
+	var lo, hi [windowLanes]int
+	for col0 := 0; col0 < len(dst); col0 += windowLanes {
+		nc := min(windowLanes, len(dst)-col0) // the lanes past the row's end repeat its last cell
+		glo, ghi := len(win.lons), 0
+		for l := range windowLanes {
+			col := col0 + min(l, nc-1)
+			win.move(colLon[col])
+			lo[l], hi[l] = win.lo, win.hi
+			glo, ghi = min(glo, win.lo), max(ghi, win.hi)
+			g.cx[l], g.cy[l] = cp*colCos[col], cp*colSin[col]
 		}
-		w.radius(rc)
-		kc.sums()
-		n := int(o.n)
-		if n < k && rc < c2max { // not expected (see above); to be safe
-			w.radius(c2max)
-			kc.sums()
-			n = int(o.n)
+		if ghi-glo < minSt {
+			continue // no data in any of the four
 		}
-		if n < ip.p.MinStations {
-			tau = -1
+		for l := range windowLanes {
+			g.lom1[l], g.him1[l] = int64(lo[l]-glo-1), int64(hi[l]-glo-1)
+		}
+		g.m = ghi - glo
+		g.x, g.y, g.z, g.v = st.x[glo:ghi], st.y[glo:ghi], st.z[glo:ghi], st.v[glo:ghi]
+		g.chords()
+		any := false
+		for l := range nc {
+			n := int(g.n[l])
+			switch {
+			case n < minSt:
+				g.tau[l] = -1 // no data: counts nothing
+				continue
+			case n <= k:
+				g.tau[l] = ip.c2max
+			case n-k < windowTop:
+				g.tau[l] = g.top[n-k][l]
+			default:
+				g.tau[l] = kthChord(g.d2, l, g.m, k, w.kth)
+			}
+			any = true
+		}
+		if !any {
 			continue
 		}
-		tau = -1
-		if n >= k {
-			tau = o.far
-		}
-		if n > k {
-			tau = kthChord(d2[:m], rc, k, w.kth)
-			w.radius(tau)
-			kc.sums()
-		}
-		if int(o.n) == min(n, k) && o.sw < exactWeight {
-			dst[col] = float32(o.value())
-			continue
-		}
-		// A tie at the k-th distance, or a station within 1 m: the
-		// candidate list, from the chords the kernel wrote.
-		n = gatherWindow(st.window(lo, lo+m), d2[:m], c.cs, c2max)
-		if v, _, ok := ip.estimate(c, n, kc.cx, kc.cy, kc.cz); ok {
-			dst[col] = float32(v)
+		g.sums()
+		for l := range nc {
+			n := int(g.n[l])
+			if n < minSt {
+				continue
+			}
+			if int(g.n2[l]) == min(n, k) && g.sw[l] < exactWeight {
+				dst[col0+l] = float32(min(max(g.swz[l]/g.sw[l], g.lo[l]), g.hi[l]))
+				continue
+			}
+			// A tie at the k-th distance, or a station within 1 m: the
+			// candidate list, from the chords the kernel wrote.
+			n = gatherWindow(st.window(glo, ghi), g.d2, l, c.cs)
+			if v, _, ok := ip.estimate(c, n, g.cx[l], g.cy[l], sp); ok {
+				dst[col0+l] = float32(v)
+			}
 		}
 	}
 }
 
-// radius sets the chord squared out to which the kernel counts stations.
-func (w *rowWork) radius(c2 float64) {
-	if w.k.c2max[0] != c2 {
-		w.k.c2max = [windowLanes]float64{c2, c2, c2, c2}
-	}
-}
-
-// kthChord is the k-th smallest of the chords squared in d2 that are within
-// c2max, when more than k are, found in scratch (longer than d2): it drops
-// the largest until k are left. Chords squared are never NaN nor -0, so
-// their bits order as their values (maxD2), and an integer maximum chooses
-// without a branch.
-func kthChord(d2 []float64, c2max float64, k int, scratch []uint64) float64 {
-	b := scratch[:len(d2)+1]
+// gatherWindow puts in cs the stations of win that lane l of the window
+// kernel's chords d2 counts (those within the radius and the lane's own
+// window: the others are +Inf), in window order, and returns their number.
+func gatherWindow(win stationCols, d2 []float64, l int, cs []cand) int {
 	n := 0
-	for _, c2 := range d2 {
-		b[n] = math.Float64bits(c2)
-		n += b2i(c2 <= c2max)
-	}
-	b = b[:n]
-	for len(b) > k {
-		top := maxBits(b)
-		i := 0
-		for b[i] != top {
-			i++
-		}
-		b[i] = b[len(b)-1]
-		b = b[:len(b)-1]
-	}
-	return math.Float64frombits(maxBits(b))
-}
-
-// maxBits is the largest of b (not empty), with two running maxima.
-func maxBits(b []uint64) uint64 {
-	x, y := b[0], b[0]
-	i := 1
-	for ; i+1 < len(b); i += 2 {
-		x, y = max(x, b[i]), max(y, b[i+1])
-	}
-	if i < len(b) {
-		x = max(x, b[i])
-	}
-	return max(x, y)
-}
-
-// gatherWindow puts in cs the stations of win whose chord squared (d2,
-// computed) is within c2max and returns their number.
-func gatherWindow(win stationCols, d2 []float64, cs []cand, c2max float64) int {
-	n := 0
-	for j, c2 := range d2 {
-		if c2 <= c2max {
+	for j := range win.v {
+		if c2 := d2[windowLanes*j+l]; c2 != math.Inf(1) {
 			cs[n] = cand{c2, win.v[j], win.rk[j]}
 			n++
 		}
@@ -456,7 +404,7 @@ func scanWindow(win stationCols, cs []cand, cx, cy, cz, c2max float64) int {
 		// bits; written this way round the compiler needs no copies of
 		// cx, cy, cz (the subtraction overwrites its first operand).
 		dx, dy, dz := x[j]-cx, y[j]-cy, z[j]-cz
-		d2 := dx*dx + dy*dy + dz*dz
+		d2 := chordSq(dx, dy, dz)
 		cs[n] = cand{d2, v[j], rk[j]}
 		n += b2i(d2 <= c2max) // branch-free: the test is unpredictable
 	}

@@ -173,7 +173,7 @@ func (ip *Interpolator) selectAt(lon, lat float64, c *cands) int {
 	c.reset(0)
 	offer := func(_, _ [2]float64, r int32) bool {
 		dx, dy, dz := cx-ip.x[r], cy-ip.y[r], cz-ip.z[r]
-		if d2 := dx*dx + dy*dy + dz*dz; d2 <= ip.c2max {
+		if d2 := chordSq(dx, dy, dz); d2 <= ip.c2max {
 			c.cs = append(c.cs, cand{d2, ip.val[r], r})
 		}
 		return true

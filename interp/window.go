@@ -2,55 +2,60 @@ package interp
 
 import "math"
 
-// The window kernel: for one cell, the chords to every station of its
-// longitude window and, over those within the radius, Shepard's sums, in one
-// pass of four lanes. It serves the common case of the grid (power 2, a
-// radius of up to 337 km, no sectors, at most k stations within the radius
-// and none within 1 m); gridRow falls back to the candidate list for the
-// rest.
+// The window kernel: four neighbouring cells of a row at once, one cell per
+// lane, over the stations of their longitude windows. It serves the common
+// case of the grid (power 2, a radius of up to 337 km, no sectors); gridRow
+// falls back to the candidate list for the cells it cannot settle (a tie at
+// the k-th distance, a station within 1 m, or more than k+windowTop-1
+// stations within the radius, where the k-th chord is found apart).
 //
-// The sums are taken in four lanes: station j of the window goes to lane
-// j mod 4, in window order, and the lanes are added as (0 + 1) + (2 + 3).
-// That fixes the order of every floating-point operation, so windowSumsGo
-// and the AVX2 version (window_amd64.s) give the same bits, and the result
-// depends only on the window (which depends only on the input), never on
-// the worker count or the processor.
+// It runs in two passes over the union of the four windows (the stations
+// from the first cell's window start to the last cell's window end):
+//
+//   - windowChords: the chord squared from each cell to each station, kept
+//     where the station is in that cell's own window and within the radius
+//     (+Inf elsewhere); per cell the count and the windowTop largest of
+//     those chords, from which the k-th smallest follows when there are at
+//     most k+windowTop-1.
+//   - windowSums: per cell, over the stations within its own chord tau (the
+//     radius, or the k-th chord), Shepard's sums, the count and the
+//     smallest and largest value.
+//
+// A cell's sums are taken station after station in window order, one
+// accumulator per cell, and a station outside the cell's own window or
+// chord adds +0 (a sum that starts at +0 never becomes -0). So a cell's
+// value depends only on its window and the stations, not on the other
+// cells of its group, the worker count or the processor: windowChordsGo and
+// windowSumsGo are the definition, and the AVX2 version (window_amd64.s)
+// gives the same bits (TestWindowAsm). Products that the vector version
+// fuses are written with math.FMA, which rounds once on every processor,
+// and the others are rounded by a conversion, which the compiler never fuses.
 
-// windowLanes is the width of the kernel; the station arrays of a row carry
-// windowLanes-1 padding entries past their end, so that a window's last
-// block can be read whole.
+// windowLanes is the number of cells of a group, one per vector lane.
 const windowLanes = 4
 
+// windowTop is how many of the largest chords within the radius the first
+// pass keeps per cell: the k-th smallest of n > k is the (n-k+1)-th largest.
+const windowTop = 6
+
 // windowConsts are the kernel's constants, each repeated in four lanes for
-// the vector loads: the weight's series coefficients (see windowSumsGo) and
-// the radius as a chord squared. The order is the one window_amd64.s reads
-// (32 bytes each).
+// the vector loads: the radius as a chord squared, the weight's series
+// coefficients (see windowSumsGo) and the step of the station index. The
+// order is the one window_amd64.s reads (32 bytes each).
 type windowConsts struct {
-	r4, r3, r2, r1, one [windowLanes]float64
-	posInf, negInf      [windowLanes]float64
-	c2max               [windowLanes]float64
-	lane, four          [windowLanes]int64 // 0, 1, 2, 3 and the step between blocks
+	c2max, posInf, one, r1, r2, r3, r4 [windowLanes]float64
+	step                               [windowLanes]int64
 }
 
 func newWindowConsts(c2max float64) *windowConsts {
 	k := &windowConsts{}
 	for l := range windowLanes {
+		k.c2max[l], k.posInf[l], k.one[l] = c2max, math.Inf(1), 1
 		// -1/3, -1/15, -31/945, -289/14175 times 4^-n (exact).
 		k.r1[l], k.r2[l], k.r3[l], k.r4[l] = -1.0/3/4, -1.0/15/16, -31.0/945/64, -289.0/14175/256
-		k.one[l], k.posInf[l], k.negInf[l] = 1, math.Inf(1), math.Inf(-1)
-		k.c2max[l] = c2max
-		k.lane[l], k.four[l] = int64(l), windowLanes
+		k.step[l] = 1
 	}
 	return k
-}
-
-// windowOut is what the kernel gives: over the stations within the radius,
-// the sums of w and w v, the smallest and largest v and the largest chord
-// squared (+0 for none), and their number n. Lanes are put together in
-// their fixed order. The layout is the one window_amd64.s writes.
-type windowOut struct {
-	sw, swz, lo, hi, far float64
-	n                    int64
 }
 
 // exactWeight bounds the sum of weights of a cell with a station within
@@ -60,81 +65,107 @@ type windowOut struct {
 // (or finds no station that close).
 var exactWeight = 0.5 / exactChordSq
 
-// windowCell is one call of the kernel: the stations of a row at x, y, z,
-// v, the window lo .. lo+m-1 of them, and the cell at the unit vector (cx,
-// cy, cz). The kernel reads the window and the stations after it to a
-// multiple of four (the row's padding makes them readable) but counts
-// only the window: the stations after it may be copies of stations in it,
-// shifted by 360 degrees, in a row with few stations near the antimeridian.
-// It writes the chord squared of window station j to d2[j] (and of the
-// stations read after it) and its sums to out. The layout is the one
+// windowGroup is one call of the kernel: the stations x, y, z, v (m of
+// them, the union of the windows) and, per lane, a cell at the unit vector
+// (cx, cy, cz) whose own window is stations lom1+1 .. him1 of them. The
+// first pass writes d2 (station j, lane l at d2[4j+l]), n and top; the
+// second reads d2 and tau and writes the sums. The layout is the one
 // window_amd64.s reads.
-type windowCell struct {
-	x, y, z, v, d2 []float64
-	lo, m          int
-	cx, cy, cz     float64
-	k              *windowConsts
-	out            windowOut
-	last           [windowLanes]int64 // m - 1 in every lane: the AVX2 kernel's scratch
+type windowGroup struct {
+	x, y, z, v []float64
+	d2         []float64
+	m          int
+	k          *windowConsts
+	cx, cy, cz [windowLanes]float64
+	lom1, him1 [windowLanes]int64
+
+	n   [windowLanes]int64              // stations within the radius
+	top [windowTop][windowLanes]float64 // their largest chords squared, largest first (+0 for none)
+
+	tau             [windowLanes]float64 // the second pass's chord squared
+	sw, swz, lo, hi [windowLanes]float64 // Shepard's sums, smallest and largest value within tau
+	n2              [windowLanes]int64   // stations within tau
 }
 
-// sums runs the kernel: the AVX2 version where the processor has it, else
-// windowSumsGo; the same bits either way (TestWindowSumsAsm).
-func (c *windowCell) sums() {
+// chords runs the first pass: the AVX2 version where the processor has it,
+// else windowChordsGo; the same bits either way.
+func (g *windowGroup) chords() {
 	if hasWindowAVX2 {
-		windowSumsVec(c)
+		windowChordsVec(g)
 		return
 	}
-	windowSumsGo(c)
+	windowChordsGo(g)
 }
 
-// windowSumsGo is the kernel in Go, lane by lane as the vector version
-// computes it. A station outside the radius, or read after the window,
-// adds nothing to its lane: the
-// vector version adds +0 there, which changes no lane sum (a sum that starts
-// at +0 never becomes -0), and offers +Inf and -Inf to the smallest and
-// largest value.
-//
-// The weight is 1/theta^2 for the central angle theta = 2 asin(c/2) of the
-// chord c: (1/c^2) R(c^2), where R(s) = c^2/theta^2 = 1 - t/3 - t^2/15 -
-// 31 t^3/945 - 289 t^4/14175 with t = s/4 (the reciprocal of
+// sums runs the second pass, as chords does.
+func (g *windowGroup) sums() {
+	if hasWindowAVX2 {
+		windowSumsVec(g)
+		return
+	}
+	windowSumsGo(g)
+}
+
+// windowChordsGo is the first pass in Go, lane by lane as the vector
+// version computes it: the chord squared (chordSq, as every other path of
+// the grid has it, so that all agree on ties), and the largest chords kept by a network of
+// maxima and minima (exact, so any order of the operands gives the same
+// bits: chords squared are never NaN nor -0).
+func windowChordsGo(g *windowGroup) {
+	x, y, z, d2, k := g.x[:g.m], g.y[:g.m], g.z[:g.m], g.d2[:windowLanes*g.m], g.k
+	g.n = [windowLanes]int64{}
+	g.top = [windowTop][windowLanes]float64{}
+	for j := range x {
+		for l := range windowLanes {
+			dx, dy, dz := x[j]-g.cx[l], y[j]-g.cy[l], z[j]-g.cz[l]
+			c2 := chordSq(dx, dy, dz)
+			i := int64(j)
+			if i <= g.lom1[l] || i > g.him1[l] || !(c2 <= k.c2max[l]) {
+				d2[windowLanes*j+l] = math.Inf(1)
+				continue
+			}
+			d2[windowLanes*j+l] = c2
+			g.n[l]++
+			for t := range windowTop {
+				g.top[t][l], c2 = max(g.top[t][l], c2), min(g.top[t][l], c2)
+			}
+		}
+	}
+}
+
+// windowSumsGo is the second pass in Go, lane by lane as the vector version
+// computes it. The weight is 1/theta^2 for the central angle theta = 2
+// asin(c/2) of the chord c: (1/c^2) R(c^2), where R(s) = c^2/theta^2 = 1 -
+// t/3 - t^2/15 - 31 t^3/945 - 289 t^4/14175 with t = s/4 (the reciprocal of
 // asinSqSeries, worked out term by term with exact fractions; the first
 // omitted term is below 3e-18 for a radius of up to 337 km). It is written
 // in s, with the coefficients scaled by powers of four (exactly), and
 // evaluated in Estrin's scheme, which the vector version overlaps with the
-// division.
-func windowSumsGo(c *windowCell) {
-	x, y, z, v := c.x[c.lo:], c.y[c.lo:], c.z[c.lo:], c.v[c.lo:]
-	d2, m, cx, cy, cz, k := c.d2, c.m, c.cx, c.cy, c.cz, c.k
-	var sw, swz, far [windowLanes]float64
-	lo, hi := k.posInf, k.negInf
-	var n int64
-	for b := 0; b < m; b += windowLanes {
+// division. The smallest and largest value follow MINPD and MAXPD
+// (minLane, maxLane).
+func windowSumsGo(g *windowGroup) {
+	v, d2, k := g.v[:g.m], g.d2[:windowLanes*g.m], g.k
+	for l := range windowLanes {
+		g.sw[l], g.swz[l], g.lo[l], g.hi[l], g.n2[l] = 0, 0, math.Inf(1), math.Inf(-1), 0
+	}
+	for j, vj := range v {
 		for l := range windowLanes {
-			j := b + l
-			dx, dy, dz := x[j]-cx, y[j]-cy, z[j]-cz
-			c2 := dx*dx + dy*dy + dz*dz
-			d2[j] = c2
-			if j >= m || !(c2 <= k.c2max[l]) {
+			c2 := d2[windowLanes*j+l]
+			if !(c2 <= g.tau[l]) {
 				continue
 			}
-			n++
-			far[l] = maxLane(far[l], c2)
 			s2 := c2 * c2
-			w := (k.one[l] / c2) * ((k.one[l] + k.r1[l]*c2) + s2*((k.r2[l]+k.r3[l]*c2)+k.r4[l]*s2))
-			sw[l] += w
-			swz[l] += w * v[j]
-			lo[l] = minLane(lo[l], v[j])
-			hi[l] = maxLane(hi[l], v[j])
+			p := math.FMA(c2, k.r1[l], k.one[l])
+			q := math.FMA(c2, k.r3[l], k.r2[l])
+			q = math.FMA(s2, k.r4[l], q)
+			p = math.FMA(s2, q, p)
+			w := float64((k.one[l] / c2) * p) // rounded here, never fused into the sum
+			g.sw[l] += w
+			g.swz[l] = math.FMA(w, vj, g.swz[l])
+			g.lo[l] = minLane(g.lo[l], vj)
+			g.hi[l] = maxLane(g.hi[l], vj)
+			g.n2[l]++
 		}
-	}
-	c.out = windowOut{
-		sw:  (sw[0] + sw[1]) + (sw[2] + sw[3]),
-		swz: (swz[0] + swz[1]) + (swz[2] + swz[3]),
-		lo:  minLane(minLane(lo[0], lo[1]), minLane(lo[2], lo[3])),
-		hi:  maxLane(maxLane(hi[0], hi[1]), maxLane(hi[2], hi[3])),
-		far: maxLane(maxLane(far[0], far[1]), maxLane(far[2], far[3])),
-		n:   n,
 	}
 }
 
@@ -156,8 +187,42 @@ func maxLane(a, b float64) float64 {
 	return b
 }
 
-// value is the weighted mean of the kernel's sums, clamped to the smallest
-// and largest value as weigh clamps it.
-func (o *windowOut) value() float64 {
-	return min(max(o.swz/o.sw, o.lo), o.hi)
+// kthChord is the k-th smallest of the finite chords squared of lane l in
+// d2 (m stations, four lanes each), when more than k are, found in scratch
+// (at least m long): it drops the largest until k are left. Chords squared
+// are never NaN nor -0, so their bits order as their values (maxD2), and an
+// integer maximum chooses without a branch.
+func kthChord(d2 []float64, l, m, k int, scratch []uint64) float64 {
+	b := scratch[:m]
+	n := 0
+	inf := math.Float64bits(math.Inf(1))
+	for j := range m {
+		u := math.Float64bits(d2[windowLanes*j+l])
+		b[n] = u
+		n += b2i(u != inf)
+	}
+	b = b[:n]
+	for len(b) > k {
+		top := maxBits(b)
+		i := 0
+		for b[i] != top {
+			i++
+		}
+		b[i] = b[len(b)-1]
+		b = b[:len(b)-1]
+	}
+	return math.Float64frombits(maxBits(b))
+}
+
+// maxBits is the largest of b (not empty), with two running maxima.
+func maxBits(b []uint64) uint64 {
+	x, y := b[0], b[0]
+	i := 1
+	for ; i+1 < len(b); i += 2 {
+		x, y = max(x, b[i]), max(y, b[i+1])
+	}
+	if i < len(b) {
+		x = max(x, b[i])
+	}
+	return max(x, y)
 }

@@ -4,25 +4,33 @@ package interp
 
 import "golang.org/x/sys/cpu"
 
-// windowSumsAVX2 is windowSumsGo in AVX2 (window_amd64.s), four lanes per
-// instruction; windowSumsVec checks the lengths it relies on.
+// windowChordsAVX2 and windowSumsAVX2 are windowChordsGo and windowSumsGo in
+// AVX2 (window_amd64.s), the four cells in the four lanes;
+// windowChordsVec and windowSumsVec check the lengths they rely on.
 //
 //go:noescape
-func windowSumsAVX2(c *windowCell)
+func windowChordsAVX2(grp *windowGroup)
 
-// hasWindowAVX2 is whether this processor and system run windowSumsAVX2:
-// AVX2 with the YMM state saved by the system, and POPCNT.
-var hasWindowAVX2 = cpu.X86.HasAVX2 && cpu.X86.HasPOPCNT
+//go:noescape
+func windowSumsAVX2(grp *windowGroup)
 
-// windowSumsVec is the kernel in AVX2, once the slices are known to reach
-// the window's end rounded up to a multiple of four.
-func windowSumsVec(c *windowCell) {
-	if c.m <= 0 {
-		c.out = windowOut{lo: c.k.posInf[0], hi: c.k.negInf[0]}
-		return
+// hasWindowAVX2 is whether this processor and system run the AVX2 kernel:
+// AVX2 and FMA, with the YMM state saved by the system.
+var hasWindowAVX2 = cpu.X86.HasAVX2 && cpu.X86.HasFMA
+
+// windowChordsVec is the first pass in AVX2, once the slices are known to
+// hold m stations (and d2 four lanes of each).
+func windowChordsVec(g *windowGroup) {
+	if g.m > 0 {
+		_, _, _, _ = g.x[g.m-1], g.y[g.m-1], g.z[g.m-1], g.d2[windowLanes*g.m-1]
 	}
-	n := (c.m + windowLanes - 1) &^ (windowLanes - 1)
-	e := c.lo + n
-	_, _, _, _, _, _ = c.x[c.lo], c.x[e-1], c.y[e-1], c.z[e-1], c.v[e-1], c.d2[n-1]
-	windowSumsAVX2(c)
+	windowChordsAVX2(g)
+}
+
+// windowSumsVec is the second pass in AVX2, as windowChordsVec.
+func windowSumsVec(g *windowGroup) {
+	if g.m > 0 {
+		_, _ = g.v[g.m-1], g.d2[windowLanes*g.m-1]
+	}
+	windowSumsAVX2(g)
 }

@@ -2,141 +2,168 @@
 
 #include "textflag.h"
 
-// go_asm.h gives the offsets of the Go structs: windowConsts_r4 and so on.
+// go_asm.h gives the offsets of the Go structs: windowGroup_x and so on.
 #include "go_asm.h"
 
-// LANES puts in X2 the lanes of Y (X its low half) as
-// OPPD(OPPD(0, 1), OPPD(2, 3)), OPSD the scalar form of OPPD: windowSumsGo's
-// order for VMINPD and VMAXPD. X1, X3 are scratch.
-#define LANES(OPPD, OPSD, Y, X) \
-	VEXTRACTF128 $1, Y, X1 \
-	VUNPCKLPD X1, X, X2 \
-	VUNPCKHPD X1, X, X3 \
-	OPPD X3, X2, X2 \
-	VPERMILPD $1, X2, X3 \
-	OPSD X3, X2, X2
+// Go assembler order: the destination is the last operand, VSUBPD A, B, D
+// is D = B - A, VCMPPD $p, A, B, D is D = B p A, VPCMPGTQ A, B, D is
+// D = B > A, VPANDN A, B, D is D = ~B & A, VMAXPD A, B, D is Intel's
+// MAXPD(B, A) (B if B > A, else A), VFMADD231PD A, B, D is D = B*A + D,
+// VFMADD213PD A, B, D is D = B*D + A, VBLENDVPD M, A, B, D is D = M ? A : B.
 
-// func windowSumsAVX2(c *windowCell)
+// func windowChordsAVX2(grp *windowGroup)
 //
-// The loop of windowSumsGo, four stations per block. Registers:
-// Y15, Y14, Y13 the cell (cx, cy, cz); Y12 sw, Y11 swz, Y10 lo, Y9 hi,
-// Y8 far, Y7 the lane numbers j, Y6 the count (each lane subtracts its mask, -1 where
-// within the radius). Go assembler order: the destination is the last
-// operand, and VSUBPD A, B, D is D = B - A.
-TEXT ·windowSumsAVX2(SB), NOSPLIT, $0-8
-	MOVQ c+0(FP), R12
-	MOVQ windowCell_x(R12), AX
-	MOVQ windowCell_y(R12), BX
-	MOVQ windowCell_z(R12), CX
-	MOVQ windowCell_v(R12), DX
-	MOVQ windowCell_d2(R12), DI
-	MOVQ windowCell_m(R12), R8
-	MOVQ windowCell_lo(R12), R10
-	LEAQ (AX)(R10*8), AX
-	LEAQ (BX)(R10*8), BX
-	LEAQ (CX)(R10*8), CX
-	LEAQ (DX)(R10*8), DX
-	MOVQ windowCell_k(R12), R9
-	VBROADCASTSD windowCell_cx(R12), Y15
-	VBROADCASTSD windowCell_cy(R12), Y14
-	VBROADCASTSD windowCell_cz(R12), Y13
-	// last = m - 1 in every lane, for the lane test below.
-	LEAQ -1(R8), R11
-	MOVQ R11, windowCell_last+0(R12)
-	MOVQ R11, windowCell_last+8(R12)
-	MOVQ R11, windowCell_last+16(R12)
-	MOVQ R11, windowCell_last+24(R12)
-	VMOVDQU windowConsts_lane(R9), Y7
-	VXORPD Y12, Y12, Y12
-	VXORPD Y11, Y11, Y11
-	VMOVUPD windowConsts_posInf(R9), Y10
-	VMOVUPD windowConsts_negInf(R9), Y9
+// windowChordsGo, the four cells in the four lanes, one station a step.
+// Registers: Y15, Y14, Y13 the cells (cx, cy, cz); Y12 the station index j
+// in every lane; Y11 the counts (each lane subtracts its mask, -1 where
+// the station counts); Y10 .. Y5 the largest chords, largest first
+// (windowTop = 6).
+TEXT ·windowChordsAVX2(SB), NOSPLIT, $0-8
+	MOVQ grp+0(FP), R12
+	MOVQ windowGroup_x(R12), AX
+	MOVQ windowGroup_y(R12), BX
+	MOVQ windowGroup_z(R12), CX
+	MOVQ windowGroup_d2(R12), DI
+	MOVQ windowGroup_m(R12), R8
+	MOVQ windowGroup_k(R12), R9
+	VMOVUPD windowGroup_cx(R12), Y15
+	VMOVUPD windowGroup_cy(R12), Y14
+	VMOVUPD windowGroup_cz(R12), Y13
+	VPXOR Y12, Y12, Y12
+	VPXOR Y11, Y11, Y11
+	VXORPD Y10, Y10, Y10
+	VXORPD Y9, Y9, Y9
 	VXORPD Y8, Y8, Y8
-	VPXOR Y6, Y6, Y6
+	VXORPD Y7, Y7, Y7
+	VXORPD Y6, Y6, Y6
+	VXORPD Y5, Y5, Y5
 	XORQ SI, SI
 
-loop:
+chords:
 	CMPQ SI, R8
-	JGE done
+	JGE chordsDone
 
-	// c2 = (x-cx)^2 + (y-cy)^2 + (z-cz)^2, stored to d2.
-	VMOVUPD (AX)(SI*8), Y0
+	// c2 = (dx^2 + dy^2) + dz^2, rounded after every operation (chordSq).
+	VBROADCASTSD (AX)(SI*8), Y0
 	VSUBPD Y15, Y0, Y0
 	VMULPD Y0, Y0, Y0
-	VMOVUPD (BX)(SI*8), Y1
+	VBROADCASTSD (BX)(SI*8), Y1
 	VSUBPD Y14, Y1, Y1
 	VMULPD Y1, Y1, Y1
 	VADDPD Y1, Y0, Y0
-	VMOVUPD (CX)(SI*8), Y1
+	VBROADCASTSD (CX)(SI*8), Y1
 	VSUBPD Y13, Y1, Y1
 	VMULPD Y1, Y1, Y1
 	VADDPD Y1, Y0, Y0
-	VMOVUPD Y0, (DI)(SI*8)
 
-	// Y2 = the lanes within the radius (c2 <= c2max) and of the window
-	// (j <= m - 1: the stations after it may be copies, shifted by 360
-	// degrees, of stations in it); count them; far = MAXPD(far, in ? c2 :
-	// +0).
-	VCMPPD $2, windowConsts_c2max(R9), Y0, Y2
-	VPCMPGTQ windowCell_last(R12), Y7, Y3
-	VANDNPD Y2, Y3, Y2
-	VPADDQ windowConsts_four(R9), Y7, Y7
-	VPSUBQ Y2, Y6, Y6
-	VANDPD Y2, Y0, Y3
-	VMAXPD Y3, Y8, Y8
+	// Y2 = the lanes where the station counts: lom1 < j, not j > him1,
+	// c2 <= c2max. Count them.
+	VPCMPGTQ windowGroup_lom1(R12), Y12, Y2
+	VPCMPGTQ windowGroup_him1(R12), Y12, Y3
+	VPANDN Y2, Y3, Y2
+	VCMPPD $2, windowConsts_c2max(R9), Y0, Y3
+	VANDPD Y3, Y2, Y2
+	VPSUBQ Y2, Y11, Y11
+	VPADDQ windowConsts_step(R9), Y12, Y12
+
+	// d2 = in ? c2 : +Inf; Y1 = in ? c2 : +0.
+	VANDPD Y2, Y0, Y1
+	VANDNPD windowConsts_posInf(R9), Y2, Y3
+	VORPD Y1, Y3, Y3
+	VMOVUPD Y3, (DI)
+
+	// The largest chords: each keeps the larger and passes on the smaller.
+	VMINPD Y1, Y10, Y4
+	VMAXPD Y1, Y10, Y10
+	VMINPD Y4, Y9, Y1
+	VMAXPD Y4, Y9, Y9
+	VMINPD Y1, Y8, Y4
+	VMAXPD Y1, Y8, Y8
+	VMINPD Y4, Y7, Y1
+	VMAXPD Y4, Y7, Y7
+	VMINPD Y1, Y6, Y4
+	VMAXPD Y1, Y6, Y6
+	VMAXPD Y4, Y5, Y5
+
+	INCQ SI
+	ADDQ $32, DI
+	JMP chords
+
+chordsDone:
+	VMOVDQU Y11, windowGroup_n(R12)
+	VMOVUPD Y10, windowGroup_top+0(R12)
+	VMOVUPD Y9, windowGroup_top+32(R12)
+	VMOVUPD Y8, windowGroup_top+64(R12)
+	VMOVUPD Y7, windowGroup_top+96(R12)
+	VMOVUPD Y6, windowGroup_top+128(R12)
+	VMOVUPD Y5, windowGroup_top+160(R12)
+	VZEROUPPER
+	RET
+
+// func windowSumsAVX2(grp *windowGroup)
+//
+// windowSumsGo, the four cells in the four lanes, one station a step.
+// Registers: Y15 tau, Y14 one; Y13 sw, Y12 swz, Y11 lo, Y10 hi, Y9 the
+// counts.
+TEXT ·windowSumsAVX2(SB), NOSPLIT, $0-8
+	MOVQ grp+0(FP), R12
+	MOVQ windowGroup_v(R12), DX
+	MOVQ windowGroup_d2(R12), DI
+	MOVQ windowGroup_m(R12), R8
+	MOVQ windowGroup_k(R12), R9
+	VMOVUPD windowGroup_tau(R12), Y15
+	VMOVUPD windowConsts_one(R9), Y14
+	VXORPD Y13, Y13, Y13
+	VXORPD Y12, Y12, Y12
+	VMOVUPD windowConsts_posInf(R9), Y11
+	VXORPD Y10, Y10, Y10
+	VSUBPD Y11, Y10, Y10
+	VPXOR Y9, Y9, Y9
+	XORQ SI, SI
+
+sums:
+	CMPQ SI, R8
+	JGE sumsDone
+
+	// Y1 = the lanes within tau.
+	VMOVUPD (DI), Y0
+	VCMPPD $2, Y15, Y0, Y1
+	VPSUBQ Y1, Y9, Y9
 
 	// w = (1 / c2) ((1 + r1 c2) + c2^2 ((r2 + r3 c2) + r4 c2^2)), zero
-	// outside the lanes of Y2. The division and the polynomial (Estrin's
+	// outside the lanes of Y1. The division and the polynomial (Estrin's
 	// scheme) depend on c2 only, so they overlap.
-	VMOVUPD windowConsts_one(R9), Y5
-	VDIVPD Y0, Y5, Y5
+	VDIVPD Y0, Y14, Y2
 	VMULPD Y0, Y0, Y3
-	VMULPD windowConsts_r3(R9), Y0, Y4
-	VADDPD windowConsts_r2(R9), Y4, Y4
-	VMULPD windowConsts_r4(R9), Y3, Y1
-	VADDPD Y1, Y4, Y4
-	VMULPD Y4, Y3, Y4
-	VMULPD windowConsts_r1(R9), Y0, Y1
-	VADDPD windowConsts_one(R9), Y1, Y1
-	VADDPD Y4, Y1, Y1
-	VMULPD Y1, Y5, Y1
-	VANDPD Y2, Y1, Y1
+	VMOVUPD windowConsts_r3(R9), Y4
+	VFMADD213PD windowConsts_r2(R9), Y0, Y4
+	VFMADD231PD windowConsts_r4(R9), Y3, Y4
+	VMOVUPD windowConsts_r1(R9), Y5
+	VFMADD213PD Y14, Y0, Y5
+	VFMADD231PD Y4, Y3, Y5
+	VMULPD Y5, Y2, Y2
+	VANDPD Y1, Y2, Y2
 
-	// sw += w; swz += w v.
-	VADDPD Y1, Y12, Y12
-	VMOVUPD (DX)(SI*8), Y4
-	VMULPD Y4, Y1, Y1
-	VADDPD Y1, Y11, Y11
+	// sw += w; swz += w v (fused).
+	VADDPD Y2, Y13, Y13
+	VBROADCASTSD (DX)(SI*8), Y3
+	VFMADD231PD Y3, Y2, Y12
 
-	// lo = MINPD(lo, in ? v : +Inf); hi = MAXPD(hi, in ? v : -Inf).
-	VMOVUPD windowConsts_posInf(R9), Y5
-	VBLENDVPD Y2, Y4, Y5, Y5
-	VMINPD Y5, Y10, Y10
-	VMOVUPD windowConsts_negInf(R9), Y5
-	VBLENDVPD Y2, Y4, Y5, Y5
-	VMAXPD Y5, Y9, Y9
+	// lo = in ? MINPD(lo, v) : lo; hi = in ? MAXPD(hi, v) : hi.
+	VMINPD Y3, Y11, Y4
+	VBLENDVPD Y1, Y4, Y11, Y11
+	VMAXPD Y3, Y10, Y4
+	VBLENDVPD Y1, Y4, Y10, Y10
 
-	ADDQ $4, SI
-	JMP loop
+	INCQ SI
+	ADDQ $32, DI
+	JMP sums
 
-done:
-	LEAQ windowCell_out(R12), R12
-	// sw and swz as (0 + 1) + (2 + 3): VHADDPD makes [sw0+sw1, swz0+swz1,
-	// sw2+sw3, swz2+swz3].
-	VHADDPD Y11, Y12, Y0
-	VEXTRACTF128 $1, Y0, X1
-	VADDPD X1, X0, X0
-	VMOVUPD X0, windowOut_sw(R12)
-	LANES(VMINPD, VMINSD, Y10, X10)
-	VMOVSD X2, windowOut_lo(R12)
-	LANES(VMAXPD, VMAXSD, Y9, X9)
-	VMOVSD X2, windowOut_hi(R12)
-	LANES(VMAXPD, VMAXSD, Y8, X8)
-	VMOVSD X2, windowOut_far(R12)
-	VEXTRACTI128 $1, Y6, X1
-	VPADDQ X1, X6, X1
-	VPSHUFD $0x4e, X1, X2
-	VPADDQ X2, X1, X1
-	VMOVQ X1, windowOut_n(R12)
+sumsDone:
+	VMOVUPD Y13, windowGroup_sw(R12)
+	VMOVUPD Y12, windowGroup_swz(R12)
+	VMOVUPD Y11, windowGroup_lo(R12)
+	VMOVUPD Y10, windowGroup_hi(R12)
+	VMOVDQU Y9, windowGroup_n2(R12)
 	VZEROUPPER
 	RET

@@ -10,45 +10,70 @@ import (
 	"drygrid/grid"
 )
 
-// TestWindowSumsAsm checks that the AVX2 kernel gives the same bits as
-// windowSumsGo (the definition of the lane order) on random windows of
-// every length up to 40, including tails, stations within 1 m and stations
-// beyond the radius.
-func TestWindowSumsAsm(t *testing.T) {
+// TestWindowAsm checks that the AVX2 passes give the same bits as
+// windowChordsGo and windowSumsGo (the definition) on random groups of
+// every union length up to 40: lane windows empty, partial and whole,
+// stations within 1 m of a cell, beyond the radius and tied, values of
+// either zero, and second-pass chords of none, the radius and a k-th chord.
+func TestWindowAsm(t *testing.T) {
 	if !hasWindowAVX2 {
-		t.Skip("no AVX2 kernel on this processor: windowSums is windowSumsGo")
+		t.Skip("no AVX2 kernel on this processor: the kernel is windowChordsGo and windowSumsGo")
 	}
 	r := rand.New(rand.NewPCG(7, 8))
-	c2max := 0.0022 // 300 km as a chord squared, about
-	k := newWindowConsts(c2max)
-	same := func(a, b float64) bool { return math.Float64bits(a) == math.Float64bits(b) }
+	k := newWindowConsts(0.0022) // 300 km as a chord squared, about
 	for trial := range 4000 {
 		m := trial % 41
-		x, y, z, v, cx, cy, cz := randomWindow(r, m, 0.07)
-		d2a, d2b := make([]float64, m+windowLanes), make([]float64, m+windowLanes)
-		ca := &windowCell{x: x, y: y, z: z, v: v, d2: d2a, m: m, cx: cx, cy: cy, cz: cz, k: k}
-		cb := *ca
-		cb.d2 = d2b
-		windowSumsGo(ca)
-		windowSumsVec(&cb)
-		a, b := ca.out, cb.out
-		if a.n != b.n || !same(a.sw, b.sw) || !same(a.swz, b.swz) || !same(a.lo, b.lo) || !same(a.hi, b.hi) ||
-			!same(a.far, b.far) {
-			t.Fatalf("trial %d (m %d): Go %+v, AVX2 %+v", trial, m, a, b)
+		a := randomGroup(r, m, 0.07, k)
+		b := *a
+		b.d2 = make([]float64, len(a.d2))
+		windowChordsGo(a)
+		windowChordsVec(&b)
+		if a.n != b.n || !sameBits(a.top[:], b.top[:]) || !sameFloats(a.d2, b.d2) {
+			t.Fatalf("trial %d (m %d) chords: Go n %v top %v, AVX2 n %v top %v", trial, m, a.n, a.top, b.n, b.top)
 		}
-		for j := range m {
-			if !same(d2a[j], d2b[j]) {
-				t.Fatalf("trial %d: d2[%d] Go %v AVX2 %v", trial, j, d2a[j], d2b[j])
+		for l := range windowLanes {
+			switch r.IntN(4) {
+			case 0:
+				a.tau[l] = -1
+			case 1:
+				a.tau[l] = k.c2max[l]
+			default:
+				a.tau[l] = a.top[r.IntN(windowTop)][l]
 			}
+		}
+		b.tau = a.tau
+		windowSumsGo(a)
+		windowSumsVec(&b)
+		if a.n2 != b.n2 || !sameBits([][windowLanes]float64{a.sw, a.swz, a.lo, a.hi}, [][windowLanes]float64{b.sw, b.swz, b.lo, b.hi}) {
+			t.Fatalf("trial %d (m %d) sums: Go %v %v %v %v %v, AVX2 %v %v %v %v %v", trial, m,
+				a.n2, a.sw, a.swz, a.lo, a.hi, b.n2, b.sw, b.swz, b.lo, b.hi)
 		}
 	}
 }
 
+func sameFloats(a, b []float64) bool {
+	for i := range a {
+		if math.Float64bits(a[i]) != math.Float64bits(b[i]) {
+			return false
+		}
+	}
+	return len(a) == len(b)
+}
+
+func sameBits(a, b [][windowLanes]float64) bool {
+	for i := range a {
+		if !sameFloats(a[i][:], b[i][:]) {
+			return false
+		}
+	}
+	return len(a) == len(b)
+}
+
 // TestWindowKernelsSameGrid: the grid is byte-identical whether the kernel
-// runs in AVX2 or in Go (TestWindowSumsAsm checks single windows).
+// runs in AVX2 or in Go (TestWindowAsm checks single groups).
 func TestWindowKernelsSameGrid(t *testing.T) {
 	if !hasWindowAVX2 {
-		t.Skip("no AVX2 kernel on this processor: windowSums is windowSumsGo")
+		t.Skip("no AVX2 kernel on this processor: the kernel is windowChordsGo and windowSumsGo")
 	}
 	ip, _ := New(uniformSphere(20000, 3), DefaultParams())
 	spec, _ := grid.NewSpec(-180, -90, 180, 90, 0.5)

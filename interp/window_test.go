@@ -4,71 +4,136 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"slices"
 	"testing"
 
 	"drygrid/grid"
 )
 
-// randomWindow is m stations (plus padding) scattered around the cell
-// (cx, cy, cz) out to about twice the chord c, some on the cell itself
-// and some with equal or signed-zero values.
-func randomWindow(r *rand.Rand, m int, c float64) (x, y, z, v []float64, cx, cy, cz float64) {
+// randomGroup is a kernel call of m stations scattered around four
+// neighbouring cells out to about twice the chord c, some on a cell itself
+// (or within 1 m of it), some on one place (ties), with equal or
+// signed-zero values, and lane windows that are empty, part or all of the
+// m stations.
+func randomGroup(r *rand.Rand, m int, c float64, k *windowConsts) *windowGroup {
 	lon, lat := r.Float64()*360-180, r.Float64()*160-80
-	cx, cy, cz = unitVector(lon, lat)
-	n := m + windowLanes
-	x, y, z, v = make([]float64, n), make([]float64, n), make([]float64, n), make([]float64, n)
+	g := &windowGroup{m: m, k: k, d2: make([]float64, windowLanes*m)}
+	for l := range windowLanes {
+		g.cx[l], g.cy[l], g.cz[l] = unitVector(lon+0.1*float64(l), lat)
+		a, b := r.IntN(m+1), r.IntN(m+1)
+		if r.IntN(3) == 0 {
+			a, b = 0, m
+		}
+		g.lom1[l], g.him1[l] = int64(min(a, b)-1), int64(max(a, b)-1)
+	}
+	g.x, g.y, g.z, g.v = make([]float64, m), make([]float64, m), make([]float64, m), make([]float64, m)
 	for j := range m {
+		l := r.IntN(windowLanes)
 		switch r.IntN(8) {
-		case 0: // on the cell, or within 1 m of it
-			x[j], y[j], z[j] = cx, cy, cz+r.Float64()*1e-8
+		case 0: // on a cell, or within 1 m of it
+			g.x[j], g.y[j], g.z[j] = g.cx[l], g.cy[l], g.cz[l]+r.Float64()*1e-8
+		case 1: // on the place of the station before (a tie)
+			if j > 0 {
+				g.x[j], g.y[j], g.z[j] = g.x[j-1], g.y[j-1], g.z[j-1]
+				break
+			}
+			fallthrough
 		default:
-			x[j], y[j], z[j] = cx+(r.Float64()*2-1)*c, cy+(r.Float64()*2-1)*c, cz+(r.Float64()*2-1)*c
+			g.x[j] = g.cx[l] + (r.Float64()*2-1)*c
+			g.y[j] = g.cy[l] + (r.Float64()*2-1)*c
+			g.z[j] = g.cz[l] + (r.Float64()*2-1)*c
 		}
 		switch r.IntN(6) {
 		case 0:
-			v[j] = 0
+			g.v[j] = 0
 		case 1:
-			v[j] = math.Copysign(0, -1)
+			g.v[j] = math.Copysign(0, -1)
 		case 2:
-			v[j] = 1.25
+			g.v[j] = 1.25
 		default:
-			v[j] = r.Float64()*6 - 3
+			g.v[j] = r.Float64()*6 - 3
 		}
 	}
-	for j := m; j < n; j++ { // read after the window, which must not count them
-		x[j], y[j], z[j], v[j] = cx, cy, cz, 99
-	}
-	return
+	return g
 }
 
 // TestWindowWeightIsGreatCircle: the kernel's weight of one station is
 // 1/theta^2 for the central angle theta = 2 asin(c/2) of the chord c (the
 // chord of a unit circle, common practice), computed with math.Asin, to
 // 1e-15 relative (a few units in the last place on each side: the
-// reference rounds in the square root, the arcsine and the square) from 1 m out to the kernel's largest radius (337 km): the
-// series (1/c^2)(1 - t/3 - t^2/15 - 31 t^3/945 - 289 t^4/14175), t = c^2/4,
-// is the reciprocal of asinSqSeries, worked out term by term with exact
-// fractions, and stops below 3e-18.
+// reference rounds in the square root, the arcsine and the square) from 1 m
+// out to the kernel's largest radius (337 km): the series (1/c^2)(1 - t/3 -
+// t^2/15 - 31 t^3/945 - 289 t^4/14175), t = c^2/4, is the reciprocal of
+// asinSqSeries, worked out term by term with exact fractions, and stops
+// below 3e-18.
 func TestWindowWeightIsGreatCircle(t *testing.T) {
 	r := rand.New(rand.NewPCG(9, 10))
 	c2max := 4 * shortSeriesMaxT
-	k := newWindowConsts(c2max)
-	d2 := make([]float64, windowLanes)
+	g := &windowGroup{m: 1, k: newWindowConsts(c2max), d2: make([]float64, windowLanes),
+		x: make([]float64, 1), y: make([]float64, 1), z: []float64{0}, v: []float64{1},
+		cx: [windowLanes]float64{1, 1, 1, 1}, him1: [windowLanes]int64{0, 0, 0, 0},
+		lom1: [windowLanes]int64{-1, -1, -1, -1}}
 	for range 20000 {
 		c := math.Sqrt(exactChordSq) * math.Pow(math.Sqrt(c2max/exactChordSq), r.Float64()) * 0.999
-		x := []float64{1 - c*c/2, 0, 0, 0}
-		y := []float64{c * math.Sqrt(1-c*c/4), 0, 0, 0}
-		z := []float64{0, 0, 0, 0}
-		v := []float64{1, 0, 0, 0}
-		call := &windowCell{x: x, y: y, z: z, v: v, d2: d2, m: 1, cx: 1, k: k}
-		windowSumsGo(call)
-		o := call.out
-		if o.n != 1 {
-			t.Fatalf("chord %g: %d stations counted", c, o.n)
+		g.x[0], g.y[0] = 1-c*c/2, c*math.Sqrt(1-c*c/4)
+		windowChordsGo(g)
+		g.tau = g.k.c2max
+		windowSumsGo(g)
+		if g.n[0] != 1 || g.n2[0] != 1 {
+			t.Fatalf("chord %g: %d and %d stations counted", c, g.n[0], g.n2[0])
 		}
-		theta := 2 * math.Asin(math.Sqrt(d2[0])/2)
-		if want := 1 / (theta * theta); math.Abs(o.sw-want) > 1e-15*want {
-			t.Fatalf("chord %g: weight %.17g, 1/theta^2 %.17g (relative %.2g)", c, o.sw, want, (o.sw-want)/want)
+		theta := 2 * math.Asin(math.Sqrt(g.d2[0])/2)
+		if want := 1 / (theta * theta); math.Abs(g.sw[0]-want) > 1e-15*want {
+			t.Fatalf("chord %g: weight %.17g, 1/theta^2 %.17g (relative %.2g)", c, g.sw[0], want, (g.sw[0]-want)/want)
+		}
+	}
+}
+
+// TestWindowChordsKeepLargest: the first pass counts exactly the stations
+// of each lane's own window within the radius, writes +Inf for every other,
+// and its largest chords are those of a sort of the counted ones (zero past
+// their number), so that the k-th smallest of n > k is top[n-k].
+func TestWindowChordsKeepLargest(t *testing.T) {
+	r := rand.New(rand.NewPCG(13, 14))
+	k := newWindowConsts(0.0022)
+	for trial := range 2000 {
+		g := randomGroup(r, trial%41, 0.07, k)
+		windowChordsGo(g)
+		for l := range windowLanes {
+			var in []float64
+			for j := range g.m {
+				dx, dy, dz := g.x[j]-g.cx[l], g.y[j]-g.cy[l], g.z[j]-g.cz[l]
+				c2 := dx*dx + dy*dy + dz*dz
+				own := int64(j) > g.lom1[l] && int64(j) <= g.him1[l]
+				if got := g.d2[windowLanes*j+l]; !own || c2 > k.c2max[l]*(1+1e-12) {
+					if !math.IsInf(got, 1) && !(own && math.Abs(c2-k.c2max[l]) < 1e-15) {
+						t.Fatalf("trial %d lane %d station %d: d2 %v, outside", trial, l, j, got)
+					}
+				} else if math.Abs(got-c2) > 1e-15 {
+					t.Fatalf("trial %d lane %d station %d: d2 %v, want %v", trial, l, j, got, c2)
+				}
+				if got := g.d2[windowLanes*j+l]; !math.IsInf(got, 1) {
+					in = append(in, got)
+				}
+			}
+			if int(g.n[l]) != len(in) {
+				t.Fatalf("trial %d lane %d: n %d, %d counted", trial, l, g.n[l], len(in))
+			}
+			slices.Sort(in)
+			for i := range windowTop {
+				want := 0.0
+				if i < len(in) {
+					want = in[len(in)-1-i]
+				}
+				if g.top[i][l] != want {
+					t.Fatalf("trial %d lane %d: top %v, sorted %v", trial, l, g.top, in)
+				}
+			}
+			if n := len(in); n > 12 {
+				if got, want := kthChord(g.d2, l, g.m, 12, make([]uint64, g.m)), in[11]; got != want {
+					t.Fatalf("trial %d lane %d: kthChord %v, sorted %v", trial, l, got, want)
+				}
+			}
 		}
 	}
 }
@@ -117,9 +182,8 @@ func TestWindowPathMatchesCandidates(t *testing.T) {
 
 // TestGridAntimeridianFewStations: a row with few stations near the
 // antimeridian holds copies of some of them shifted by 360 degrees right
-// after the others, so the stations read after a cell's window (the
-// kernel reads whole blocks of four) can be copies of stations inside it;
-// the kernel must count only the window. Grid agrees with At (rtree boxes,
+// after the others, so the union of a group's windows can hold a station
+// and its copy; each cell must count only its own window. Grid agrees with At (rtree boxes,
 // no copies) on 300 random sets of 40 stations across the antimeridian
 // (a case the end-to-end NumPy test met with one of its random seeds).
 func TestGridAntimeridianFewStations(t *testing.T) {
