@@ -46,7 +46,7 @@ type tiffImage struct {
 	north     float64
 	res       float64
 	levels    []*tiffLevel
-	// spillFile holds the compressed tiles of levels with a spill table
+	// spillFile holds the compressed tiles that are nil in their level
 	// (the row encoders with TIFFOptions.SpillDir).
 	spillFile io.ReaderAt
 }
@@ -344,7 +344,7 @@ func tiffWrite(w io.Writer, img *tiffImage, opt TIFFOptions) error {
 	for i := len(img.levels) - 1; i >= 0; i-- {
 		l := img.levels[i]
 		for k, tile := range l.tiles {
-			if l.spill != nil {
+			if tile == nil {
 				sp := l.spill[k]
 				if cap(buf) < int(sp.n) {
 					buf = make([]byte, sp.n)

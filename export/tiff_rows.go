@@ -172,20 +172,22 @@ type tiffRowState struct {
 	bov  []*tiffModeAcc
 	list []tiffTileJob // tiles of the current block
 
-	spill    *os.File // nil: compressed tiles stay in memory
+	spillDir string   // where to spill ("": never)
+	inMemory int64    // bytes of compressed tiles kept in memory
+	spill    *os.File // nil until the tiles pass tiffMemoryTiles
 	spillW   *bufio.Writer
 	spillPos int64
 }
 
+// tiffMemoryTiles is how many bytes of compressed tiles the row encoders
+// keep in memory before the rest go to the spill file (TIFFOptions.SpillDir):
+// a global 0.1 degree index COG (25 MB) needs no file, a larger raster
+// spills all but its first tiles. A variable so that tests can spill
+// from the first tile.
+var tiffMemoryTiles int64 = 64 << 20
+
 func newTiffRowState(spec grid.Spec, nodata float32, s *classes.Scheme, wantIndex, wantBands bool, opt TIFFOptions) (*tiffRowState, error) {
-	st := &tiffRowState{spec: spec, t: opt.TileSize, nodata: nodata, opt: opt}
-	if opt.SpillDir != "" {
-		f, err := os.CreateTemp(opt.SpillDir, ".drygrid-tiles-*")
-		if err != nil {
-			return nil, fmt.Errorf("geotiff: spill file for the compressed tiles: %w", err)
-		}
-		st.spill, st.spillW = f, bufio.NewWriterSize(f, 1<<20)
-	}
+	st := &tiffRowState{spec: spec, t: opt.TileSize, nodata: nodata, opt: opt, spillDir: opt.SpillDir}
 	var sizes [][2]int
 	if opt.Overviews {
 		sizes = cogLevelSizes(spec.Cols, spec.Rows)
@@ -197,12 +199,6 @@ func newTiffRowState(spec grid.Spec, nodata float32, s *classes.Scheme, wantInde
 		}
 		for _, l := range img.levels {
 			l.tiles = make([][]byte, l.tilesAcross(st.t)*l.tilesDown(st.t))
-			if st.spill != nil {
-				l.spill = make([]tiffSpan, len(l.tiles))
-			}
-		}
-		if st.spill != nil {
-			img.spillFile = st.spill
 		}
 	}
 	if wantIndex {
@@ -234,19 +230,49 @@ func (st *tiffRowState) close() {
 	}
 }
 
-// spillTiles moves the tiles just compressed to the spill file.
+// spillTiles keeps the tiles just compressed in memory while they fit in
+// tiffMemoryTiles, and moves them to the spill file (created then) once
+// they do not.
 func (st *tiffRowState) spillTiles() error {
-	if st.spill == nil {
+	if st.spillDir == "" {
 		return nil
 	}
 	for _, j := range st.list {
 		tile := j.dst.tiles[j.slot]
+		if st.spill == nil && st.inMemory+int64(len(tile)) <= tiffMemoryTiles {
+			st.inMemory += int64(len(tile))
+			continue
+		}
+		if err := st.openSpill(); err != nil {
+			return err
+		}
+		if j.dst.spill == nil {
+			j.dst.spill = make([]tiffSpan, len(j.dst.tiles))
+		}
 		if _, err := st.spillW.Write(tile); err != nil {
 			return fmt.Errorf("geotiff: spill compressed tiles to %s: %w", st.spill.Name(), err)
 		}
 		j.dst.spill[j.slot] = tiffSpan{off: st.spillPos, n: int64(len(tile))}
 		j.dst.tiles[j.slot] = nil
 		st.spillPos += int64(len(tile))
+	}
+	return nil
+}
+
+// openSpill creates the spill file, unless it is open.
+func (st *tiffRowState) openSpill() error {
+	if st.spill != nil {
+		return nil
+	}
+	f, err := os.CreateTemp(st.spillDir, ".drygrid-tiles-*")
+	if err != nil {
+		return fmt.Errorf("geotiff: spill file for the compressed tiles: %w", err)
+	}
+	st.spill, st.spillW = f, bufio.NewWriterSize(f, 1<<20)
+	for _, img := range []*tiffImage{st.fimg, st.bimg} {
+		if img != nil {
+			img.spillFile = f
+		}
 	}
 	return nil
 }

@@ -79,17 +79,39 @@ func TestTIFFRowsSameBytes(t *testing.T) {
 			t.Errorf("%+v: streamed band file differs (%d bytes, want %d)", c, gotB.Len(), wantB.Len())
 		}
 		// The same with the compressed tiles spilled to a temporary file,
-		// which is gone afterwards.
+		// which is gone afterwards: all of them, the second half of them,
+		// or none (the default budget holds these small rasters).
 		spill := t.TempDir()
 		opt.SpillDir = spill
-		gotI.Reset()
-		gotB.Reset()
-		if err := EncodeIndexBandsTIFFRows(&gotI, &gotB, spec, r.NoData, s, tiffRowsFrom(t, r, c.tile), opt); err != nil {
-			t.Fatal(err)
+		def := tiffMemoryTiles
+		for _, budget := range []int64{0, int64(wantI.Len()+wantB.Len()) / 2, def} {
+			tiffMemoryTiles = budget
+			gotI.Reset()
+			gotB.Reset()
+			rows, spilled := tiffRowsFrom(t, r, c.tile), false
+			watch := func(row0, n int, dst []float32) error {
+				if left, _ := os.ReadDir(spill); len(left) != 0 {
+					spilled = true
+				}
+				return rows(row0, n, dst)
+			}
+			if err := EncodeIndexBandsTIFFRows(&gotI, &gotB, spec, r.NoData, s, watch, opt); err != nil {
+				t.Fatal(err)
+			}
+			if !bytes.Equal(gotI.Bytes(), wantI.Bytes()) || !bytes.Equal(gotB.Bytes(), wantB.Bytes()) {
+				t.Errorf("%+v, %d bytes in memory: spilled files differ", c, budget)
+			}
+			// The file is made once the tiles pass the budget; with two
+			// blocks or more the first block's tiles are compressed while
+			// the second is produced.
+			if want := budget == 0 && spec.Rows > 2*c.tile; want && !spilled {
+				t.Errorf("%+v, %d bytes in memory: no spill file seen", c, budget)
+			}
+			if budget == def && spilled {
+				t.Errorf("%+v: spill file made within the budget", c)
+			}
 		}
-		if !bytes.Equal(gotI.Bytes(), wantI.Bytes()) || !bytes.Equal(gotB.Bytes(), wantB.Bytes()) {
-			t.Errorf("%+v: spilled files differ", c)
-		}
+		tiffMemoryTiles = def
 		if left, _ := os.ReadDir(spill); len(left) != 0 {
 			t.Errorf("%+v: spill file left behind: %v", c, left)
 		}

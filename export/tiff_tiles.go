@@ -15,8 +15,8 @@ type tiffLevel struct {
 	cols, rows int
 	f32        []float32 // Float32 images
 	u8         []uint8   // UInt8 images
-	tiles      [][]byte  // compressed tiles, row-major (nil entries when spilled)
-	spill      []tiffSpan
+	tiles      [][]byte   // compressed tiles, row-major (nil entries when spilled)
+	spill      []tiffSpan // where the spilled tiles are (nil when none is)
 }
 
 // tiffSpan is where a spilled compressed tile lies in the spill file.
@@ -27,7 +27,7 @@ type tiffSpan struct {
 
 // tileLen is the compressed size of tile k.
 func (l *tiffLevel) tileLen(k int) int {
-	if l.spill != nil {
+	if l.tiles[k] == nil {
 		return int(l.spill[k].n)
 	}
 	return len(l.tiles[k])
