@@ -7,6 +7,7 @@ import (
 	"crypto/sha256"
 	"encoding/hex"
 	"fmt"
+	"hash"
 	"io"
 	"os"
 	"path/filepath"
@@ -17,8 +18,9 @@ import (
 // WriteFileAtomic writes path through write into a temporary file in the same
 // directory and renames it over path only when write and the flush succeed,
 // so a failed write leaves any earlier file at path untouched. The file is
-// on disk (fsync) before the rename. Its SHA-256 is computed from the
-// written file while the fsync runs, and kept for HashFile (writtenSums).
+// on disk (fsync) before the rename. Its SHA-256 is computed from the bytes
+// as they are written, each chunk beside its write (hashTee), and kept for
+// HashFile (writtenSums).
 func WriteFileAtomic(path string, write func(w *bufio.Writer) error) (err error) {
 	dir, base := filepath.Split(path)
 	if dir == "" {
@@ -35,18 +37,17 @@ func WriteFileAtomic(path string, write func(w *bufio.Writer) error) (err error)
 			os.Remove(tmp)
 		}
 	}()
-	w := bufio.NewWriterSize(f, 1<<20)
+	tee := newHashTee(f)
+	defer tee.stop()
+	w := bufio.NewWriterSize(tee, 1<<20)
 	if err = write(w); err != nil {
 		return fmt.Errorf("write %s: %w", path, err)
 	}
 	if err = w.Flush(); err != nil {
 		return fmt.Errorf("write %s: %w", path, err)
 	}
-	sum := make(chan fileSum, 1)
-	go func() { sum <- hashReader(io.NewSectionReader(f, 0, 1<<62)) }()
-	err = f.Sync() // on disk before the rename makes it the file
-	h := <-sum
-	if err != nil {
+	h := tee.sum()
+	if err = f.Sync(); err != nil { // on disk before the rename makes it the file
 		return fmt.Errorf("write %s: %w", path, err)
 	}
 	if err = f.Chmod(0o644); err != nil {
@@ -71,6 +72,52 @@ type fileSum struct {
 	sum  string
 	mod  time.Time
 	err  error
+}
+
+// hashTee writes to a file and hashes the same bytes in a goroutine of its
+// own, each chunk while it is being written, so that the sum is ready when
+// the last write returns.
+type hashTee struct {
+	f    *os.File
+	h    hash.Hash
+	n    int64
+	in   chan []byte
+	done chan struct{}
+}
+
+func newHashTee(f *os.File) *hashTee {
+	t := &hashTee{f: f, h: sha256.New(), in: make(chan []byte), done: make(chan struct{})}
+	go func() {
+		for p := range t.in {
+			t.h.Write(p)
+			t.done <- struct{}{}
+		}
+	}()
+	return t
+}
+
+// Write writes p and returns once p is also hashed (the caller may reuse it
+// then).
+func (t *hashTee) Write(p []byte) (int, error) {
+	t.in <- p
+	n, err := t.f.Write(p)
+	<-t.done
+	t.n += int64(n)
+	return n, err
+}
+
+// sum is the size and SHA-256 of what was written; the tee takes no more.
+func (t *hashTee) sum() fileSum {
+	t.stop()
+	return fileSum{size: t.n, sum: hex.EncodeToString(t.h.Sum(nil))}
+}
+
+// stop ends the hashing goroutine (again is harmless).
+func (t *hashTee) stop() {
+	if t.in != nil {
+		close(t.in)
+		t.in = nil
+	}
 }
 
 // hashReader is the size and SHA-256 of what r holds.

@@ -39,6 +39,22 @@ func TestHashFileAfterWrite(t *testing.T) {
 	}
 	write("first contents")
 	check("as written")
+	// Many chunks of the 1 MiB buffer, and a write larger than it, which
+	// goes past the buffer to the file (and to the hash) directly.
+	big := make([]byte, 3<<20+12345)
+	for i := range big {
+		big[i] = byte(i*7 + i>>13)
+	}
+	if err := WriteFileAtomic(path, func(w *bufio.Writer) error {
+		for i := 0; i < 1<<20; i += 1000 {
+			w.Write(big[i:min(i+1000, 1<<20)])
+		}
+		_, err := w.Write(big[1<<20:])
+		return err
+	}); err != nil {
+		t.Fatal(err)
+	}
+	check("written in chunks")
 	write("second contents, longer")
 	// Changed in place to the same size, with a later modification time.
 	if err := os.WriteFile(path, []byte("SECOND CONTENTS, LONGER"), 0o644); err != nil {
