@@ -13,8 +13,8 @@ import (
 // overview, with its tiles once compressed.
 type tiffLevel struct {
 	cols, rows int
-	f32        []float32 // Float32 images
-	u8         []uint8   // UInt8 images
+	f32        []float32  // Float32 images
+	u8         []uint8    // UInt8 images
 	tiles      [][]byte   // compressed tiles, row-major (nil entries when spilled)
 	spill      []tiffSpan // where the spilled tiles are (nil when none is)
 }
