@@ -312,7 +312,7 @@ func (ip *Interpolator) gridRowWindow(w *rowWork, lat float64, colLon, colCos, c
 				continue
 			}
 			if int(g.n2[l]) == min(n, k) && g.sw[l] < exactWeight {
-				dst[col0+l] = float32(min(max(g.swz[l]/g.sw[l], g.lo[l]), g.hi[l]))
+				dst[col0+l] = float32(g.val[l])
 				continue
 			}
 			// A tie at the k-th distance, or a station within 1 m: the

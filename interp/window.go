@@ -36,7 +36,7 @@ const windowLanes = 4
 
 // windowTop is how many of the largest chords within the radius the first
 // pass keeps per cell: the k-th smallest of n > k is the (n-k+1)-th largest.
-const windowTop = 6
+const windowTop = 8
 
 // windowConsts are the kernel's constants, each repeated in four lanes for
 // the vector loads: the radius as a chord squared, the weight's series
@@ -85,6 +85,7 @@ type windowGroup struct {
 	tau             [windowLanes]float64 // the second pass's chord squared
 	sw, swz, lo, hi [windowLanes]float64 // Shepard's sums, smallest and largest value within tau
 	n2              [windowLanes]int64   // stations within tau
+	val             [windowLanes]float64 // swz/sw clamped to [lo, hi]
 }
 
 // chords runs the first pass: the AVX2 version where the processor has it,
@@ -141,8 +142,8 @@ func windowChordsGo(g *windowGroup) {
 // omitted term is below 3e-18 for a radius of up to 337 km). It is written
 // in s, with the coefficients scaled by powers of four (exactly), and
 // evaluated in Estrin's scheme, which the vector version overlaps with the
-// division. The smallest and largest value follow MINPD and MAXPD
-// (minLane, maxLane).
+// division. The smallest and largest value, and the clamp of the weighted
+// mean between them, follow MINPD and MAXPD (minLane, maxLane).
 func windowSumsGo(g *windowGroup) {
 	v, d2, k := g.v[:g.m], g.d2[:windowLanes*g.m], g.k
 	for l := range windowLanes {
@@ -166,6 +167,12 @@ func windowSumsGo(g *windowGroup) {
 			g.hi[l] = maxLane(g.hi[l], vj)
 			g.n2[l]++
 		}
+	}
+	// The weighted mean is a convex combination of the values; the clamp
+	// only removes rounding beyond them (and makes a constant field give
+	// that constant exactly).
+	for l := range windowLanes {
+		g.val[l] = minLane(maxLane(g.swz[l]/g.sw[l], g.lo[l]), g.hi[l])
 	}
 }
 

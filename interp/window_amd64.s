@@ -14,10 +14,10 @@
 // func windowChordsAVX2(grp *windowGroup)
 //
 // windowChordsGo, the four cells in the four lanes, one station a step.
-// Registers: Y15, Y14, Y13 the cells (cx, cy, cz); Y12 the station index j
-// in every lane; Y11 the counts (each lane subtracts its mask, -1 where
-// the station counts); Y10 .. Y5 the largest chords, largest first
-// (windowTop = 6).
+// Registers: Y12 the station index j in every lane; Y11 the counts (each
+// lane subtracts its mask, -1 where the station counts); Y10 .. Y3 the
+// largest chords, largest first (windowTop = 8). The cells (cx, cy, cz)
+// are read from memory.
 TEXT ·windowChordsAVX2(SB), NOSPLIT, $0-8
 	MOVQ grp+0(FP), R12
 	MOVQ windowGroup_x(R12), AX
@@ -26,9 +26,6 @@ TEXT ·windowChordsAVX2(SB), NOSPLIT, $0-8
 	MOVQ windowGroup_d2(R12), DI
 	MOVQ windowGroup_m(R12), R8
 	MOVQ windowGroup_k(R12), R9
-	VMOVUPD windowGroup_cx(R12), Y15
-	VMOVUPD windowGroup_cy(R12), Y14
-	VMOVUPD windowGroup_cz(R12), Y13
 	VPXOR Y12, Y12, Y12
 	VPXOR Y11, Y11, Y11
 	VXORPD Y10, Y10, Y10
@@ -37,6 +34,8 @@ TEXT ·windowChordsAVX2(SB), NOSPLIT, $0-8
 	VXORPD Y7, Y7, Y7
 	VXORPD Y6, Y6, Y6
 	VXORPD Y5, Y5, Y5
+	VXORPD Y4, Y4, Y4
+	VXORPD Y3, Y3, Y3
 	XORQ SI, SI
 
 chords:
@@ -45,45 +44,49 @@ chords:
 
 	// c2 = (dx^2 + dy^2) + dz^2, rounded after every operation (chordSq).
 	VBROADCASTSD (AX)(SI*8), Y0
-	VSUBPD Y15, Y0, Y0
+	VSUBPD windowGroup_cx(R12), Y0, Y0
 	VMULPD Y0, Y0, Y0
 	VBROADCASTSD (BX)(SI*8), Y1
-	VSUBPD Y14, Y1, Y1
+	VSUBPD windowGroup_cy(R12), Y1, Y1
 	VMULPD Y1, Y1, Y1
 	VADDPD Y1, Y0, Y0
 	VBROADCASTSD (CX)(SI*8), Y1
-	VSUBPD Y13, Y1, Y1
+	VSUBPD windowGroup_cz(R12), Y1, Y1
 	VMULPD Y1, Y1, Y1
 	VADDPD Y1, Y0, Y0
 
 	// Y2 = the lanes where the station counts: lom1 < j, not j > him1,
 	// c2 <= c2max. Count them.
 	VPCMPGTQ windowGroup_lom1(R12), Y12, Y2
-	VPCMPGTQ windowGroup_him1(R12), Y12, Y3
-	VPANDN Y2, Y3, Y2
-	VCMPPD $2, windowConsts_c2max(R9), Y0, Y3
-	VANDPD Y3, Y2, Y2
+	VPCMPGTQ windowGroup_him1(R12), Y12, Y14
+	VPANDN Y2, Y14, Y2
+	VCMPPD $2, windowConsts_c2max(R9), Y0, Y14
+	VANDPD Y14, Y2, Y2
 	VPSUBQ Y2, Y11, Y11
 	VPADDQ windowConsts_step(R9), Y12, Y12
 
 	// d2 = in ? c2 : +Inf; Y1 = in ? c2 : +0.
 	VANDPD Y2, Y0, Y1
-	VANDNPD windowConsts_posInf(R9), Y2, Y3
-	VORPD Y1, Y3, Y3
-	VMOVUPD Y3, (DI)
+	VANDNPD windowConsts_posInf(R9), Y2, Y14
+	VORPD Y1, Y14, Y14
+	VMOVUPD Y14, (DI)
 
 	// The largest chords: each keeps the larger and passes on the smaller.
-	VMINPD Y1, Y10, Y4
+	VMINPD Y1, Y10, Y13
 	VMAXPD Y1, Y10, Y10
-	VMINPD Y4, Y9, Y1
-	VMAXPD Y4, Y9, Y9
-	VMINPD Y1, Y8, Y4
+	VMINPD Y13, Y9, Y1
+	VMAXPD Y13, Y9, Y9
+	VMINPD Y1, Y8, Y13
 	VMAXPD Y1, Y8, Y8
-	VMINPD Y4, Y7, Y1
-	VMAXPD Y4, Y7, Y7
-	VMINPD Y1, Y6, Y4
+	VMINPD Y13, Y7, Y1
+	VMAXPD Y13, Y7, Y7
+	VMINPD Y1, Y6, Y13
 	VMAXPD Y1, Y6, Y6
-	VMAXPD Y4, Y5, Y5
+	VMINPD Y13, Y5, Y1
+	VMAXPD Y13, Y5, Y5
+	VMINPD Y1, Y4, Y13
+	VMAXPD Y1, Y4, Y4
+	VMAXPD Y13, Y3, Y3
 
 	INCQ SI
 	ADDQ $32, DI
@@ -97,6 +100,8 @@ chordsDone:
 	VMOVUPD Y7, windowGroup_top+96(R12)
 	VMOVUPD Y6, windowGroup_top+128(R12)
 	VMOVUPD Y5, windowGroup_top+160(R12)
+	VMOVUPD Y4, windowGroup_top+192(R12)
+	VMOVUPD Y3, windowGroup_top+224(R12)
 	VZEROUPPER
 	RET
 
@@ -160,6 +165,11 @@ sums:
 	JMP sums
 
 sumsDone:
+	// val = MINPD(MAXPD(swz / sw, lo), hi).
+	VDIVPD Y13, Y12, Y0
+	VMAXPD Y11, Y0, Y0
+	VMINPD Y10, Y0, Y0
+	VMOVUPD Y0, windowGroup_val(R12)
 	VMOVUPD Y13, windowGroup_sw(R12)
 	VMOVUPD Y12, windowGroup_swz(R12)
 	VMOVUPD Y11, windowGroup_lo(R12)

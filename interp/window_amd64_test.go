@@ -44,9 +44,9 @@ func TestWindowAsm(t *testing.T) {
 		b.tau = a.tau
 		windowSumsGo(a)
 		windowSumsVec(&b)
-		if a.n2 != b.n2 || !sameBits([][windowLanes]float64{a.sw, a.swz, a.lo, a.hi}, [][windowLanes]float64{b.sw, b.swz, b.lo, b.hi}) {
-			t.Fatalf("trial %d (m %d) sums: Go %v %v %v %v %v, AVX2 %v %v %v %v %v", trial, m,
-				a.n2, a.sw, a.swz, a.lo, a.hi, b.n2, b.sw, b.swz, b.lo, b.hi)
+		if a.n2 != b.n2 || !sameBits([][windowLanes]float64{a.sw, a.swz, a.lo, a.hi, a.val}, [][windowLanes]float64{b.sw, b.swz, b.lo, b.hi, b.val}) {
+			t.Fatalf("trial %d (m %d) sums: Go %v %v %v %v %v %v, AVX2 %v %v %v %v %v %v", trial, m,
+				a.n2, a.sw, a.swz, a.lo, a.hi, a.val, b.n2, b.sw, b.swz, b.lo, b.hi, b.val)
 		}
 	}
 }
