@@ -6,7 +6,7 @@ import (
 	"fmt"
 	"math"
 
-	"github.com/klauspost/compress/zlib"
+	"github.com/klauspost/compress/flate"
 )
 
 // tiffLevel is one resolution of the image: the full raster (level 0) or an
@@ -156,12 +156,13 @@ func tiffCompressJobs(jobs []tiffTileJob, opt TIFFOptions) error {
 	type state struct {
 		raw []byte
 		out bytes.Buffer
-		zw  *zlib.Writer
+		zw  *flate.Writer
 		err error
 	}
+	head := zlibHeader(opt.Level)
 	states := make([]*state, max(workers, 1))
 	for i := range states {
-		zw, err := zlib.NewWriterLevel(nil, opt.Level)
+		zw, err := flate.NewWriter(nil, opt.Level)
 		if err != nil {
 			return fmt.Errorf("geotiff: deflate level %d: %w", opt.Level, err)
 		}
@@ -187,13 +188,7 @@ func tiffCompressJobs(jobs []tiffTileJob, opt TIFFOptions) error {
 		} else {
 			tiffFillByteTile(j.src, t, j.tx, j.ty, img.nodataU, img.predictor == 2, raw)
 		}
-		s.out.Reset()
-		s.zw.Reset(&s.out)
-		if _, err := s.zw.Write(raw); err != nil {
-			s.err = fmt.Errorf("geotiff: compress tile %d of level %d: %w", j.slot, j.li, err)
-			return
-		}
-		if err := s.zw.Close(); err != nil {
+		if err := zlibCompress(s.zw, head, raw, &s.out); err != nil {
 			s.err = fmt.Errorf("geotiff: compress tile %d of level %d: %w", j.slot, j.li, err)
 			return
 		}
