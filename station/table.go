@@ -51,6 +51,7 @@ type Table struct {
 	gate *tableGate
 	fast int      // physical lines consumed by the fast path (csv does not count them)
 	rec  [][]byte // fields of the last record from nextFields (trimmed)
+	size int64    // bytes of the input, when it could be told (0 otherwise)
 }
 
 // OpenTable opens the file at path and reads its header. Errors name the file.
@@ -64,14 +65,31 @@ func OpenTable(path string) (*Table, error) {
 		f.Close()
 		return nil, err
 	}
+	if st, err := f.Stat(); err == nil {
+		t.size = st.Size()
+	}
 	return t, nil
+}
+
+// rowsHint guesses the number of data rows from the input's size (a row of
+// an id, a latitude, a longitude and a value takes 30 bytes or more), to
+// size tables ahead: 1024 when the size is unknown, at most 1<<20.
+func (t *Table) rowsHint() int {
+	if t.size == 0 {
+		return 1024
+	}
+	return int(min(t.size/30, 1<<20))
 }
 
 // NewTable reads a table from r (for tests and fuzzing); name is used in
 // error messages. The caller closes r if it needs closing; Close releases only
 // what NewTable opened (a gzip reader).
 func NewTable(name string, r io.Reader) (*Table, error) {
-	return newTable(name, r, nil)
+	t, err := newTable(name, r, nil)
+	if l, ok := r.(interface{ Len() int }); ok && err == nil {
+		t.size = int64(l.Len()) // a bytes or strings reader: what is left of it, roughly the size
+	}
+	return t, err
 }
 
 func newTable(name string, r io.Reader, c io.Closer) (*Table, error) {

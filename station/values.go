@@ -134,7 +134,12 @@ type valuesSite struct {
 	st         Station
 	sumZ, sumV float64
 	n          int
+	next       int32 // the next site of the same point cell, -1 for none
 }
+
+// valuesCell is the first and last site of a point cell (valuesKey); the
+// sites between follow valuesSite.next, in file order.
+type valuesCell struct{ first, last int32 }
 
 // valuesRow is the first appearance of an id.
 type valuesRow struct {
@@ -203,9 +208,10 @@ func readValues(t *Table, opt ValueOptions) (*Values, error) {
 		return nil, err
 	}
 	v := &Values{Path: t.Path, Kind: kind, Column: t.ColumnName(valC)}
-	byID := make(map[string]valuesRow)
-	byPoint := make(map[valuesPointKey][]int) // -> indices in sites
-	var sites []*valuesSite
+	hint := t.rowsHint()
+	byID := make(map[string]valuesRow, hint)
+	byPoint := make(map[valuesPointKey]valuesCell, hint)
+	sites := make([]valuesSite, 0, hint)
 	dropped := 0
 	warn := func(format string, args ...any) {
 		if len(v.Warnings) < valuesMaxWarnings {
@@ -288,7 +294,7 @@ func readValues(t *Table, opt ValueOptions) (*Values, error) {
 			z = classes.PercentileToZ(row.value)
 		}
 		if si, ok := valuesFindPoint(byPoint, sites, lat, lon); ok {
-			s := sites[si]
+			s := &sites[si]
 			s.sumZ += z
 			s.sumV += row.value
 			s.n++
@@ -296,11 +302,16 @@ func readValues(t *Table, opt ValueOptions) (*Values, error) {
 			warn("%s line %d: station %s is at the same point as %s (line %d); their values are averaged into one site", t.Path, line, id, s.st.ID, s.st.Line)
 			continue
 		}
-		k := valuesKey(lat, lon)
-		byPoint[k] = append(byPoint[k], len(sites))
-		sites = append(sites, &valuesSite{
+		k, at := valuesKey(lat, lon), int32(len(sites))
+		if c, ok := byPoint[k]; ok {
+			sites[c.last].next = at
+			byPoint[k] = valuesCell{c.first, at}
+		} else {
+			byPoint[k] = valuesCell{at, at}
+		}
+		sites = append(sites, valuesSite{
 			st:   Station{ID: id, Lon: lon, Lat: lat, Value: row.value, Z: z, Line: line},
-			sumZ: z, sumV: row.value, n: 1,
+			sumZ: z, sumV: row.value, n: 1, next: -1,
 		})
 	}
 	v.Stations = make([]Station, len(sites))
@@ -320,7 +331,7 @@ func readValues(t *Table, opt ValueOptions) (*Values, error) {
 
 // valuesFindPoint looks up a site at the same point (1e-9 degree): the cells
 // of the points 1e-9 degree around, and across the antimeridian seam.
-func valuesFindPoint(m map[valuesPointKey][]int, sites []*valuesSite, lat, lon float64) (int, bool) {
+func valuesFindPoint(m map[valuesPointKey]valuesCell, sites []valuesSite, lat, lon float64) (int, bool) {
 	const eps = 1e-9
 	lons := [...]float64{lon - eps, lon + eps, lon - eps + 360, lon + eps - 360}
 	nl := 2
@@ -341,9 +352,10 @@ func valuesFindPoint(m map[valuesPointKey][]int, sites []*valuesSite, lat, lon f
 			}
 			seen[ns] = k
 			ns++
-			for _, i := range m[k] {
+			c, ok := m[k]
+			for i := c.first; ok && i >= 0; i = sites[i].next {
 				if valuesSamePoint(sites[i].st.Lat, sites[i].st.Lon, lat, lon) {
-					return i, true
+					return int(i), true
 				}
 			}
 		}
