@@ -5,8 +5,6 @@ import (
 	"encoding/binary"
 	"fmt"
 	"math"
-
-	"github.com/klauspost/compress/flate"
 )
 
 // tiffLevel is one resolution of the image: the full raster (level 0) or an
@@ -155,14 +153,12 @@ func tiffCompressJobs(jobs []tiffTileJob, opt TIFFOptions) error {
 	workers := min(opt.Workers, len(jobs))
 	type state struct {
 		raw []byte
-		out bytes.Buffer
-		zw  *flate.Writer
+		zw  *zlibEncoder
 		err error
 	}
-	head := zlibHeader(opt.Level)
 	states := make([]*state, max(workers, 1))
 	for i := range states {
-		zw, err := flate.NewWriter(nil, opt.Level)
+		zw, err := newZlibEncoder(opt.Level)
 		if err != nil {
 			return fmt.Errorf("geotiff: deflate level %d: %w", opt.Level, err)
 		}
@@ -188,11 +184,12 @@ func tiffCompressJobs(jobs []tiffTileJob, opt TIFFOptions) error {
 		} else {
 			tiffFillByteTile(j.src, t, j.tx, j.ty, img.nodataU, img.predictor == 2, raw)
 		}
-		if err := zlibCompress(s.zw, head, raw, &s.out); err != nil {
+		z, err := s.zw.encode(raw)
+		if err != nil {
 			s.err = fmt.Errorf("geotiff: compress tile %d of level %d: %w", j.slot, j.li, err)
 			return
 		}
-		j.dst.tiles[j.slot] = bytes.Clone(s.out.Bytes())
+		j.dst.tiles[j.slot] = bytes.Clone(z)
 	})
 	for _, s := range states {
 		if s.err != nil {
