@@ -11,11 +11,9 @@
 package interp
 
 import (
-	"cmp"
 	"errors"
 	"fmt"
 	"math"
-	"slices"
 	"sync"
 
 	"github.com/tidwall/rtree"
@@ -96,18 +94,17 @@ func New(pts []Point, p Params) (*Interpolator, error) {
 		}
 	}
 	n := len(pts)
-	order := make([]int32, n)
+	byLon := make([]keyIndex, n)
 	nl := make([]float64, n)
 	for i := range pts {
-		order[i] = int32(i)
 		nl[i] = normLon(pts[i].Lon)
+		byLon[i] = keyIndex{nl[i], int32(i)}
 	}
-	slices.SortFunc(order, func(a, b int32) int {
-		if c := cmp.Compare(nl[a], nl[b]); c != 0 {
-			return c
-		}
-		return cmp.Compare(a, b)
-	})
+	sortKeyIndex(byLon)
+	order := make([]int32, n)
+	for r, k := range byLon {
+		order[r] = k.i
+	}
 	theta := p.RadiusKm / EarthRadiusKm
 	ch := 2 * math.Sin(theta/2)
 	ip := &Interpolator{
@@ -131,14 +128,14 @@ func New(pts []Point, p Params) (*Interpolator, error) {
 		ip.val[r] = q.Z
 		ip.pts[r] = [2]float64{nl[i], q.Lat}
 	}
-	ip.latRank = make([]int32, n)
-	for r := range ip.latRank {
-		ip.latRank[r] = int32(r)
+	byLat := byLon // reused: (latitude, rank)
+	for r := range byLat {
+		byLat[r] = keyIndex{ip.pts[r][1], int32(r)}
 	}
-	slices.SortFunc(ip.latRank, func(a, b int32) int { return cmp.Compare(ip.pts[a][1], ip.pts[b][1]) })
-	ip.latVal = make([]float64, n)
-	for i, r := range ip.latRank {
-		ip.latVal[i] = ip.pts[r][1]
+	sortKeyIndex(byLat)
+	ip.latRank, ip.latVal = make([]int32, n), make([]float64, n)
+	for i, k := range byLat {
+		ip.latRank[i], ip.latVal[i] = k.i, k.key
 	}
 	return ip, nil
 }
