@@ -81,7 +81,19 @@ type rowWork struct {
 	d2  []float64   // the window kernel's chords squared, four lanes a station
 	kth []uint64    // scratch of kthChord
 	g   windowGroup // the window kernel's call
+	// The window kernel's view of a row's cells: unit vector (without z)
+	// and window (the stations lom1+1 .. him1), per column.
+	colCx, colCy []float64
+	lom1, him1   []int64
 	c   *cands
+}
+
+// resized is s with length n, reallocated when its capacity is short.
+func resized[T any](s []T, n int) []T {
+	if cap(s) < n {
+		return make([]T, n)
+	}
+	return s[:n]
 }
 
 // stationCols are the candidate stations of a row, column by column (the
@@ -231,6 +243,42 @@ func (w *lonWindow) move(l float64) {
 	w.prev = l
 }
 
+// spans puts the windows of the cells at longitudes lons (the row's
+// columns) into lom1 and him1 (the stations lom1[c]+1 .. him1[c]), as move
+// would, and repeats the last into the entries past len(lons).
+func (w *lonWindow) spans(lons []float64, lom1, him1 []int64) {
+	if w.full {
+		for c := range lom1 {
+			lom1[c], him1[c] = -1, int64(len(w.lons)-1)
+		}
+		return
+	}
+	sl := w.lons[:len(w.lons)+1] // with the sentinel
+	lo, hi, prev := w.lo, w.hi, w.prev
+	for c, l := range lons {
+		a, b := l-w.dl-lonEps, l+w.dl+lonEps
+		if l < prev {
+			lo = sort.SearchFloat64s(w.lons, a)
+			hi = lo + sort.Search(len(w.lons)-lo, func(i int) bool { return w.lons[lo+i] > b })
+		} else {
+			lo += b2i(sl[lo] < a)
+			hi += b2i(sl[hi] <= b)
+			for sl[lo] < a {
+				lo++
+			}
+			for sl[hi] <= b {
+				hi++
+			}
+		}
+		prev = l
+		lom1[c], him1[c] = int64(lo-1), int64(hi-1)
+	}
+	w.lo, w.hi, w.prev = lo, hi, prev
+	for c := len(lons); c < len(lom1); c++ {
+		lom1[c], him1[c] = lom1[c-1], him1[c-1]
+	}
+}
+
 // gridRow fills one row of cells at latitude lat; colStep is the longitude
 // step between cell centres.
 func (ip *Interpolator) gridRow(w *rowWork, lat, colStep float64, colLon, colCos, colSin []float64, dst []float32) {
@@ -264,25 +312,29 @@ func (ip *Interpolator) gridRowWindow(w *rowWork, lat float64, colLon, colCos, c
 	c := w.c
 	c.reset(len(win.lons) + 1)
 	st, k, minSt := &w.st, ip.k, ip.p.MinStations
+	// The row's cells and their windows, column by column, with the last
+	// column repeated into the lanes past the row's end.
+	cols := len(dst)
+	w.colCx, w.colCy = resized(w.colCx, cols+windowLanes-1), resized(w.colCy, cols+windowLanes-1)
+	w.lom1, w.him1 = resized(w.lom1, cols+windowLanes-1), resized(w.him1, cols+windowLanes-1)
+	win.spans(colLon, w.lom1, w.him1)
+	for col := range w.colCx {
+		c := min(col, cols-1)
+		w.colCx[col], w.colCy[col] = cp*colCos[c], cp*colSin[c]
+	}
 	g := &w.g
 	g.k, g.d2, g.cz = ip.window, w.d2[:cap(w.d2)], [windowLanes]float64{sp, sp, sp, sp}
-	var lo, hi [windowLanes]int
-	for col0 := 0; col0 < len(dst); col0 += windowLanes {
-		nc := min(windowLanes, len(dst)-col0) // the lanes past the row's end repeat its last cell
-		glo, ghi := len(win.lons), 0
-		for l := range windowLanes {
-			col := col0 + min(l, nc-1)
-			win.move(colLon[col])
-			lo[l], hi[l] = win.lo, win.hi
-			glo, ghi = min(glo, win.lo), max(ghi, win.hi)
-			g.cx[l], g.cy[l] = cp*colCos[col], cp*colSin[col]
-		}
+	for col0 := 0; col0 < cols; col0 += windowLanes {
+		nc := min(windowLanes, cols-col0)
+		lom1, him1 := w.lom1[col0:col0+windowLanes], w.him1[col0:col0+windowLanes]
+		// The union of the windows: they move right along the row, but for
+		// a wrap at the antimeridian.
+		glo := int(min(lom1[0], lom1[1], lom1[2], lom1[3])) + 1
+		ghi := int(max(him1[0], him1[1], him1[2], him1[3])) + 1
 		if ghi-glo < minSt {
 			continue // no data in any of the four
 		}
-		for l := range windowLanes {
-			g.lom1[l], g.him1[l] = int64(lo[l]-glo-1), int64(hi[l]-glo-1)
-		}
+		g.cx, g.cy, g.lom1, g.him1, g.j0 = w.colCx[col0:], w.colCy[col0:], lom1, him1, int64(glo)
 		g.m = ghi - glo
 		g.x, g.y, g.z, g.v = st.x[glo:ghi], st.y[glo:ghi], st.z[glo:ghi], st.v[glo:ghi]
 		g.chords()

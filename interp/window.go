@@ -66,18 +66,21 @@ func newWindowConsts(c2max float64) *windowConsts {
 var exactWeight = 0.5 / exactChordSq
 
 // windowGroup is one call of the kernel: the stations x, y, z, v (m of
-// them, the union of the windows) and, per lane, a cell at the unit vector
-// (cx, cy, cz) whose own window is stations lom1+1 .. him1 of them. The
-// first pass writes d2 (station j, lane l at d2[4j+l]), n and top; the
-// second reads d2 and tau and writes the sums. The layout is the one
-// window_amd64.s reads.
+// them, the union of the windows; station j is number j0+j of the row) and,
+// per lane l, a cell at the unit vector (cx[l], cy[l], cz[l]) whose own
+// window is the row's stations lom1[l]+1 .. him1[l] (cx, cy, lom1 and him1
+// are four entries of the row's columns). The first pass writes d2
+// (station j, lane l at d2[4j+l]), n and top; the second reads d2 and tau
+// and writes the sums. The layout is the one window_amd64.s reads.
 type windowGroup struct {
 	x, y, z, v []float64
 	d2         []float64
 	m          int
 	k          *windowConsts
-	cx, cy, cz [windowLanes]float64
-	lom1, him1 [windowLanes]int64
+	cx, cy     []float64 // at least four
+	lom1, him1 []int64   // at least four
+	j0         int64
+	cz         [windowLanes]float64
 
 	n   [windowLanes]int64              // stations within the radius
 	top [windowTop][windowLanes]float64 // their largest chords squared, largest first (+0 for none)
@@ -114,13 +117,14 @@ func (g *windowGroup) sums() {
 // bits: chords squared are never NaN nor -0).
 func windowChordsGo(g *windowGroup) {
 	x, y, z, d2, k := g.x[:g.m], g.y[:g.m], g.z[:g.m], g.d2[:windowLanes*g.m], g.k
+	_, _, _, _ = g.cx[windowLanes-1], g.cy[windowLanes-1], g.lom1[windowLanes-1], g.him1[windowLanes-1]
 	g.n = [windowLanes]int64{}
 	g.top = [windowTop][windowLanes]float64{}
 	for j := range x {
 		for l := range windowLanes {
 			dx, dy, dz := x[j]-g.cx[l], y[j]-g.cy[l], z[j]-g.cz[l]
 			c2 := chordSq(dx, dy, dz)
-			i := int64(j)
+			i := g.j0 + int64(j)
 			if i <= g.lom1[l] || i > g.him1[l] || !(c2 <= k.c2max[l]) {
 				d2[windowLanes*j+l] = math.Inf(1)
 				continue

@@ -19,8 +19,10 @@ func windowSumsAVX2(grp *windowGroup)
 var hasWindowAVX2 = cpu.X86.HasAVX2 && cpu.X86.HasFMA
 
 // windowChordsVec is the first pass in AVX2, once the slices are known to
-// hold m stations (and d2 four lanes of each).
+// hold m stations (and d2 four lanes of each) and the cells' columns
+// four entries.
 func windowChordsVec(g *windowGroup) {
+	_, _, _, _ = g.cx[windowLanes-1], g.cy[windowLanes-1], g.lom1[windowLanes-1], g.him1[windowLanes-1]
 	if g.m > 0 {
 		_, _, _, _ = g.x[g.m-1], g.y[g.m-1], g.z[g.m-1], g.d2[windowLanes*g.m-1]
 	}

@@ -14,10 +14,11 @@
 // func windowChordsAVX2(grp *windowGroup)
 //
 // windowChordsGo, the four cells in the four lanes, one station a step.
-// Registers: Y12 the station index j in every lane; Y11 the counts (each
-// lane subtracts its mask, -1 where the station counts); Y10 .. Y3 the
-// largest chords, largest first (windowTop = 8). The cells (cx, cy, cz)
-// are read from memory.
+// Registers: Y12 the station's number in the row, j0+j, in every lane;
+// Y11 the counts (each lane subtracts its mask, -1 where the station
+// counts); Y10 .. Y3 the largest chords, largest first (windowTop = 8).
+// The cells (cx at R13, cy at R11, cz) and their windows (lom1 at DX, him1
+// at R10) are read from memory.
 TEXT ·windowChordsAVX2(SB), NOSPLIT, $0-8
 	MOVQ grp+0(FP), R12
 	MOVQ windowGroup_x(R12), AX
@@ -26,7 +27,11 @@ TEXT ·windowChordsAVX2(SB), NOSPLIT, $0-8
 	MOVQ windowGroup_d2(R12), DI
 	MOVQ windowGroup_m(R12), R8
 	MOVQ windowGroup_k(R12), R9
-	VPXOR Y12, Y12, Y12
+	MOVQ windowGroup_cx(R12), R13
+	MOVQ windowGroup_cy(R12), R11
+	MOVQ windowGroup_lom1(R12), DX
+	MOVQ windowGroup_him1(R12), R10
+	VPBROADCASTQ windowGroup_j0(R12), Y12
 	VPXOR Y11, Y11, Y11
 	VXORPD Y10, Y10, Y10
 	VXORPD Y9, Y9, Y9
@@ -44,10 +49,10 @@ chords:
 
 	// c2 = (dx^2 + dy^2) + dz^2, rounded after every operation (chordSq).
 	VBROADCASTSD (AX)(SI*8), Y0
-	VSUBPD windowGroup_cx(R12), Y0, Y0
+	VSUBPD (R13), Y0, Y0
 	VMULPD Y0, Y0, Y0
 	VBROADCASTSD (BX)(SI*8), Y1
-	VSUBPD windowGroup_cy(R12), Y1, Y1
+	VSUBPD (R11), Y1, Y1
 	VMULPD Y1, Y1, Y1
 	VADDPD Y1, Y0, Y0
 	VBROADCASTSD (CX)(SI*8), Y1
@@ -55,10 +60,10 @@ chords:
 	VMULPD Y1, Y1, Y1
 	VADDPD Y1, Y0, Y0
 
-	// Y2 = the lanes where the station counts: lom1 < j, not j > him1,
-	// c2 <= c2max. Count them.
-	VPCMPGTQ windowGroup_lom1(R12), Y12, Y2
-	VPCMPGTQ windowGroup_him1(R12), Y12, Y14
+	// Y2 = the lanes where the station counts: lom1 < j0+j, not j0+j >
+	// him1, c2 <= c2max. Count them.
+	VPCMPGTQ (DX), Y12, Y2
+	VPCMPGTQ (R10), Y12, Y14
 	VPANDN Y2, Y14, Y2
 	VCMPPD $2, windowConsts_c2max(R9), Y0, Y14
 	VANDPD Y14, Y2, Y2

@@ -17,14 +17,16 @@ import (
 // m stations.
 func randomGroup(r *rand.Rand, m int, c float64, k *windowConsts) *windowGroup {
 	lon, lat := r.Float64()*360-180, r.Float64()*160-80
-	g := &windowGroup{m: m, k: k, d2: make([]float64, windowLanes*m)}
+	g := &windowGroup{m: m, k: k, d2: make([]float64, windowLanes*m),
+		cx: make([]float64, windowLanes), cy: make([]float64, windowLanes),
+		lom1: make([]int64, windowLanes), him1: make([]int64, windowLanes), j0: int64(r.IntN(3))}
 	for l := range windowLanes {
 		g.cx[l], g.cy[l], g.cz[l] = unitVector(lon+0.1*float64(l), lat)
 		a, b := r.IntN(m+1), r.IntN(m+1)
 		if r.IntN(3) == 0 {
 			a, b = 0, m
 		}
-		g.lom1[l], g.him1[l] = int64(min(a, b)-1), int64(max(a, b)-1)
+		g.lom1[l], g.him1[l] = g.j0+int64(min(a, b)-1), g.j0+int64(max(a, b)-1)
 	}
 	g.x, g.y, g.z, g.v = make([]float64, m), make([]float64, m), make([]float64, m), make([]float64, m)
 	for j := range m {
@@ -71,8 +73,8 @@ func TestWindowWeightIsGreatCircle(t *testing.T) {
 	c2max := 4 * shortSeriesMaxT
 	g := &windowGroup{m: 1, k: newWindowConsts(c2max), d2: make([]float64, windowLanes),
 		x: make([]float64, 1), y: make([]float64, 1), z: []float64{0}, v: []float64{1},
-		cx: [windowLanes]float64{1, 1, 1, 1}, him1: [windowLanes]int64{0, 0, 0, 0},
-		lom1: [windowLanes]int64{-1, -1, -1, -1}}
+		cx: []float64{1, 1, 1, 1}, cy: make([]float64, windowLanes), him1: []int64{0, 0, 0, 0},
+		lom1: []int64{-1, -1, -1, -1}}
 	for range 20000 {
 		c := math.Sqrt(exactChordSq) * math.Pow(math.Sqrt(c2max/exactChordSq), r.Float64()) * 0.999
 		g.x[0], g.y[0] = 1-c*c/2, c*math.Sqrt(1-c*c/4)
@@ -104,7 +106,7 @@ func TestWindowChordsKeepLargest(t *testing.T) {
 			for j := range g.m {
 				dx, dy, dz := g.x[j]-g.cx[l], g.y[j]-g.cy[l], g.z[j]-g.cz[l]
 				c2 := dx*dx + dy*dy + dz*dz
-				own := int64(j) > g.lom1[l] && int64(j) <= g.him1[l]
+				own := g.j0+int64(j) > g.lom1[l] && g.j0+int64(j) <= g.him1[l]
 				if got := g.d2[windowLanes*j+l]; !own || c2 > k.c2max[l]*(1+1e-12) {
 					if !math.IsInf(got, 1) && !(own && math.Abs(c2-k.c2max[l]) < 1e-15) {
 						t.Fatalf("trial %d lane %d station %d: d2 %v, outside", trial, l, j, got)
