@@ -85,7 +85,7 @@ type rowWork struct {
 	// and window (the stations lom1+1 .. him1), per column.
 	colCx, colCy []float64
 	lom1, him1   []int64
-	c   *cands
+	c            *cands
 }
 
 // resized is s with length n, reallocated when its capacity is short.
