@@ -286,7 +286,7 @@ func (ip *Interpolator) gridRow(w *rowWork, lat, colStep float64, colLon, colCos
 	case ip.p.Sectors > 0:
 		ip.gridRowSectors(w, lat, colLon, colCos, colSin, dst) // sectors.go
 	case ip.fast && ip.c2max/4 <= shortSeriesMaxT:
-		ip.gridRowWindow(w, lat, colLon, colCos, colSin, dst)
+		ip.gridRowWindow(w, lat, colStep, colLon, colCos, colSin, dst)
 	default:
 		ip.gridRowCands(w, lat, colStep, colLon, colCos, colSin, dst)
 	}
@@ -299,7 +299,7 @@ func (ip *Interpolator) gridRow(w *rowWork, lat, colStep float64, colLon, colCos
 // chord) is the kernel's weighted mean over that chord; any other (a tie at
 // the k-th distance, a station within 1 m) goes through the candidate list
 // as in gridRowCands.
-func (ip *Interpolator) gridRowWindow(w *rowWork, lat float64, colLon, colCos, colSin []float64, dst []float32) {
+func (ip *Interpolator) gridRowWindow(w *rowWork, lat, colStep float64, colLon, colCos, colSin []float64, dst []float32) {
 	win, ok := ip.rowStations(w, lat)
 	if !ok {
 		return // already no data
@@ -324,6 +324,15 @@ func (ip *Interpolator) gridRowWindow(w *rowWork, lat float64, colLon, colCos, c
 	}
 	g := &w.g
 	g.k, g.d2, g.cz = ip.window, w.d2[:cap(w.d2)], [windowLanes]float64{sp, sp, sp, sp}
+	// The k-th chord of a cell bounds that of a cell i columns on by its
+	// square root plus i delta (delta: the chord between neighbouring cell
+	// centres; the triangle inequality): the kernel's first pass then
+	// counts only the stations within that limit, among which are the k
+	// nearest, and kthChord looks only at the chords within the bound from
+	// the cell before. prevTau is the previous cell's k-th chord squared,
+	// -1 when it had fewer than k stations within the radius.
+	delta := 2 * cp * math.Sin(colStep*degToRad/2) * (1 + 1e-9)
+	prevTau := -1.0
 	for col0 := 0; col0 < cols; col0 += windowLanes {
 		nc := min(windowLanes, cols-col0)
 		lom1, him1 := w.lom1[col0:col0+windowLanes], w.him1[col0:col0+windowLanes]
@@ -332,30 +341,60 @@ func (ip *Interpolator) gridRowWindow(w *rowWork, lat float64, colLon, colCos, c
 		glo := int(min(lom1[0], lom1[1], lom1[2], lom1[3])) + 1
 		ghi := int(max(him1[0], him1[1], him1[2], him1[3])) + 1
 		if ghi-glo < minSt {
+			prevTau = -1
 			continue // no data in any of the four
 		}
 		g.cx, g.cy, g.lom1, g.him1, g.j0 = w.colCx[col0:], w.colCy[col0:], lom1, him1, int64(glo)
 		g.m = ghi - glo
 		g.x, g.y, g.z, g.v = st.x[glo:ghi], st.y[glo:ghi], st.z[glo:ghi], st.v[glo:ghi]
+		for l := range windowLanes {
+			g.lim[l] = ip.c2max
+			if prevTau >= 0 {
+				u := math.Sqrt(prevTau) + float64(l+1)*delta
+				g.lim[l] = min(ip.c2max, u*u*(1+1e-12))
+			}
+		}
 		g.chords()
+		for l := range nc {
+			if int(g.n[l]) < k && g.lim[l] < ip.c2max {
+				// Fewer than k within the limit: the triangle inequality
+				// says this cannot be; to be safe, the radius again.
+				g.lim = [windowLanes]float64{ip.c2max, ip.c2max, ip.c2max, ip.c2max}
+				g.chords()
+				break
+			}
+		}
 		any := false
 		for l := range nc {
 			n := int(g.n[l])
+			bound := math.Inf(1)
+			if prevTau >= 0 {
+				u := math.Sqrt(prevTau) + delta
+				bound = u * u * (1 + 1e-12)
+			}
+			prevTau = -1
 			switch {
 			case n < minSt:
 				g.tau[l] = -1 // no data: counts nothing
 				continue
-			case n <= k:
+			case n < k:
 				g.tau[l] = ip.c2max
+			case n == k:
+				g.tau[l], prevTau = ip.c2max, g.top[0][l]
 			case n-k < windowTop:
 				g.tau[l] = g.top[n-k][l]
+				prevTau = g.tau[l]
 			default:
-				g.tau[l] = kthChord(g.d2, l, g.m, k, w.kth)
+				g.tau[l] = kthChord(g.d2, l, g.m, k, bound, w.kth)
+				prevTau = g.tau[l]
 			}
 			any = true
 		}
 		if !any {
 			continue
+		}
+		if nc < windowLanes {
+			prevTau = -1 // the row's end
 		}
 		g.sums()
 		for l := range nc {

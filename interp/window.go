@@ -13,10 +13,11 @@ import "math"
 // from the first cell's window start to the last cell's window end):
 //
 //   - windowChords: the chord squared from each cell to each station, kept
-//     where the station is in that cell's own window and within the radius
-//     (+Inf elsewhere); per cell the count and the windowTop largest of
-//     those chords, from which the k-th smallest follows when there are at
-//     most k+windowTop-1.
+//     where the station is in that cell's own window and within the cell's
+//     limit, the radius or a chord known to hold its k nearest (+Inf
+//     elsewhere); per cell the count and the windowTop largest of those
+//     chords, from which the k-th smallest follows when there are at most
+//     k+windowTop-1.
 //   - windowSums: per cell, over the stations within its own chord tau (the
 //     radius, or the k-th chord), Shepard's sums, the count and the
 //     smallest and largest value.
@@ -81,6 +82,7 @@ type windowGroup struct {
 	lom1, him1 []int64   // at least four
 	j0         int64
 	cz         [windowLanes]float64
+	lim        [windowLanes]float64 // the first pass's chord squared: the radius, or less
 
 	n   [windowLanes]int64              // stations within the radius
 	top [windowTop][windowLanes]float64 // their largest chords squared, largest first (+0 for none)
@@ -116,7 +118,7 @@ func (g *windowGroup) sums() {
 // maxima and minima (exact, so any order of the operands gives the same
 // bits: chords squared are never NaN nor -0).
 func windowChordsGo(g *windowGroup) {
-	x, y, z, d2, k := g.x[:g.m], g.y[:g.m], g.z[:g.m], g.d2[:windowLanes*g.m], g.k
+	x, y, z, d2 := g.x[:g.m], g.y[:g.m], g.z[:g.m], g.d2[:windowLanes*g.m]
 	_, _, _, _ = g.cx[windowLanes-1], g.cy[windowLanes-1], g.lom1[windowLanes-1], g.him1[windowLanes-1]
 	g.n = [windowLanes]int64{}
 	g.top = [windowTop][windowLanes]float64{}
@@ -125,7 +127,7 @@ func windowChordsGo(g *windowGroup) {
 			dx, dy, dz := x[j]-g.cx[l], y[j]-g.cy[l], z[j]-g.cz[l]
 			c2 := chordSq(dx, dy, dz)
 			i := g.j0 + int64(j)
-			if i <= g.lom1[l] || i > g.him1[l] || !(c2 <= k.c2max[l]) {
+			if i <= g.lom1[l] || i > g.him1[l] || !(c2 <= g.lim[l]) {
 				d2[windowLanes*j+l] = math.Inf(1)
 				continue
 			}
@@ -200,17 +202,21 @@ func maxLane(a, b float64) float64 {
 
 // kthChord is the k-th smallest of the finite chords squared of lane l in
 // d2 (m stations, four lanes each), when more than k are, found in scratch
-// (at least m long): it drops the largest until k are left. Chords squared
-// are never NaN nor -0, so their bits order as their values (maxD2), and an
-// integer maximum chooses without a branch.
-func kthChord(d2 []float64, l, m, k int, scratch []uint64) float64 {
+// (at least m long). bound is an upper bound of it (+Inf for none): only
+// the chords within it are looked at, then the largest are dropped until
+// k are left. Chords squared are never NaN nor -0, so their bits order as
+// their values (maxD2), and an integer maximum chooses without a branch.
+func kthChord(d2 []float64, l, m, k int, bound float64, scratch []uint64) float64 {
 	b := scratch[:m]
 	n := 0
-	inf := math.Float64bits(math.Inf(1))
+	inf, lim := math.Float64bits(math.Inf(1)), math.Float64bits(bound)
 	for j := range m {
 		u := math.Float64bits(d2[windowLanes*j+l])
 		b[n] = u
-		n += b2i(u != inf)
+		n += b2i(u != inf && u <= lim)
+	}
+	if n < k { // the bound was not one (cannot happen, but to be safe)
+		return kthChord(d2, l, m, k, math.Inf(1), scratch)
 	}
 	b = b[:n]
 	for len(b) > k {

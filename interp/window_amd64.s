@@ -61,11 +61,11 @@ chords:
 	VADDPD Y1, Y0, Y0
 
 	// Y2 = the lanes where the station counts: lom1 < j0+j, not j0+j >
-	// him1, c2 <= c2max. Count them.
+	// him1, c2 <= lim. Count them.
 	VPCMPGTQ (DX), Y12, Y2
 	VPCMPGTQ (R10), Y12, Y14
 	VPANDN Y2, Y14, Y2
-	VCMPPD $2, windowConsts_c2max(R9), Y0, Y14
+	VCMPPD $2, windowGroup_lim(R12), Y0, Y14
 	VANDPD Y14, Y2, Y2
 	VPSUBQ Y2, Y11, Y11
 	VPADDQ windowConsts_step(R9), Y12, Y12

@@ -21,6 +21,12 @@ func randomGroup(r *rand.Rand, m int, c float64, k *windowConsts) *windowGroup {
 		cx: make([]float64, windowLanes), cy: make([]float64, windowLanes),
 		lom1: make([]int64, windowLanes), him1: make([]int64, windowLanes), j0: int64(r.IntN(3))}
 	for l := range windowLanes {
+		g.lim[l] = k.c2max[l]
+		if r.IntN(3) == 0 {
+			g.lim[l] *= r.Float64() // a chord known to hold the k nearest
+		}
+	}
+	for l := range windowLanes {
 		g.cx[l], g.cy[l], g.cz[l] = unitVector(lon+0.1*float64(l), lat)
 		a, b := r.IntN(m+1), r.IntN(m+1)
 		if r.IntN(3) == 0 {
@@ -75,6 +81,7 @@ func TestWindowWeightIsGreatCircle(t *testing.T) {
 		x: make([]float64, 1), y: make([]float64, 1), z: []float64{0}, v: []float64{1},
 		cx: []float64{1, 1, 1, 1}, cy: make([]float64, windowLanes), him1: []int64{0, 0, 0, 0},
 		lom1: []int64{-1, -1, -1, -1}}
+	g.lim = g.k.c2max
 	for range 20000 {
 		c := math.Sqrt(exactChordSq) * math.Pow(math.Sqrt(c2max/exactChordSq), r.Float64()) * 0.999
 		g.x[0], g.y[0] = 1-c*c/2, c*math.Sqrt(1-c*c/4)
@@ -107,8 +114,8 @@ func TestWindowChordsKeepLargest(t *testing.T) {
 				dx, dy, dz := g.x[j]-g.cx[l], g.y[j]-g.cy[l], g.z[j]-g.cz[l]
 				c2 := dx*dx + dy*dy + dz*dz
 				own := g.j0+int64(j) > g.lom1[l] && g.j0+int64(j) <= g.him1[l]
-				if got := g.d2[windowLanes*j+l]; !own || c2 > k.c2max[l]*(1+1e-12) {
-					if !math.IsInf(got, 1) && !(own && math.Abs(c2-k.c2max[l]) < 1e-15) {
+				if got := g.d2[windowLanes*j+l]; !own || c2 > g.lim[l]*(1+1e-12) {
+					if !math.IsInf(got, 1) && !(own && math.Abs(c2-g.lim[l]) < 1e-15) {
 						t.Fatalf("trial %d lane %d station %d: d2 %v, outside", trial, l, j, got)
 					}
 				} else if math.Abs(got-c2) > 1e-15 {
@@ -132,7 +139,7 @@ func TestWindowChordsKeepLargest(t *testing.T) {
 				}
 			}
 			if n := len(in); n > 12 {
-				if got, want := kthChord(g.d2, l, g.m, 12, make([]uint64, g.m)), in[11]; got != want {
+				if got, want := kthChord(g.d2, l, g.m, 12, math.Inf(1), make([]uint64, g.m)), in[11]; got != want {
 					t.Fatalf("trial %d lane %d: kthChord %v, sorted %v", trial, l, got, want)
 				}
 			}
