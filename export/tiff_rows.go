@@ -170,7 +170,8 @@ type tiffRowState struct {
 	// the overview row being built and the tile row being filled.
 	fov  []*tiffMeanAcc
 	bov  []*tiffModeAcc
-	list []tiffTileJob // tiles of the current block
+	list []tiffTileJob   // tiles of the current block
+	comp tiffCompressors // their compressors, kept from block to block
 
 	spillDir string   // where to spill ("": never)
 	inMemory int64    // bytes of compressed tiles kept in memory
@@ -388,7 +389,7 @@ func (st *tiffRowState) block(b tiffBlock, u8 []uint8) error {
 			}
 		}
 	}
-	if err := tiffCompressJobs(st.list, st.opt); err != nil {
+	if err := tiffCompressJobs(st.list, st.opt, &st.comp); err != nil {
 		return err
 	}
 	return st.spillTiles()

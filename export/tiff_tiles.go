@@ -128,7 +128,7 @@ func tiffCompressTiles(levels []*tiffLevel, img *tiffImage, opt TIFFOptions) err
 			}
 		}
 	}
-	return tiffCompressJobs(jobs, opt)
+	return tiffCompressJobs(jobs, opt, nil)
 }
 
 // tiffTileJob is one tile to compress: tile (tx, ty) of the pixels in src,
@@ -142,31 +142,58 @@ type tiffTileJob struct {
 	slot     int
 }
 
+// tiffCompressors are the per-goroutine states of tiffCompressJobs (a tile
+// buffer and a zlib encoder), kept between calls by the row encoders so
+// that each block of rows does not allocate them again.
+type tiffCompressors struct {
+	level, tile int
+	states      []*tiffCompressor
+}
+
+type tiffCompressor struct {
+	raw []byte
+	zw  *zlibEncoder
+	err error
+}
+
+// get returns n states for opt, made or reused.
+func (c *tiffCompressors) get(n int, opt TIFFOptions) ([]*tiffCompressor, error) {
+	if c.level != opt.Level || c.tile != opt.TileSize {
+		*c = tiffCompressors{level: opt.Level, tile: opt.TileSize}
+	}
+	for len(c.states) < n {
+		zw, err := newZlibEncoder(opt.Level)
+		if err != nil {
+			return nil, fmt.Errorf("geotiff: deflate level %d: %w", opt.Level, err)
+		}
+		c.states = append(c.states, &tiffCompressor{raw: make([]byte, opt.TileSize*opt.TileSize*4), zw: zw})
+	}
+	for _, s := range c.states[:n] {
+		s.err = nil
+	}
+	return c.states[:n], nil
+}
+
 // tiffCompressJobs fills and compresses the tiles of jobs on opt.Workers
-// goroutines. Each tile is always compressed alone by one goroutine with a
-// fresh stream, so the bytes do not depend on the number of workers.
-func tiffCompressJobs(jobs []tiffTileJob, opt TIFFOptions) error {
+// goroutines, with states from cache (nil: made for this call). Each tile
+// is always compressed alone by one goroutine with a fresh stream, so the
+// bytes do not depend on the number of workers.
+func tiffCompressJobs(jobs []tiffTileJob, opt TIFFOptions, cache *tiffCompressors) error {
 	if len(jobs) == 0 {
 		return nil
 	}
 	t := opt.TileSize
 	workers := min(opt.Workers, len(jobs))
-	type state struct {
-		raw []byte
-		zw  *zlibEncoder
-		err error
+	if cache == nil {
+		cache = &tiffCompressors{}
 	}
-	states := make([]*state, max(workers, 1))
-	for i := range states {
-		zw, err := newZlibEncoder(opt.Level)
-		if err != nil {
-			return fmt.Errorf("geotiff: deflate level %d: %w", opt.Level, err)
-		}
-		states[i] = &state{raw: make([]byte, t*t*4), zw: zw}
+	states, err := cache.get(max(workers, 1), opt)
+	if err != nil {
+		return err
 	}
 	// Each worker takes jobs from a shared counter; cogParallel gives every
 	// index to one call, and the worker's state is picked per goroutine.
-	var stateFor = make(chan *state, len(states))
+	var stateFor = make(chan *tiffCompressor, len(states))
 	for _, s := range states {
 		stateFor <- s
 	}

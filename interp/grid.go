@@ -49,7 +49,8 @@ func (ip *Interpolator) rows(spec grid.Spec, row0, n int, dst []float32, progres
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			w := ip.newRowWork()
+			w := ip.getRowWork()
+			defer ip.work.Put(w)
 			for {
 				i := int(next.Add(1) - 1)
 				if i >= n {
@@ -120,6 +121,15 @@ func (s *stationCols) set(i int, x, y, z, v float64, rk int32) {
 // window is stations lo .. hi-1.
 func (s *stationCols) window(lo, hi int) stationCols {
 	return stationCols{s.x[lo:hi], s.y[lo:hi], s.z[lo:hi], s.v[lo:hi], s.rk[lo:hi]}
+}
+
+// getRowWork is a worker's scratch space, kept from an earlier call (Rows
+// asks for it once a block of rows) or new.
+func (ip *Interpolator) getRowWork() *rowWork {
+	if w, ok := ip.work.Get().(*rowWork); ok {
+		return w
+	}
+	return ip.newRowWork()
 }
 
 func (ip *Interpolator) newRowWork() *rowWork {

@@ -42,6 +42,7 @@ type Interpolator struct {
 	fast     bool          // power 2 and c2max <= 0.01: the series path of estimate
 	k        int           // Neighbors, at most the number of stations (sizes the buffers)
 	window   *windowConsts // the window kernel's constants (window.go)
+	work     sync.Pool     // *rowWork kept between calls of Grid and Rows
 
 	// Stations in longitude order (rank r), ties by input order.
 	lon     []float64
