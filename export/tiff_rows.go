@@ -2,6 +2,7 @@ package export
 
 import (
 	"bufio"
+	"cmp"
 	"errors"
 	"fmt"
 	"io"
@@ -168,10 +169,11 @@ type tiffRowState struct {
 	classify bool // band codes are needed (bands wanted or OnBandRows)
 	// Per overview level k (factor 2<<k): the mean and mode accumulators of
 	// the overview row being built and the tile row being filled.
-	fov  []*tiffMeanAcc
-	bov  []*tiffModeAcc
-	list []tiffTileJob   // tiles of the current block
-	comp tiffCompressors // their compressors, kept from block to block
+	fov      []*tiffMeanAcc
+	bov      []*tiffModeAcc
+	list     []tiffTileJob   // tiles of the current block
+	comp     tiffCompressors // their compressors, kept from block to block
+	compFull tiffCompressors // those of the index's full-resolution tiles
 
 	spillDir string   // where to spill ("": never)
 	inMemory int64    // bytes of compressed tiles kept in memory
@@ -359,8 +361,16 @@ func (st *tiffRowState) block(b tiffBlock, u8 []uint8) error {
 	}
 	st.list = st.list[:0]
 	last := b.row0+b.n == st.spec.Rows
-	if st.fimg != nil {
+	// The index's full-resolution tiles are compressed while this
+	// goroutine folds the block into the overviews and classifies it (at
+	// the end of the raster nothing else would keep the other cores busy).
+	full := make(chan error, 1)
+	if st.fimg == nil {
+		full <- nil
+	} else {
 		st.addJobs(st.fimg, 0, &tiffLevel{cols: cols, rows: b.n, f32: b.f32}, ty)
+		jobs := st.list[:len(st.list):len(st.list)]
+		go func() { full <- tiffCompressJobs(jobs, st.opt, &st.compFull) }()
 		for y := range b.n {
 			row := b.f32[y*cols : (y+1)*cols]
 			for k, acc := range st.fov {
@@ -389,7 +399,12 @@ func (st *tiffRowState) block(b tiffBlock, u8 []uint8) error {
 			}
 		}
 	}
-	if err := tiffCompressJobs(st.list, st.opt, &st.comp); err != nil {
+	nFull := 0
+	if st.fimg != nil {
+		nFull = st.fimg.levels[0].tilesAcross(st.t)
+	}
+	errRest := tiffCompressJobs(st.list[nFull:], st.opt, &st.comp)
+	if err := cmp.Or(<-full, errRest); err != nil {
 		return err
 	}
 	return st.spillTiles()
