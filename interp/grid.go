@@ -342,6 +342,7 @@ func (ip *Interpolator) gridRowWindow(w *rowWork, lat, colStep float64, colLon, 
 	// the cell before. prevTau is the previous cell's k-th chord squared,
 	// -1 when it had fewer than k stations within the radius.
 	delta := 2 * cp * math.Sin(colStep*degToRad/2) * (1 + 1e-9)
+	g.delta = delta
 	prevTau := -1.0
 	for col0 := 0; col0 < cols; col0 += windowLanes {
 		nc := min(windowLanes, cols-col0)
@@ -357,19 +358,16 @@ func (ip *Interpolator) gridRowWindow(w *rowWork, lat, colStep float64, colLon, 
 		g.cx, g.cy, g.lom1, g.him1, g.j0 = w.colCx[col0:], w.colCy[col0:], lom1, him1, int64(glo)
 		g.m = ghi - glo
 		g.x, g.y, g.z, g.v = st.x[glo:ghi], st.y[glo:ghi], st.z[glo:ghi], st.v[glo:ghi]
-		for l := range windowLanes {
-			g.lim[l] = ip.c2max
-			if prevTau >= 0 {
-				u := math.Sqrt(prevTau) + float64(l+1)*delta
-				g.lim[l] = min(ip.c2max, u*u*(1+1e-12))
-			}
+		g.u0 = math.Inf(1)
+		if prevTau >= 0 {
+			g.u0 = math.Sqrt(prevTau)
 		}
 		g.chords()
 		for l := range nc {
 			if int(g.n[l]) < k && g.lim[l] < ip.c2max {
 				// Fewer than k within the limit: the triangle inequality
 				// says this cannot be; to be safe, the radius again.
-				g.lim = [windowLanes]float64{ip.c2max, ip.c2max, ip.c2max, ip.c2max}
+				g.u0 = math.Inf(1)
 				g.chords()
 				break
 			}
@@ -380,7 +378,7 @@ func (ip *Interpolator) gridRowWindow(w *rowWork, lat, colStep float64, colLon, 
 			bound := math.Inf(1)
 			if prevTau >= 0 {
 				u := math.Sqrt(prevTau) + delta
-				bound = u * u * (1 + 1e-12)
+				bound = u * u * limSlack
 			}
 			prevTau = -1
 			switch {

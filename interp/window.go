@@ -46,6 +46,7 @@ const windowTop = 8
 type windowConsts struct {
 	c2max, posInf, one, r1, r2, r3, r4 [windowLanes]float64
 	step                               [windowLanes]int64
+	lanes                              [windowLanes]float64 // 1, 2, 3, 4: columns from the cell before the group
 }
 
 func newWindowConsts(c2max float64) *windowConsts {
@@ -55,9 +56,14 @@ func newWindowConsts(c2max float64) *windowConsts {
 		// -1/3, -1/15, -31/945, -289/14175 times 4^-n (exact).
 		k.r1[l], k.r2[l], k.r3[l], k.r4[l] = -1.0/3/4, -1.0/15/16, -31.0/945/64, -289.0/14175/256
 		k.step[l] = 1
+		k.lanes[l] = float64(l + 1)
 	}
 	return k
 }
+
+// limSlack widens a limit from the triangle inequality by far more than
+// the rounding of the chords.
+const limSlack = 1 + 1e-12
 
 // exactWeight bounds the sum of weights of a cell with a station within
 // 1 m from below: that station's weight alone is about 1/exactChordSq (the
@@ -82,7 +88,13 @@ type windowGroup struct {
 	lom1, him1 []int64   // at least four
 	j0         int64
 	cz         [windowLanes]float64
-	lim        [windowLanes]float64 // the first pass's chord squared: the radius, or less
+	// The first pass's limit: lane l counts the stations within the chord
+	// squared lim[l] = min(c2max, (u0 + (l+1) delta)^2 (1 + 1e-12)), for u0
+	// the k-th chord of the cell before the group (+Inf for none) and delta
+	// the chord between neighbouring cells (see gridRowWindow). The pass
+	// writes lim.
+	u0, delta float64
+	lim       [windowLanes]float64
 
 	n   [windowLanes]int64              // stations within the radius
 	top [windowTop][windowLanes]float64 // their largest chords squared, largest first (+0 for none)
@@ -118,10 +130,14 @@ func (g *windowGroup) sums() {
 // maxima and minima (exact, so any order of the operands gives the same
 // bits: chords squared are never NaN nor -0).
 func windowChordsGo(g *windowGroup) {
-	x, y, z, d2 := g.x[:g.m], g.y[:g.m], g.z[:g.m], g.d2[:windowLanes*g.m]
+	x, y, z, d2, k := g.x[:g.m], g.y[:g.m], g.z[:g.m], g.d2[:windowLanes*g.m], g.k
 	_, _, _, _ = g.cx[windowLanes-1], g.cy[windowLanes-1], g.lom1[windowLanes-1], g.him1[windowLanes-1]
 	g.n = [windowLanes]int64{}
 	g.top = [windowTop][windowLanes]float64{}
+	for l := range windowLanes {
+		u := g.u0 + float64(k.lanes[l]*g.delta)
+		g.lim[l] = minLane(float64(float64(u*u)*limSlack), k.c2max[l])
+	}
 	for j := range x {
 		for l := range windowLanes {
 			dx, dy, dz := x[j]-g.cx[l], y[j]-g.cy[l], z[j]-g.cz[l]

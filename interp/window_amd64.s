@@ -11,14 +11,18 @@
 // MAXPD(B, A) (B if B > A, else A), VFMADD231PD A, B, D is D = B*A + D,
 // VFMADD213PD A, B, D is D = B*D + A, VBLENDVPD M, A, B, D is D = M ? A : B.
 
+// limSlack, 1 + 1e-12 (window.go).
+DATA limSlack<>+0(SB)/8, $1.000000000001
+GLOBL limSlack<>(SB), RODATA|NOPTR, $8
+
 // func windowChordsAVX2(grp *windowGroup)
 //
 // windowChordsGo, the four cells in the four lanes, one station a step.
 // Registers: Y12 the station's number in the row, j0+j, in every lane;
 // Y11 the counts (each lane subtracts its mask, -1 where the station
 // counts); Y10 .. Y3 the largest chords, largest first (windowTop = 8).
-// The cells (cx at R13, cy at R11, cz) and their windows (lom1 at DX, him1
-// at R10) are read from memory.
+// Y15 the limits (lim). The cells (cx at R13, cy at R11, cz) and their
+// windows (lom1 at DX, him1 at R10) are read from memory.
 TEXT ·windowChordsAVX2(SB), NOSPLIT, $0-8
 	MOVQ grp+0(FP), R12
 	MOVQ windowGroup_x(R12), AX
@@ -32,6 +36,19 @@ TEXT ·windowChordsAVX2(SB), NOSPLIT, $0-8
 	MOVQ windowGroup_lom1(R12), DX
 	MOVQ windowGroup_him1(R12), R10
 	VPBROADCASTQ windowGroup_j0(R12), Y12
+
+	// lim = MINPD((u0 + lanes delta)^2 slack, c2max), rounded as
+	// windowChordsGo rounds it.
+	VBROADCASTSD windowGroup_delta(R12), Y0
+	VMULPD windowConsts_lanes(R9), Y0, Y0
+	VBROADCASTSD windowGroup_u0(R12), Y1
+	VADDPD Y0, Y1, Y1
+	VMULPD Y1, Y1, Y1
+	VBROADCASTSD limSlack<>(SB), Y0
+	VMULPD Y0, Y1, Y1
+	VMINPD windowConsts_c2max(R9), Y1, Y15
+	VMOVUPD Y15, windowGroup_lim(R12)
+
 	VPXOR Y11, Y11, Y11
 	VXORPD Y10, Y10, Y10
 	VXORPD Y9, Y9, Y9
@@ -65,7 +82,7 @@ chords:
 	VPCMPGTQ (DX), Y12, Y2
 	VPCMPGTQ (R10), Y12, Y14
 	VPANDN Y2, Y14, Y2
-	VCMPPD $2, windowGroup_lim(R12), Y0, Y14
+	VCMPPD $2, Y15, Y0, Y14
 	VANDPD Y14, Y2, Y2
 	VPSUBQ Y2, Y11, Y11
 	VPADDQ windowConsts_step(R9), Y12, Y12

@@ -28,7 +28,7 @@ func TestWindowAsm(t *testing.T) {
 		b.d2 = make([]float64, len(a.d2))
 		windowChordsGo(a)
 		windowChordsVec(&b)
-		if a.n != b.n || !sameBits(a.top[:], b.top[:]) || !sameFloats(a.d2, b.d2) {
+		if a.n != b.n || !sameBits(a.top[:], b.top[:]) || !sameFloats(a.d2, b.d2) || !sameFloats(a.lim[:], b.lim[:]) {
 			t.Fatalf("trial %d (m %d) chords: Go n %v top %v, AVX2 n %v top %v", trial, m, a.n, a.top, b.n, b.top)
 		}
 		for l := range windowLanes {

@@ -20,11 +20,9 @@ func randomGroup(r *rand.Rand, m int, c float64, k *windowConsts) *windowGroup {
 	g := &windowGroup{m: m, k: k, d2: make([]float64, windowLanes*m),
 		cx: make([]float64, windowLanes), cy: make([]float64, windowLanes),
 		lom1: make([]int64, windowLanes), him1: make([]int64, windowLanes), j0: int64(r.IntN(3))}
-	for l := range windowLanes {
-		g.lim[l] = k.c2max[l]
-		if r.IntN(3) == 0 {
-			g.lim[l] *= r.Float64() // a chord known to hold the k nearest
-		}
+	g.u0, g.delta = math.Inf(1), 0.002
+	if r.IntN(2) == 0 { // a chord known to hold the k nearest
+		g.u0 = math.Sqrt(k.c2max[0]) * r.Float64()
 	}
 	for l := range windowLanes {
 		g.cx[l], g.cy[l], g.cz[l] = unitVector(lon+0.1*float64(l), lat)
@@ -80,8 +78,7 @@ func TestWindowWeightIsGreatCircle(t *testing.T) {
 	g := &windowGroup{m: 1, k: newWindowConsts(c2max), d2: make([]float64, windowLanes),
 		x: make([]float64, 1), y: make([]float64, 1), z: []float64{0}, v: []float64{1},
 		cx: []float64{1, 1, 1, 1}, cy: make([]float64, windowLanes), him1: []int64{0, 0, 0, 0},
-		lom1: []int64{-1, -1, -1, -1}}
-	g.lim = g.k.c2max
+		lom1: []int64{-1, -1, -1, -1}, u0: math.Inf(1)}
 	for range 20000 {
 		c := math.Sqrt(exactChordSq) * math.Pow(math.Sqrt(c2max/exactChordSq), r.Float64()) * 0.999
 		g.x[0], g.y[0] = 1-c*c/2, c*math.Sqrt(1-c*c/4)
