@@ -78,6 +78,7 @@ func run(args []string) int {
 }
 
 func main() {
+	adjustStartingHeap()
 	stop := startProfile()
 	code := run(os.Args[1:])
 	stop()
