@@ -101,6 +101,7 @@ func newHashTee(f *os.File) *hashTee {
 func (t *hashTee) Write(p []byte) (int, error) {
 	t.in <- p
 	n, err := t.f.Write(p)
+	startWriteback(t.f, t.n, int64(n))
 	<-t.done
 	t.n += int64(n)
 	return n, err

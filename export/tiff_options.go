@@ -30,7 +30,7 @@ type TIFFOptions struct {
 	Software string
 	// SpillDir, when not empty, is where the row encoders
 	// (EncodeIndexTIFFRows, EncodeIndexBandsTIFFRows) keep the compressed
-	// tiles beyond the first 64 MiB until the header can be written: a
+	// tiles beyond the first 32 MiB until the header can be written: a
 	// temporary file, removed at the end, instead of memory. The Write...Rows functions spill next to
 	// their output when it is empty. The whole-raster encoders ignore it.
 	// The output bytes do not depend on it.

@@ -187,7 +187,7 @@ type tiffRowState struct {
 // a global 0.1 degree index COG (25 MB) needs no file, a larger raster
 // spills all but its first tiles. A variable so that tests can spill
 // from the first tile.
-var tiffMemoryTiles int64 = 64 << 20
+var tiffMemoryTiles int64 = 32 << 20
 
 func newTiffRowState(spec grid.Spec, nodata float32, s *classes.Scheme, wantIndex, wantBands bool, opt TIFFOptions) (*tiffRowState, error) {
 	st := &tiffRowState{spec: spec, t: opt.TileSize, nodata: nodata, opt: opt, spillDir: opt.SpillDir}
