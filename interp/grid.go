@@ -226,64 +226,47 @@ type lonWindow struct {
 
 // move puts the window on the cell at longitude l.
 func (w *lonWindow) move(l float64) {
-	if w.full {
-		return
+	if !w.full {
+		w.lo, w.hi = w.at(l, w.lo, w.hi)
+		w.prev = l
 	}
+}
+
+// at is the window [lo, hi) of the cell at longitude l, from the window
+// lo0, hi0 of the cell at w.prev: searched for when l is west of it, else
+// stepped. The window moves by a station or none from one cell to the
+// next, most of the time: one step without a branch, then a loop that is
+// seldom entered. lons[len(lons)] is the sentinel.
+func (w *lonWindow) at(l float64, lo0, hi0 int) (lo, hi int) {
 	a, b := l-w.dl-lonEps, l+w.dl+lonEps
 	lons := w.lons
 	if l < w.prev {
-		w.lo = sort.SearchFloat64s(lons, a)
-		w.hi = w.lo + sort.Search(len(lons)-w.lo, func(i int) bool { return lons[w.lo+i] > b })
-	} else {
-		// The window moves by a station or none from one cell to the
-		// next, most of the time: one step without a branch, then a loop
-		// that is seldom entered. lons[len(lons)] is the sentinel.
-		sl := lons[:len(lons)+1]
-		lo, hi := w.lo, w.hi
-		lo += b2i(sl[lo] < a)
-		hi += b2i(sl[hi] <= b)
-		for sl[lo] < a {
-			lo++
-		}
-		for sl[hi] <= b {
-			hi++
-		}
-		w.lo, w.hi = lo, hi
+		lo = sort.SearchFloat64s(lons, a)
+		return lo, lo + sort.Search(len(lons)-lo, func(i int) bool { return lons[lo+i] > b })
 	}
-	w.prev = l
+	sl := lons[:len(lons)+1]
+	lo, hi = lo0+b2i(sl[lo0] < a), hi0+b2i(sl[hi0] <= b)
+	for sl[lo] < a {
+		lo++
+	}
+	for sl[hi] <= b {
+		hi++
+	}
+	return lo, hi
 }
 
 // spans puts the windows of the cells at longitudes lons (the row's
-// columns) into lom1 and him1 (the stations lom1[c]+1 .. him1[c]), as move
-// would, and repeats the last into the entries past len(lons).
+// columns, from the window's position on) into lom1 and him1 (the stations
+// lom1[c]+1 .. him1[c]), as move would, and repeats the last into the
+// entries past len(lons).
 func (w *lonWindow) spans(lons []float64, lom1, him1 []int64) {
-	if w.full {
-		for c := range lom1 {
-			lom1[c], him1[c] = -1, int64(len(w.lons)-1)
-		}
-		return
-	}
-	sl := w.lons[:len(w.lons)+1] // with the sentinel
-	lo, hi, prev := w.lo, w.hi, w.prev
 	for c, l := range lons {
-		a, b := l-w.dl-lonEps, l+w.dl+lonEps
-		if l < prev {
-			lo = sort.SearchFloat64s(w.lons, a)
-			hi = lo + sort.Search(len(w.lons)-lo, func(i int) bool { return w.lons[lo+i] > b })
-		} else {
-			lo += b2i(sl[lo] < a)
-			hi += b2i(sl[hi] <= b)
-			for sl[lo] < a {
-				lo++
-			}
-			for sl[hi] <= b {
-				hi++
-			}
+		w.move(l)
+		if w.full {
+			w.lo, w.hi = 0, len(w.lons)
 		}
-		prev = l
-		lom1[c], him1[c] = int64(lo-1), int64(hi-1)
+		lom1[c], him1[c] = int64(w.lo-1), int64(w.hi-1)
 	}
-	w.lo, w.hi, w.prev = lo, hi, prev
 	for c := len(lons); c < len(lom1); c++ {
 		lom1[c], him1[c] = lom1[c-1], him1[c-1]
 	}
