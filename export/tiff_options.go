@@ -14,8 +14,8 @@ type TIFFOptions struct {
 	// TileSize is the tile width and height in pixels; 256 when 0. It must be
 	// a multiple of 16 (TIFF 6.0 section 15) and at most 4096.
 	TileSize int
-	// Level is the DEFLATE level: TIFFLevelRuns, or klauspost/compress's
-	// levels 1 (fastest) to 9 (smallest); 0 means DefaultTIFFLevel.
+	// Level is the DEFLATE level, 1 (fastest) to 9 (smallest); 0 means
+	// DefaultTIFFLevel.
 	Level int
 	// Overviews adds internal overviews, halving until the smallest fits in
 	// 512 x 512, in the Cloud Optimized GeoTIFF layout (OGC 21-026).
@@ -47,19 +47,16 @@ type TIFFOptions struct {
 	Metadata map[string]string
 }
 
-// TIFFLevelRuns is the run DEFLATE encoder (deflate_runs.go): byte runs
-// and one Huffman-coded block per tile, about twice as fast as
-// klauspost/compress level 2 on index tiles for about 2 % more bytes.
-const TIFFLevelRuns = -1
-
 // DefaultTIFFLevel is the DEFLATE level used when TIFFOptions.Level is 0:
-// the run encoder. On the global 0.1 deg index of the side-by-side
-// benchmark (20,000 stations) its full-resolution tiles take 18,729,855
-// bytes against 18,423,064 at klauspost level 2, in 0.6 of the time; see
-// BENCHMARKS.md for the whole COG against GDAL's (the DESIGN.md bound is
-// 10 % larger). Level 2 was the default before; level 1 is hardly faster
-// than 2, level 6 costs about 40 % more CPU than 2 for 4 % fewer bytes.
-const DefaultTIFFLevel = TIFFLevelRuns
+// klauspost/compress level 2, a fast level. On the global benchmark field
+// (BenchmarkEncodeIndexTIFFGlobal) it gives 18,988,349 bytes, 6.6 % more than
+// gdal_translate -of COG with DEFLATE and predictor 3 (17,818,644; GDAL's
+// default level 6 with libdeflate), at about a third of GDAL's CPU time.
+// Level 1 is a little faster for 0.6 % more bytes (7.2 % over GDAL, too
+// close to the 10 % bound); level 6 costs about 40 % more CPU for 4 % fewer.
+// (An encoder of byte runs only was twice as fast but 7 % larger on this
+// field, 14 % over GDAL: BENCHMARKS.md.)
+const DefaultTIFFLevel = 2
 
 // TIFFCaution is the caution line written into every GeoTIFF by
 // DefaultTIFFOptions (GDAL_METADATA item CAUTION).
@@ -90,8 +87,8 @@ func tiffNormalize(opt TIFFOptions) (TIFFOptions, error) {
 	if opt.Level == 0 {
 		opt.Level = DefaultTIFFLevel
 	}
-	if opt.Level != TIFFLevelRuns && (opt.Level < zlib.BestSpeed || opt.Level > zlib.BestCompression) {
-		return opt, fmt.Errorf("geotiff: deflate level %d must be TIFFLevelRuns (-1) or between 1 and 9", opt.Level)
+	if opt.Level < zlib.BestSpeed || opt.Level > zlib.BestCompression {
+		return opt, fmt.Errorf("geotiff: deflate level %d must be between 1 and 9", opt.Level)
 	}
 	if opt.Workers <= 0 {
 		opt.Workers = runtime.GOMAXPROCS(0)

@@ -8,39 +8,26 @@ import (
 )
 
 // zlibEncoder makes zlib streams (RFC 1950) of whole buffers: the header,
-// the DEFLATE data (the run encoder for TIFFLevelRuns, else
-// klauspost/compress at the level) and the Adler-32 of the input
-// (adler32Checksum, faster than the zlib writer's hash/adler32). At
-// klauspost's levels the bytes are those of its zlib writer. Reuse one
+// the DEFLATE data from klauspost/compress at the level and the Adler-32 of
+// the input (adler32Checksum, faster than the zlib writer's
+// hash/adler32); the bytes are those of klauspost's zlib writer. Reuse one
 // encoder for many buffers; it is not safe for concurrent use.
 type zlibEncoder struct {
 	head [2]byte
-	kw   *flate.Writer // nil for TIFFLevelRuns
-	runs runDeflater
-	buf  []byte       // the stream, for TIFFLevelRuns
-	out  bytes.Buffer // the stream, for klauspost's levels
+	kw   *flate.Writer
+	out  bytes.Buffer
 }
 
 func newZlibEncoder(level int) (*zlibEncoder, error) {
-	z := &zlibEncoder{head: zlibHeader(level)}
-	if level != TIFFLevelRuns {
-		kw, err := flate.NewWriter(nil, level)
-		if err != nil {
-			return nil, err
-		}
-		z.kw = kw
+	kw, err := flate.NewWriter(nil, level)
+	if err != nil {
+		return nil, err
 	}
-	return z, nil
+	return &zlibEncoder{head: zlibHeader(level), kw: kw}, nil
 }
 
 // encode is the zlib stream of raw, valid until the next call.
 func (z *zlibEncoder) encode(raw []byte) ([]byte, error) {
-	sum := binary.BigEndian.AppendUint32(nil, adler32Checksum(raw))
-	if z.kw == nil {
-		z.buf = z.runs.deflate(append(z.buf[:0], z.head[:]...), raw)
-		z.buf = append(z.buf, sum...)
-		return z.buf, nil
-	}
 	z.out.Reset()
 	z.out.Write(z.head[:])
 	z.kw.Reset(&z.out)
@@ -50,19 +37,18 @@ func (z *zlibEncoder) encode(raw []byte) ([]byte, error) {
 	if err := z.kw.Close(); err != nil {
 		return nil, err
 	}
-	z.out.Write(sum)
+	z.out.Write(binary.BigEndian.AppendUint32(nil, adler32Checksum(raw)))
 	return z.out.Bytes(), nil
 }
 
 // zlibHeader is the two-byte zlib header (RFC 1950, section 2.2) for a
 // DEFLATE stream of the given klauspost/compress level, as its zlib
-// writer makes it: CM 8, CINFO 7 (a 32 KiB window), FLEVEL from the level
-// (0, the fastest, for TIFFLevelRuns), no dictionary, FCHECK making the
-// pair a multiple of 31.
+// writer makes it: CM 8, CINFO 7 (a 32 KiB window), FLEVEL from the level,
+// no dictionary, FCHECK making the pair a multiple of 31.
 func zlibHeader(level int) [2]byte {
 	h := [2]byte{0x78, 0}
 	switch {
-	case level == TIFFLevelRuns || level == -2 || level == 0 || level == 1:
+	case level == -2 || level == 0 || level == 1:
 		h[1] = 0 << 6
 	case level >= 2 && level <= 5:
 		h[1] = 1 << 6
