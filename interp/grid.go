@@ -358,11 +358,7 @@ func (ip *Interpolator) gridRowWindow(w *rowWork, lat, colStep float64, colLon, 
 		any := false
 		for l := range nc {
 			n := int(g.n[l])
-			bound := math.Inf(1)
-			if prevTau >= 0 {
-				u := math.Sqrt(prevTau) + delta
-				bound = u * u * limSlack
-			}
+			prev := prevTau
 			prevTau = -1
 			switch {
 			case n < minSt:
@@ -376,6 +372,11 @@ func (ip *Interpolator) gridRowWindow(w *rowWork, lat, colStep float64, colLon, 
 				g.tau[l] = g.top[n-k][l]
 				prevTau = g.tau[l]
 			default:
+				bound := math.Inf(1)
+				if prev >= 0 {
+					u := math.Sqrt(prev) + delta
+					bound = u * u * limSlack
+				}
 				g.tau[l] = kthChord(g.d2, l, g.m, k, bound, w.kth)
 				prevTau = g.tau[l]
 			}
