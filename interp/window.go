@@ -37,7 +37,7 @@ const windowLanes = 4
 
 // windowTop is how many of the largest chords within the radius the first
 // pass keeps per cell: the k-th smallest of n > k is the (n-k+1)-th largest.
-const windowTop = 8
+const windowTop = 4
 
 // windowConsts are the kernel's constants, each repeated in four lanes for
 // the vector loads: the radius as a chord squared, the weight's series

@@ -20,7 +20,7 @@ GLOBL limSlack<>(SB), RODATA|NOPTR, $8
 // windowChordsGo, the four cells in the four lanes, one station a step.
 // Registers: Y12 the station's number in the row, j0+j, in every lane;
 // Y11 the counts (each lane subtracts its mask, -1 where the station
-// counts); Y10 .. Y3 the largest chords, largest first (windowTop = 8).
+// counts); Y10 .. Y7 the largest chords, largest first (windowTop = 4).
 // Y15 the limits (lim). The cells (cx at R13, cy at R11, cz) and their
 // windows (lom1 at DX, him1 at R10) are read from memory.
 TEXT ·windowChordsAVX2(SB), NOSPLIT, $0-8
@@ -54,10 +54,6 @@ TEXT ·windowChordsAVX2(SB), NOSPLIT, $0-8
 	VXORPD Y9, Y9, Y9
 	VXORPD Y8, Y8, Y8
 	VXORPD Y7, Y7, Y7
-	VXORPD Y6, Y6, Y6
-	VXORPD Y5, Y5, Y5
-	VXORPD Y4, Y4, Y4
-	VXORPD Y3, Y3, Y3
 	XORQ SI, SI
 
 chords:
@@ -100,15 +96,7 @@ chords:
 	VMAXPD Y13, Y9, Y9
 	VMINPD Y1, Y8, Y13
 	VMAXPD Y1, Y8, Y8
-	VMINPD Y13, Y7, Y1
 	VMAXPD Y13, Y7, Y7
-	VMINPD Y1, Y6, Y13
-	VMAXPD Y1, Y6, Y6
-	VMINPD Y13, Y5, Y1
-	VMAXPD Y13, Y5, Y5
-	VMINPD Y1, Y4, Y13
-	VMAXPD Y1, Y4, Y4
-	VMAXPD Y13, Y3, Y3
 
 	INCQ SI
 	ADDQ $32, DI
@@ -120,10 +108,6 @@ chordsDone:
 	VMOVUPD Y9, windowGroup_top+32(R12)
 	VMOVUPD Y8, windowGroup_top+64(R12)
 	VMOVUPD Y7, windowGroup_top+96(R12)
-	VMOVUPD Y6, windowGroup_top+128(R12)
-	VMOVUPD Y5, windowGroup_top+160(R12)
-	VMOVUPD Y4, windowGroup_top+192(R12)
-	VMOVUPD Y3, windowGroup_top+224(R12)
 	VZEROUPPER
 	RET
 
