@@ -476,19 +476,7 @@ func (r *tiffOverviewRows[T]) next(lastRow bool) (rows int, tile []T) {
 }
 
 func (a *tiffMeanAcc) add(row []float32) {
-	f, nd := a.f, a.nodata
-	sums, counts := a.sums, a.counts
-	for ox := range a.oc {
-		x0, x1 := ox*f, min((ox+1)*f, len(row))
-		s, n := sums[ox], counts[ox]
-		for _, v := range row[x0:x1] {
-			if v != nd && v == v {
-				s += float64(v)
-				n++
-			}
-		}
-		sums[ox], counts[ox] = s, n
-	}
+	cogMeanAddRow(row, a.f, a.nodata, a.sums, a.counts)
 	a.in++
 }
 

@@ -312,8 +312,8 @@ func (ip *Interpolator) gridRowWindow(w *rowWork, lat, colStep float64, colLon, 
 	w.lom1, w.him1 = resized(w.lom1, cols+windowLanes-1), resized(w.him1, cols+windowLanes-1)
 	win.spans(colLon, w.lom1, w.him1)
 	for col := range w.colCx {
-		c := min(col, cols-1)
-		w.colCx[col], w.colCy[col] = cp*colCos[c], cp*colSin[c]
+		from := min(col, cols-1)
+		w.colCx[col], w.colCy[col] = cp*colCos[from], cp*colSin[from]
 	}
 	g := &w.g
 	g.k, g.d2, g.cz = ip.window, w.d2[:cap(w.d2)], [windowLanes]float64{sp, sp, sp, sp}

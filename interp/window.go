@@ -6,8 +6,8 @@ import "math"
 // lane, over the stations of their longitude windows. It serves the common
 // case of the grid (power 2, a radius of up to 337 km, no sectors); gridRow
 // falls back to the candidate list for the cells it cannot settle (a tie at
-// the k-th distance, a station within 1 m, or more than k+windowTop-1
-// stations within the radius, where the k-th chord is found apart).
+// the k-th distance, a station within 1 m), and finds the k-th chord with
+// kthChord where more than k+windowTop-1 stations count.
 //
 // It runs in two passes over the union of the four windows (the stations
 // from the first cell's window start to the last cell's window end):
