@@ -52,12 +52,16 @@ func tiffFillFloatTile(l *tiffLevel, t, tx, ty int, nodata float32, buf []byte) 
 		if y < l.rows && x0 < l.cols {
 			n = min(t, l.cols-x0)
 			row := l.f32[y*l.cols+x0 : y*l.cols+x0+n]
+			// The four byte planes as slices of the row's length, so the
+			// loop needs no bounds checks.
+			p0, p1, p2, p3 := out[:n], out[t:t+n], out[2*t:2*t+n], out[3*t:3*t+n]
+			p0, p1, p2, p3 = p0[:len(row)], p1[:len(row)], p2[:len(row)], p3[:len(row)]
 			for j, v := range row {
 				b := math.Float32bits(v)
 				if v != v {
 					b = nd
 				}
-				out[j], out[t+j], out[2*t+j], out[3*t+j] = byte(b>>24), byte(b>>16), byte(b>>8), byte(b)
+				p0[j], p1[j], p2[j], p3[j] = byte(b>>24), byte(b>>16), byte(b>>8), byte(b)
 			}
 		}
 		for j := n; j < t; j++ {
