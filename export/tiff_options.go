@@ -31,9 +31,10 @@ type TIFFOptions struct {
 	// SpillDir, when not empty, is where the row encoders
 	// (EncodeIndexTIFFRows, EncodeIndexBandsTIFFRows) keep the compressed
 	// tiles beyond the first 32 MiB until the header can be written: a
-	// temporary file, removed at the end, instead of memory. The Write...Rows functions spill next to
-	// their output when it is empty. The whole-raster encoders ignore it.
-	// The output bytes do not depend on it.
+	// temporary file, removed at the end, instead of memory. The
+	// Write...Rows functions spill next to their output when it is empty.
+	// The whole-raster encoders ignore it. The output bytes do not depend
+	// on it.
 	SpillDir string
 	// OnBandRows, when not nil, is called by EncodeIndexBandsTIFFRows and
 	// WriteIndexBandsTIFFRows with the band codes of each block of rows

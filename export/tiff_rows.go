@@ -365,11 +365,13 @@ func (st *tiffRowState) block(b tiffBlock, u8 []uint8) error {
 	// goroutine folds the block into the overviews and classifies it (at
 	// the end of the raster nothing else would keep the other cores busy).
 	full := make(chan error, 1)
+	nFull := 0 // jobs at the head of st.list that the goroutine compresses
 	if st.fimg == nil {
 		full <- nil
 	} else {
 		st.addJobs(st.fimg, 0, &tiffLevel{cols: cols, rows: b.n, f32: b.f32}, ty)
-		jobs := st.list[:len(st.list):len(st.list)]
+		nFull = len(st.list)
+		jobs := st.list[:nFull:nFull]
 		go func() { full <- tiffCompressJobs(jobs, st.opt, &st.compFull) }()
 		for y := range b.n {
 			row := b.f32[y*cols : (y+1)*cols]
@@ -398,10 +400,6 @@ func (st *tiffRowState) block(b tiffBlock, u8 []uint8) error {
 				}
 			}
 		}
-	}
-	nFull := 0
-	if st.fimg != nil {
-		nFull = st.fimg.levels[0].tilesAcross(st.t)
 	}
 	errRest := tiffCompressJobs(st.list[nFull:], st.opt, &st.comp)
 	if err := cmp.Or(<-full, errRest); err != nil {

@@ -224,35 +224,33 @@ type lonWindow struct {
 	prev   float64 // the longitude of the last move
 }
 
-// move puts the window on the cell at longitude l.
+// move puts the window on the cell at longitude l: searched for when l is
+// west of the last cell, else stepped. The window moves by a station or
+// none from one cell to the next, most of the time: one step without a
+// branch, then a loop that is seldom entered. lons[len(lons)] is the
+// sentinel.
 func (w *lonWindow) move(l float64) {
-	if !w.full {
-		w.lo, w.hi = w.at(l, w.lo, w.hi)
-		w.prev = l
+	if w.full {
+		return
 	}
-}
-
-// at is the window [lo, hi) of the cell at longitude l, from the window
-// lo0, hi0 of the cell at w.prev: searched for when l is west of it, else
-// stepped. The window moves by a station or none from one cell to the
-// next, most of the time: one step without a branch, then a loop that is
-// seldom entered. lons[len(lons)] is the sentinel.
-func (w *lonWindow) at(l float64, lo0, hi0 int) (lo, hi int) {
 	a, b := l-w.dl-lonEps, l+w.dl+lonEps
 	lons := w.lons
-	if l < w.prev {
-		lo = sort.SearchFloat64s(lons, a)
-		return lo, lo + sort.Search(len(lons)-lo, func(i int) bool { return lons[lo+i] > b })
+	west := l < w.prev
+	w.prev = l
+	if west {
+		w.lo = sort.SearchFloat64s(lons, a)
+		w.hi = w.lo + sort.Search(len(lons)-w.lo, func(i int) bool { return lons[w.lo+i] > b })
+		return
 	}
 	sl := lons[:len(lons)+1]
-	lo, hi = lo0+b2i(sl[lo0] < a), hi0+b2i(sl[hi0] <= b)
+	lo, hi := w.lo+b2i(sl[w.lo] < a), w.hi+b2i(sl[w.hi] <= b)
 	for sl[lo] < a {
 		lo++
 	}
 	for sl[hi] <= b {
 		hi++
 	}
-	return lo, hi
+	w.lo, w.hi = lo, hi
 }
 
 // spans puts the windows of the cells at longitudes lons (the row's
@@ -324,7 +322,7 @@ func (ip *Interpolator) gridRowWindow(w *rowWork, lat, colStep float64, colLon, 
 	// nearest, and kthChord looks only at the chords within the bound from
 	// the cell before. prevTau is the previous cell's k-th chord squared,
 	// -1 when it had fewer than k stations within the radius.
-	delta := 2 * cp * math.Sin(colStep*degToRad/2) * (1 + 1e-9)
+	delta := neighbourChord(cp, colStep)
 	g.delta = delta
 	prevTau := -1.0
 	for col0 := 0; col0 < cols; col0 += windowLanes {
@@ -355,7 +353,7 @@ func (ip *Interpolator) gridRowWindow(w *rowWork, lat, colStep float64, colLon, 
 				break
 			}
 		}
-		any := false
+		active := false // a lane with data
 		for l := range nc {
 			n := int(g.n[l])
 			prev := prevTau
@@ -374,15 +372,14 @@ func (ip *Interpolator) gridRowWindow(w *rowWork, lat, colStep float64, colLon, 
 			default:
 				bound := math.Inf(1)
 				if prev >= 0 {
-					u := math.Sqrt(prev) + delta
-					bound = u * u * limSlack
+					bound = kthBound(prev, delta)
 				}
 				g.tau[l] = kthChord(g.d2, l, g.m, k, bound, w.kth)
 				prevTau = g.tau[l]
 			}
-			any = true
+			active = true
 		}
-		if !any {
+		if !active {
 			continue
 		}
 		if nc < windowLanes {
@@ -406,6 +403,23 @@ func (ip *Interpolator) gridRowWindow(w *rowWork, lat, colStep float64, colLon, 
 			}
 		}
 	}
+}
+
+// neighbourChord is the chord between neighbouring cell centres colStep
+// degrees apart on a row where the cosine of the latitude is cp, a little
+// widened (the triangle-inequality bounds of gridRowCands and
+// gridRowWindow add it).
+func neighbourChord(cp, colStep float64) float64 {
+	return 2 * cp * math.Sin(colStep*degToRad/2) * (1 + 1e-9)
+}
+
+// kthBound bounds the k-th chord squared of a cell by (sqrt(tau) + d)^2,
+// widened by limSlack, for tau the k-th chord squared of a cell d away
+// (triangle inequality): at least k stations lie within it, so the k
+// nearest are among those.
+func kthBound(tau, d float64) float64 {
+	u := math.Sqrt(tau) + d
+	return u * u * limSlack
 }
 
 // gatherWindow puts in cs the stations of win that lane l of the window
@@ -435,8 +449,8 @@ func (ip *Interpolator) gridRowCands(w *rowWork, lat, colStep float64, colLon, c
 	c.reset(len(win.lons) + 1)
 	cs := c.cs
 	k := ip.k
-	kth := -1.0                                                 // k-th chord squared at the previous cell, when it had k or more
-	delta := 2 * cp * math.Sin(colStep*degToRad/2) * (1 + 1e-9) // chord between neighbouring cell centres
+	kth := -1.0 // k-th chord squared at the previous cell, when it had k or more
+	delta := neighbourChord(cp, colStep)
 	for col := range dst {
 		win.move(colLon[col])
 		cx, cy, cz := cp*colCos[col], cp*colSin[col], sp
@@ -448,8 +462,7 @@ func (ip *Interpolator) gridRowCands(w *rowWork, lat, colStep float64, colLon, c
 		st := w.st.window(win.lo, win.hi)
 		thr := c2max
 		if kth >= 0 {
-			u := math.Sqrt(kth) + delta
-			thr = min(c2max, u*u)
+			thr = min(c2max, kthBound(kth, delta))
 		}
 		n := scanWindow(st, cs, cx, cy, cz, thr)
 		if n < k && thr < c2max {
