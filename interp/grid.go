@@ -190,13 +190,13 @@ func (ip *Interpolator) rowStations(w *rowWork, lat float64) (win lonWindow, ok 
 		pre, post = ranks[j:], ranks[:q]
 	}
 	n := len(pre) + len(ranks) + len(post)
-	// One more longitude for a sentinel past the end, so that the window
+	// Two more longitudes for sentinels past the end, so that the window
 	// can move without testing the length (no bound is above +Inf).
-	if cap(w.lon) < n+1 {
-		w.lon = make([]float64, max(n+1, 2*cap(w.lon)))
+	if cap(w.lon) < n+2 {
+		w.lon = make([]float64, max(n+2, 2*cap(w.lon)))
 	}
-	w.lon = w.lon[:n+1]
-	w.lon[n] = math.Inf(1)
+	w.lon = w.lon[:n+2]
+	w.lon[n], w.lon[n+1] = math.Inf(1), math.Inf(1)
 	w.lon = w.lon[:n]
 	w.st.resize(n)
 	at := 0
@@ -256,18 +256,64 @@ func (w *lonWindow) move(l float64) {
 // spans puts the windows of the cells at longitudes lons (the row's
 // columns, from the window's position on) into lom1 and him1 (the stations
 // lom1[c]+1 .. him1[c]), as move would, and repeats the last into the
-// entries past len(lons).
+// entries past len(lons). Where a column lies west of the one before it
+// calls move; spanRun steps along the columns in between.
 func (w *lonWindow) spans(lons []float64, lom1, him1 []int64) {
-	for c, l := range lons {
-		w.move(l)
-		if w.full {
-			w.lo, w.hi = 0, len(w.lons)
+	if w.full {
+		for c := range lom1 {
+			lom1[c], him1[c] = -1, int64(len(w.lons)-1)
 		}
-		lom1[c], him1[c] = int64(w.lo-1), int64(w.hi-1)
+		return
+	}
+	sl := w.lons[:len(w.lons)+2] // the sentinels
+	for c := 0; c < len(lons); {
+		if lons[c] < w.prev {
+			w.move(lons[c])
+			lom1[c], him1[c] = int64(w.lo-1), int64(w.hi-1)
+			c++
+			continue
+		}
+		n := spanRun(sl, lons[c:], lom1[c:len(lons)], him1[c:len(lons)], w.dl, w)
+		c += n
 	}
 	for c := len(lons); c < len(lom1); c++ {
 		lom1[c], him1[c] = lom1[c-1], him1[c-1]
 	}
+}
+
+// spanRun is move's step for the columns at lons while they do not go
+// west, the windows put into lom1 and him1 (as long as lons); it returns
+// how many columns it took. sl are the row's longitudes with two +Inf
+// sentinels. A leaf function, so that its loop keeps everything in
+// registers.
+func spanRun(sl, lons []float64, lom1, him1 []int64, dl float64, w *lonWindow) int {
+	lo, hi, prev := w.lo, w.hi, w.prev
+	c := 0
+	for ; c < len(lons) && c < len(lom1) && c < len(him1); c++ {
+		l := lons[c]
+		if l < prev {
+			break
+		}
+		prev = l
+		a, b := l-dl-lonEps, l+dl+lonEps
+		// Most often a step or none. The longitudes at the bound and the
+		// one after it are loaded together and give up to two steps
+		// without a branch (they are sorted); more are seldom needed.
+		l0, l1, h0, h1 := sl[lo], sl[lo+1], sl[hi], sl[hi+1]
+		lo += b2i(l0 < a) + b2i(l1 < a)
+		hi += b2i(h0 <= b) + b2i(h1 <= b)
+		if l1 < a || h1 <= b {
+			for sl[lo] < a {
+				lo++
+			}
+			for sl[hi] <= b {
+				hi++
+			}
+		}
+		lom1[c], him1[c] = int64(lo-1), int64(hi-1)
+	}
+	w.lo, w.hi, w.prev = lo, hi, prev
+	return c
 }
 
 // gridRow fills one row of cells at latitude lat; colStep is the longitude

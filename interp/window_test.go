@@ -205,3 +205,59 @@ func TestGridAntimeridianFewStations(t *testing.T) {
 		gridMatchesAt(t, ip, spec, fmt.Sprintf("seed %d", seed))
 	}
 }
+
+// TestLonWindowSpans: spans gives, column by column, the window move gives
+// for that column, and repeats the last past the row's end: on random
+// station longitudes with the shifted copies, columns in ascending order
+// with a wrap back west (as a box across the antimeridian has), and
+// windows that span every longitude.
+func TestLonWindowSpans(t *testing.T) {
+	rng := rand.New(rand.NewPCG(7, 11))
+	for trial := range 300 {
+		n := rng.IntN(60)
+		lons := make([]float64, n)
+		for i := range lons {
+			lons[i] = -200 + 400*rng.Float64()
+		}
+		if trial%3 == 0 && n > 2 {
+			lons[1] = lons[0] // equal longitudes
+		}
+		slices.Sort(lons)
+		buf := append(lons, math.Inf(1), math.Inf(1)) // the sentinels past the end
+		lons = buf[:n]
+		dl := []float64{0.05, 1, 7, 45, 180}[trial%5]
+		cols := 1 + rng.IntN(40)
+		step := 360.0 / float64(cols) * rng.Float64()
+		colLon := make([]float64, cols)
+		start := -180 + 360*rng.Float64()
+		for c := range colLon {
+			colLon[c] = normLon(start + float64(c)*step)
+		}
+		// Stations right on the bounds of some columns' windows, where
+		// < and <= differ.
+		for i := 0; i < n && trial%2 == 0; i += 3 {
+			l := colLon[rng.IntN(cols)]
+			lons[i] = []float64{l - dl - lonEps, l + dl + lonEps}[i%2]
+		}
+		slices.Sort(lons)
+		mk := func() lonWindow {
+			return lonWindow{lons: lons, dl: dl, full: dl > 179, hi: len(lons), prev: math.Inf(1)}
+		}
+		lom1, him1 := make([]int64, cols+windowLanes-1), make([]int64, cols+windowLanes-1)
+		w := mk()
+		w.spans(colLon, lom1, him1)
+		ref := mk()
+		for c := range lom1 {
+			if c < cols {
+				ref.move(colLon[c])
+			}
+			lo, hi := int64(ref.lo-1), int64(ref.hi-1)
+			if ref.full {
+				lo, hi = -1, int64(len(lons)-1)
+			}
+			if lom1[c] != lo || him1[c] != hi {
+				t.Fatalf("trial %d column %d (lon %g, dl %g): spans %d..%d, move %d..%d", trial, c, colLon[min(c, cols-1)], dl, lom1[c], him1[c], lo, hi)
+			}
+		}
+	}
+}
