@@ -361,6 +361,8 @@ func (ip *Interpolator) gridRowWindow(w *rowWork, lat, colStep float64, colLon, 
 	}
 	g := &w.g
 	g.k, g.d2, g.cz = ip.window, w.d2[:cap(w.d2)], [windowLanes]float64{sp, sp, sp, sp}
+	g.x, g.y, g.z, g.v = st.x, st.y, st.z, st.v
+	g.cx, g.cy, g.lom1, g.him1 = w.colCx, w.colCy, w.lom1, w.him1
 	// The k-th chord of a cell bounds that of a cell i columns on by its
 	// square root plus i delta (delta: the chord between neighbouring cell
 	// centres; the triangle inequality): the kernel's first pass then
@@ -382,9 +384,7 @@ func (ip *Interpolator) gridRowWindow(w *rowWork, lat, colStep float64, colLon, 
 			prevTau = -1
 			continue // no data in any of the four
 		}
-		g.cx, g.cy, g.lom1, g.him1, g.j0 = w.colCx[col0:], w.colCy[col0:], lom1, him1, int64(glo)
-		g.m = ghi - glo
-		g.x, g.y, g.z, g.v = st.x[glo:ghi], st.y[glo:ghi], st.z[glo:ghi], st.v[glo:ghi]
+		g.c0, g.j0, g.m = int64(col0), int64(glo), ghi-glo
 		g.u0 = math.Inf(1)
 		if prevTau >= 0 {
 			g.u0 = math.Sqrt(prevTau)
@@ -444,7 +444,7 @@ func (ip *Interpolator) gridRowWindow(w *rowWork, lat, colStep float64, colLon, 
 			// A tie at the k-th distance, or a station within 1 m: the
 			// candidate list, from the chords the kernel wrote.
 			n = gatherWindow(st.window(glo, ghi), g.d2, l, c.cs)
-			if v, _, ok := ip.estimate(c, n, g.cx[l], g.cy[l], sp); ok {
+			if v, _, ok := ip.estimate(c, n, w.colCx[col0+l], w.colCy[col0+l], sp); ok {
 				dst[col0+l] = float32(v)
 			}
 		}

@@ -72,21 +72,23 @@ const limSlack = 1 + 1e-12
 // (or finds no station that close).
 var exactWeight = 0.5 / exactChordSq
 
-// windowGroup is one call of the kernel: the stations x, y, z, v (m of
-// them, the union of the windows; station j is number j0+j of the row) and,
-// per lane l, a cell at the unit vector (cx[l], cy[l], cz[l]) whose own
-// window is the row's stations lom1[l]+1 .. him1[l] (cx, cy, lom1 and him1
-// are four entries of the row's columns). The first pass writes d2
-// (station j, lane l at d2[4j+l]), n and top; the second reads d2 and tau
-// and writes the sums. The layout is the one window_amd64.s reads.
+// windowGroup is one call of the kernel: the stations j0 .. j0+m-1 of the
+// row's x, y, z, v (the union of the windows) and the cells c0 .. c0+3 of
+// the row's columns: lane l is the cell at the unit vector (cx[c0+l],
+// cy[c0+l], cz[l]) whose own window is the row's stations lom1[c0+l]+1 ..
+// him1[c0+l]. The slices are the row's, set once a row; a group sets j0,
+// m and c0. The first pass writes d2 (station j0+j, lane l at d2[4j+l]), n
+// and top; the second reads d2 and tau and writes the sums. The layout is
+// the one window_amd64.s reads.
 type windowGroup struct {
 	x, y, z, v []float64
 	d2         []float64
 	m          int
 	k          *windowConsts
-	cx, cy     []float64 // at least four
-	lom1, him1 []int64   // at least four
+	cx, cy     []float64 // the row's columns, at least c0+4
+	lom1, him1 []int64   // the row's columns, at least c0+4
 	j0         int64
+	c0         int64
 	cz         [windowLanes]float64
 	// The first pass's limit: lane l counts the stations within the chord
 	// squared lim[l] = min(c2max, (u0 + (l+1) delta)^2 (1 + 1e-12)), for u0
@@ -130,8 +132,9 @@ func (g *windowGroup) sums() {
 // maxima and minima (exact, so any order of the operands gives the same
 // bits: chords squared are never NaN nor -0).
 func windowChordsGo(g *windowGroup) {
-	x, y, z, d2, k := g.x[:g.m], g.y[:g.m], g.z[:g.m], g.d2[:windowLanes*g.m], g.k
-	_, _, _, _ = g.cx[windowLanes-1], g.cy[windowLanes-1], g.lom1[windowLanes-1], g.him1[windowLanes-1]
+	j0, j1, c0, c1 := g.j0, g.j0+int64(g.m), g.c0, g.c0+windowLanes
+	x, y, z, d2, k := g.x[j0:j1], g.y[j0:j1], g.z[j0:j1], g.d2[:windowLanes*g.m], g.k
+	cx, cy, lom1, him1 := g.cx[c0:c1], g.cy[c0:c1], g.lom1[c0:c1], g.him1[c0:c1]
 	g.n = [windowLanes]int64{}
 	g.top = [windowTop][windowLanes]float64{}
 	for l := range windowLanes {
@@ -140,10 +143,10 @@ func windowChordsGo(g *windowGroup) {
 	}
 	for j := range x {
 		for l := range windowLanes {
-			dx, dy, dz := x[j]-g.cx[l], y[j]-g.cy[l], z[j]-g.cz[l]
+			dx, dy, dz := x[j]-cx[l], y[j]-cy[l], z[j]-g.cz[l]
 			c2 := chordSq(dx, dy, dz)
-			i := g.j0 + int64(j)
-			if i <= g.lom1[l] || i > g.him1[l] || !(c2 <= g.lim[l]) {
+			i := j0 + int64(j)
+			if i <= lom1[l] || i > him1[l] || !(c2 <= g.lim[l]) {
 				d2[windowLanes*j+l] = math.Inf(1)
 				continue
 			}
@@ -167,7 +170,7 @@ func windowChordsGo(g *windowGroup) {
 // division. The smallest and largest value, and the clamp of the weighted
 // mean between them, follow MINPD and MAXPD (minLane, maxLane).
 func windowSumsGo(g *windowGroup) {
-	v, d2, k := g.v[:g.m], g.d2[:windowLanes*g.m], g.k
+	v, d2, k := g.v[g.j0:g.j0+int64(g.m)], g.d2[:windowLanes*g.m], g.k
 	for l := range windowLanes {
 		g.sw[l], g.swz[l], g.lo[l], g.hi[l], g.n2[l] = 0, 0, math.Inf(1), math.Inf(-1), 0
 	}

@@ -22,9 +22,11 @@ var hasWindowAVX2 = cpu.X86.HasAVX2 && cpu.X86.HasFMA
 // hold m stations (and d2 four lanes of each) and the cells' columns
 // four entries.
 func windowChordsVec(g *windowGroup) {
-	_, _, _, _ = g.cx[windowLanes-1], g.cy[windowLanes-1], g.lom1[windowLanes-1], g.him1[windowLanes-1]
+	c := g.c0 + windowLanes - 1
+	_, _, _, _ = g.cx[c], g.cy[c], g.lom1[c], g.him1[c]
 	if g.m > 0 {
-		_, _, _, _ = g.x[g.m-1], g.y[g.m-1], g.z[g.m-1], g.d2[windowLanes*g.m-1]
+		j := g.j0 + int64(g.m) - 1
+		_, _, _, _ = g.x[j], g.y[j], g.z[j], g.d2[windowLanes*g.m-1]
 	}
 	windowChordsAVX2(g)
 }
@@ -32,7 +34,7 @@ func windowChordsVec(g *windowGroup) {
 // windowSumsVec is the second pass in AVX2, as windowChordsVec.
 func windowSumsVec(g *windowGroup) {
 	if g.m > 0 {
-		_, _ = g.v[g.m-1], g.d2[windowLanes*g.m-1]
+		_, _ = g.v[g.j0+int64(g.m)-1], g.d2[windowLanes*g.m-1]
 	}
 	windowSumsAVX2(g)
 }

@@ -22,19 +22,29 @@ GLOBL limSlack<>(SB), RODATA|NOPTR, $8
 // Y11 the counts (each lane subtracts its mask, -1 where the station
 // counts); Y10 .. Y7 the largest chords, largest first (windowTop = 4).
 // Y15 the limits (lim). The cells (cx at R13, cy at R11, cz) and their
-// windows (lom1 at DX, him1 at R10) are read from memory.
+// windows (lom1 at DX, him1 at R10) are read from memory; the station and
+// cell pointers start at j0 and c0.
 TEXT ·windowChordsAVX2(SB), NOSPLIT, $0-8
 	MOVQ grp+0(FP), R12
+	MOVQ windowGroup_j0(R12), SI
 	MOVQ windowGroup_x(R12), AX
+	LEAQ (AX)(SI*8), AX
 	MOVQ windowGroup_y(R12), BX
+	LEAQ (BX)(SI*8), BX
 	MOVQ windowGroup_z(R12), CX
+	LEAQ (CX)(SI*8), CX
 	MOVQ windowGroup_d2(R12), DI
 	MOVQ windowGroup_m(R12), R8
 	MOVQ windowGroup_k(R12), R9
+	MOVQ windowGroup_c0(R12), SI
 	MOVQ windowGroup_cx(R12), R13
+	LEAQ (R13)(SI*8), R13
 	MOVQ windowGroup_cy(R12), R11
+	LEAQ (R11)(SI*8), R11
 	MOVQ windowGroup_lom1(R12), DX
+	LEAQ (DX)(SI*8), DX
 	MOVQ windowGroup_him1(R12), R10
+	LEAQ (R10)(SI*8), R10
 	VPBROADCASTQ windowGroup_j0(R12), Y12
 
 	// lim = MINPD((u0 + lanes delta)^2 slack, c2max), rounded as
@@ -118,7 +128,9 @@ chordsDone:
 // counts.
 TEXT ·windowSumsAVX2(SB), NOSPLIT, $0-8
 	MOVQ grp+0(FP), R12
+	MOVQ windowGroup_j0(R12), SI
 	MOVQ windowGroup_v(R12), DX
+	LEAQ (DX)(SI*8), DX
 	MOVQ windowGroup_d2(R12), DI
 	MOVQ windowGroup_m(R12), R8
 	MOVQ windowGroup_k(R12), R9

@@ -32,7 +32,26 @@ func randomGroup(r *rand.Rand, m int, c float64, k *windowConsts) *windowGroup {
 		}
 		g.lom1[l], g.him1[l] = g.j0+int64(min(a, b)-1), g.j0+int64(max(a, b)-1)
 	}
-	g.x, g.y, g.z, g.v = make([]float64, m), make([]float64, m), make([]float64, m), make([]float64, m)
+	// The group's stations start at j0 of the row's columns, its cells at
+	// c0: stations before them, and cells after them, that it must not read.
+	j0 := int(g.j0)
+	x, y, z, v := make([]float64, j0+m), make([]float64, j0+m), make([]float64, j0+m), make([]float64, j0+m)
+	for i := range j0 {
+		x[i], y[i], z[i], v[i] = g.cx[0], g.cy[0], g.cz[0], math.NaN()
+	}
+	g.x, g.y, g.z, g.v = x[j0:], y[j0:], z[j0:], v[j0:]
+	defer func() {
+		g.x, g.y, g.z, g.v = x, y, z, v
+		c0 := r.IntN(3)
+		pad := func(a []float64) []float64 {
+			return append(append(make([]float64, c0), a...), math.NaN(), math.NaN())
+		}
+		padI := func(a []int64) []int64 {
+			return append(append(make([]int64, c0), a...), 0, 0)
+		}
+		g.c0 = int64(c0)
+		g.cx, g.cy, g.lom1, g.him1 = pad(g.cx), pad(g.cy), padI(g.lom1), padI(g.him1)
+	}()
 	for j := range m {
 		l := r.IntN(windowLanes)
 		switch r.IntN(8) {
@@ -108,9 +127,10 @@ func TestWindowChordsKeepLargest(t *testing.T) {
 		for l := range windowLanes {
 			var in []float64
 			for j := range g.m {
-				dx, dy, dz := g.x[j]-g.cx[l], g.y[j]-g.cy[l], g.z[j]-g.cz[l]
+				j0, c := int(g.j0), int(g.c0)+l
+				dx, dy, dz := g.x[j0+j]-g.cx[c], g.y[j0+j]-g.cy[c], g.z[j0+j]-g.cz[l]
 				c2 := dx*dx + dy*dy + dz*dz
-				own := g.j0+int64(j) > g.lom1[l] && g.j0+int64(j) <= g.him1[l]
+				own := g.j0+int64(j) > g.lom1[c] && g.j0+int64(j) <= g.him1[c]
 				if got := g.d2[windowLanes*j+l]; !own || c2 > g.lim[l]*(1+1e-12) {
 					if !math.IsInf(got, 1) && !(own && math.Abs(c2-g.lim[l]) < 1e-15) {
 						t.Fatalf("trial %d lane %d station %d: d2 %v, outside", trial, l, j, got)
