@@ -82,11 +82,10 @@ type rowWork struct {
 	d2  []float64   // the window kernel's chords squared, four lanes a station
 	kth []uint64    // scratch of kthChord
 	g   windowGroup // the window kernel's call
-	// The window kernel's view of a row's cells: unit vector (without z)
-	// and window (the stations lom1+1 .. him1), per column.
-	colCx, colCy []float64
-	lom1, him1   []int64
-	c            *cands
+	// The window kernel's view of a row's cells: their windows (the
+	// stations lom1+1 .. him1), per column.
+	lom1, him1 []int64
+	c          *cands
 }
 
 // resized is s with length n, reallocated when its capacity is short.
@@ -352,17 +351,13 @@ func (ip *Interpolator) gridRowWindow(w *rowWork, lat, colStep float64, colLon, 
 	// The row's cells and their windows, column by column, with the last
 	// column repeated into the lanes past the row's end.
 	cols := len(dst)
-	w.colCx, w.colCy = resized(w.colCx, cols+windowLanes-1), resized(w.colCy, cols+windowLanes-1)
 	w.lom1, w.him1 = resized(w.lom1, cols+windowLanes-1), resized(w.him1, cols+windowLanes-1)
 	win.spans(colLon, w.lom1, w.him1)
-	for col := range w.colCx {
-		from := min(col, cols-1)
-		w.colCx[col], w.colCy[col] = cp*colCos[from], cp*colSin[from]
-	}
 	g := &w.g
 	g.k, g.d2, g.cz = ip.window, w.d2[:cap(w.d2)], [windowLanes]float64{sp, sp, sp, sp}
 	g.x, g.y, g.z, g.v = st.x, st.y, st.z, st.v
-	g.cx, g.cy, g.lom1, g.him1 = w.colCx, w.colCy, w.lom1, w.him1
+	g.cp, g.cos, g.sin = cp, colCos[:cols+windowLanes-1], colSin[:cols+windowLanes-1] // rowsColumns pads them
+	g.lom1, g.him1 = w.lom1, w.him1
 	// The k-th chord of a cell bounds that of a cell i columns on by its
 	// square root plus i delta (delta: the chord between neighbouring cell
 	// centres; the triangle inequality): the kernel's first pass then
@@ -444,7 +439,7 @@ func (ip *Interpolator) gridRowWindow(w *rowWork, lat, colStep float64, colLon, 
 			// A tie at the k-th distance, or a station within 1 m: the
 			// candidate list, from the chords the kernel wrote.
 			n = gatherWindow(st.window(glo, ghi), g.d2, l, c.cs)
-			if v, _, ok := ip.estimate(c, n, w.colCx[col0+l], w.colCy[col0+l], sp); ok {
+			if v, _, ok := ip.estimate(c, n, cp*colCos[col0+l], cp*colSin[col0+l], sp); ok {
 				dst[col0+l] = float32(v)
 			}
 		}

@@ -32,13 +32,21 @@ func (ip *Interpolator) Rows(spec grid.Spec, row0, n int, dst []float32) error {
 }
 
 // rowsColumns computes the column longitudes of spec and their sines and
-// cosines (a few microseconds per block).
+// cosines (a few microseconds per block). Past their length, cos and sin
+// repeat the last column windowLanes-1 times, for the window kernel's
+// lanes beyond a row's end.
 func rowsColumns(spec grid.Spec) (lon, cos, sin []float64) {
-	lon, cos, sin = make([]float64, spec.Cols), make([]float64, spec.Cols), make([]float64, spec.Cols)
+	n, pad := spec.Cols, windowLanes-1
+	lon, cos, sin = make([]float64, n), make([]float64, n, n+pad), make([]float64, n, n+pad)
 	for i := range lon {
 		l, _ := spec.Center(i, 0)
 		lon[i] = normLon(l)
 		sin[i], cos[i] = math.Sincos(lon[i] * degToRad)
 	}
-	return lon, cos, sin
+	if n > 0 {
+		for range pad {
+			cos, sin = append(cos, cos[n-1]), append(sin, sin[n-1])
+		}
+	}
+	return lon, cos[:n], sin[:n]
 }

@@ -74,9 +74,10 @@ var exactWeight = 0.5 / exactChordSq
 
 // windowGroup is one call of the kernel: the stations j0 .. j0+m-1 of the
 // row's x, y, z, v (the union of the windows) and the cells c0 .. c0+3 of
-// the row's columns: lane l is the cell at the unit vector (cx[c0+l],
-// cy[c0+l], cz[l]) whose own window is the row's stations lom1[c0+l]+1 ..
-// him1[c0+l]. The slices are the row's, set once a row; a group sets j0,
+// the row's columns: lane l is the cell at the unit vector (cp cos[c0+l],
+// cp sin[c0+l], cz[l]) (cp the cosine of the row's latitude; each
+// product rounded, as the other paths of the grid have it) whose own
+// window is the row's stations lom1[c0+l]+1 .. him1[c0+l]. The slices are the row's, set once a row; a group sets j0,
 // m and c0. The first pass writes d2 (station j0+j, lane l at d2[4j+l]), n
 // and top; the second reads d2 and tau and writes the sums. The layout is
 // the one window_amd64.s reads.
@@ -85,7 +86,8 @@ type windowGroup struct {
 	d2         []float64
 	m          int
 	k          *windowConsts
-	cx, cy     []float64 // the row's columns, at least c0+4
+	cp         float64
+	cos, sin   []float64 // the row's columns, at least c0+4
 	lom1, him1 []int64   // the row's columns, at least c0+4
 	j0         int64
 	c0         int64
@@ -134,7 +136,11 @@ func (g *windowGroup) sums() {
 func windowChordsGo(g *windowGroup) {
 	j0, j1, c0, c1 := g.j0, g.j0+int64(g.m), g.c0, g.c0+windowLanes
 	x, y, z, d2, k := g.x[j0:j1], g.y[j0:j1], g.z[j0:j1], g.d2[:windowLanes*g.m], g.k
-	cx, cy, lom1, him1 := g.cx[c0:c1], g.cy[c0:c1], g.lom1[c0:c1], g.him1[c0:c1]
+	cos, sin, lom1, him1 := g.cos[c0:c1], g.sin[c0:c1], g.lom1[c0:c1], g.him1[c0:c1]
+	var cx, cy [windowLanes]float64
+	for l := range windowLanes {
+		cx[l], cy[l] = float64(g.cp*cos[l]), float64(g.cp*sin[l])
+	}
 	g.n = [windowLanes]int64{}
 	g.top = [windowTop][windowLanes]float64{}
 	for l := range windowLanes {

@@ -23,7 +23,7 @@ var hasWindowAVX2 = cpu.X86.HasAVX2 && cpu.X86.HasFMA
 // four entries.
 func windowChordsVec(g *windowGroup) {
 	c := g.c0 + windowLanes - 1
-	_, _, _, _ = g.cx[c], g.cy[c], g.lom1[c], g.him1[c]
+	_, _, _, _ = g.cos[c], g.sin[c], g.lom1[c], g.him1[c]
 	if g.m > 0 {
 		j := g.j0 + int64(g.m) - 1
 		_, _, _, _ = g.x[j], g.y[j], g.z[j], g.d2[windowLanes*g.m-1]

@@ -21,9 +21,9 @@ GLOBL limSlack<>(SB), RODATA|NOPTR, $8
 // Registers: Y12 the station's number in the row, j0+j, in every lane;
 // Y11 the counts (each lane subtracts its mask, -1 where the station
 // counts); Y10 .. Y7 the largest chords, largest first (windowTop = 4).
-// Y15 the limits (lim). The cells (cx at R13, cy at R11, cz) and their
+// Y15 the limits (lim); Y3, Y4, Y5 the cells' unit vectors. The cells'
 // windows (lom1 at DX, him1 at R10) are read from memory; the station and
-// cell pointers start at j0 and c0.
+// window pointers start at j0 and c0.
 TEXT ·windowChordsAVX2(SB), NOSPLIT, $0-8
 	MOVQ grp+0(FP), R12
 	MOVQ windowGroup_j0(R12), SI
@@ -37,10 +37,13 @@ TEXT ·windowChordsAVX2(SB), NOSPLIT, $0-8
 	MOVQ windowGroup_m(R12), R8
 	MOVQ windowGroup_k(R12), R9
 	MOVQ windowGroup_c0(R12), SI
-	MOVQ windowGroup_cx(R12), R13
-	LEAQ (R13)(SI*8), R13
-	MOVQ windowGroup_cy(R12), R11
-	LEAQ (R11)(SI*8), R11
+	MOVQ windowGroup_cos(R12), R13
+	MOVQ windowGroup_sin(R12), R11
+	// The cells: Y3 = cp cos, Y4 = cp sin (rounded products), Y5 = cz.
+	VBROADCASTSD windowGroup_cp(R12), Y6
+	VMULPD (R13)(SI*8), Y6, Y3
+	VMULPD (R11)(SI*8), Y6, Y4
+	VMOVUPD windowGroup_cz(R12), Y5
 	MOVQ windowGroup_lom1(R12), DX
 	LEAQ (DX)(SI*8), DX
 	MOVQ windowGroup_him1(R12), R10
@@ -72,14 +75,14 @@ chords:
 
 	// c2 = (dx^2 + dy^2) + dz^2, rounded after every operation (chordSq).
 	VBROADCASTSD (AX)(SI*8), Y0
-	VSUBPD (R13), Y0, Y0
+	VSUBPD Y3, Y0, Y0
 	VMULPD Y0, Y0, Y0
 	VBROADCASTSD (BX)(SI*8), Y1
-	VSUBPD (R11), Y1, Y1
+	VSUBPD Y4, Y1, Y1
 	VMULPD Y1, Y1, Y1
 	VADDPD Y1, Y0, Y0
 	VBROADCASTSD (CX)(SI*8), Y1
-	VSUBPD windowGroup_cz(R12), Y1, Y1
+	VSUBPD Y5, Y1, Y1
 	VMULPD Y1, Y1, Y1
 	VADDPD Y1, Y0, Y0
 

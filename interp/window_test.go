@@ -18,14 +18,19 @@ import (
 func randomGroup(r *rand.Rand, m int, c float64, k *windowConsts) *windowGroup {
 	lon, lat := r.Float64()*360-180, r.Float64()*160-80
 	g := &windowGroup{m: m, k: k, d2: make([]float64, windowLanes*m),
-		cx: make([]float64, windowLanes), cy: make([]float64, windowLanes),
+		cos: make([]float64, windowLanes), sin: make([]float64, windowLanes),
 		lom1: make([]int64, windowLanes), him1: make([]int64, windowLanes), j0: int64(r.IntN(3))}
 	g.u0, g.delta = math.Inf(1), 0.002
 	if r.IntN(2) == 0 { // a chord known to hold the k nearest
 		g.u0 = math.Sqrt(k.c2max[0]) * r.Float64()
 	}
+	sp, cp := math.Sincos(lat * degToRad)
+	g.cp = cp
+	var cx, cy [windowLanes]float64
 	for l := range windowLanes {
-		g.cx[l], g.cy[l], g.cz[l] = unitVector(lon+0.1*float64(l), lat)
+		g.sin[l], g.cos[l] = math.Sincos(normLon(lon+0.1*float64(l)) * degToRad)
+		g.cz[l] = sp
+		cx[l], cy[l] = cp*g.cos[l], cp*g.sin[l]
 		a, b := r.IntN(m+1), r.IntN(m+1)
 		if r.IntN(3) == 0 {
 			a, b = 0, m
@@ -37,7 +42,7 @@ func randomGroup(r *rand.Rand, m int, c float64, k *windowConsts) *windowGroup {
 	j0 := int(g.j0)
 	x, y, z, v := make([]float64, j0+m), make([]float64, j0+m), make([]float64, j0+m), make([]float64, j0+m)
 	for i := range j0 {
-		x[i], y[i], z[i], v[i] = g.cx[0], g.cy[0], g.cz[0], math.NaN()
+		x[i], y[i], z[i], v[i] = cx[0], cy[0], g.cz[0], math.NaN()
 	}
 	g.x, g.y, g.z, g.v = x[j0:], y[j0:], z[j0:], v[j0:]
 	defer func() {
@@ -50,13 +55,13 @@ func randomGroup(r *rand.Rand, m int, c float64, k *windowConsts) *windowGroup {
 			return append(append(make([]int64, c0), a...), 0, 0)
 		}
 		g.c0 = int64(c0)
-		g.cx, g.cy, g.lom1, g.him1 = pad(g.cx), pad(g.cy), padI(g.lom1), padI(g.him1)
+		g.cos, g.sin, g.lom1, g.him1 = pad(g.cos), pad(g.sin), padI(g.lom1), padI(g.him1)
 	}()
 	for j := range m {
 		l := r.IntN(windowLanes)
 		switch r.IntN(8) {
 		case 0: // on a cell, or within 1 m of it
-			g.x[j], g.y[j], g.z[j] = g.cx[l], g.cy[l], g.cz[l]+r.Float64()*1e-8
+			g.x[j], g.y[j], g.z[j] = cx[l], cy[l], g.cz[l]+r.Float64()*1e-8
 		case 1: // on the place of the station before (a tie)
 			if j > 0 {
 				g.x[j], g.y[j], g.z[j] = g.x[j-1], g.y[j-1], g.z[j-1]
@@ -64,8 +69,8 @@ func randomGroup(r *rand.Rand, m int, c float64, k *windowConsts) *windowGroup {
 			}
 			fallthrough
 		default:
-			g.x[j] = g.cx[l] + (r.Float64()*2-1)*c
-			g.y[j] = g.cy[l] + (r.Float64()*2-1)*c
+			g.x[j] = cx[l] + (r.Float64()*2-1)*c
+			g.y[j] = cy[l] + (r.Float64()*2-1)*c
 			g.z[j] = g.cz[l] + (r.Float64()*2-1)*c
 		}
 		switch r.IntN(6) {
@@ -96,7 +101,7 @@ func TestWindowWeightIsGreatCircle(t *testing.T) {
 	c2max := 4 * shortSeriesMaxT
 	g := &windowGroup{m: 1, k: newWindowConsts(c2max), d2: make([]float64, windowLanes),
 		x: make([]float64, 1), y: make([]float64, 1), z: []float64{0}, v: []float64{1},
-		cx: []float64{1, 1, 1, 1}, cy: make([]float64, windowLanes), him1: []int64{0, 0, 0, 0},
+		cp: 1, cos: []float64{1, 1, 1, 1}, sin: make([]float64, windowLanes), him1: []int64{0, 0, 0, 0},
 		lom1: []int64{-1, -1, -1, -1}, u0: math.Inf(1)}
 	for range 20000 {
 		c := math.Sqrt(exactChordSq) * math.Pow(math.Sqrt(c2max/exactChordSq), r.Float64()) * 0.999
@@ -128,7 +133,7 @@ func TestWindowChordsKeepLargest(t *testing.T) {
 			var in []float64
 			for j := range g.m {
 				j0, c := int(g.j0), int(g.c0)+l
-				dx, dy, dz := g.x[j0+j]-g.cx[c], g.y[j0+j]-g.cy[c], g.z[j0+j]-g.cz[l]
+				dx, dy, dz := g.x[j0+j]-g.cp*g.cos[c], g.y[j0+j]-g.cp*g.sin[c], g.z[j0+j]-g.cz[l]
 				c2 := dx*dx + dy*dy + dz*dz
 				own := g.j0+int64(j) > g.lom1[c] && g.j0+int64(j) <= g.him1[c]
 				if got := g.d2[windowLanes*j+l]; !own || c2 > g.lim[l]*(1+1e-12) {
