@@ -220,54 +220,22 @@ func readValues(t *Table, opt ValueOptions) (*Values, error) {
 			dropped++
 		}
 	}
+	// The rows are read and their numbers parsed in a goroutine of their
+	// own (valuesReader), a batch ahead of the checks against the rows
+	// before them here; the errors come in file order either way.
+	rd := newValuesReader(t, kind, idC, latC, lonC, valC)
+	defer rd.stop()
 	for {
-		rec, idb, line, err := t.nextRecord(idC)
-		if err == io.EOF {
+		r, ok, err := rd.next()
+		if err != nil {
+			v.Read = rd.read
+			return nil, err
+		}
+		if !ok {
 			break
 		}
-		v.Read++
-		if err != nil {
-			return nil, err
-		}
-		lat, err := t.floatField(rec, line, latC, "latitude")
-		if err != nil {
-			return nil, err
-		}
-		if lat < -90 || lat > 90 {
-			return nil, t.FieldError(line, latC, "latitude %s outside [-90, 90]", rec[latC])
-		}
-		lon, err := t.floatField(rec, line, lonC, "longitude")
-		if err != nil {
-			return nil, err
-		}
-		if lon < -180 || lon >= 360 {
-			return nil, t.FieldError(line, lonC, "longitude %s outside [-180, 360)", rec[lonC])
-		}
-		if lon >= 180 {
-			lon -= 360 // 0-360 input normalised to [-180, 180)
-		}
-		row := valuesRow{line: line, lat: lat, lon: lon}
-		if x, ok := signedDecimal(rec[valC]); ok {
-			row.value = x
-		} else if row.missing = IsMissing(string(rec[valC])); !row.missing {
-			row.value, err = t.floatField(rec, line, valC, string(kind))
-			if err != nil {
-				return nil, err
-			}
-		}
-		if !row.missing {
-			x := row.value
-			switch kind {
-			case KindPercentile:
-				if x < 0 || x > 100 {
-					return nil, t.FieldError(line, valC, "percentile %s outside [0, 100]", rec[valC])
-				}
-			case KindSPI:
-				if math.Abs(x) > SPILimit {
-					return nil, t.FieldError(line, valC, "spi %s outside [-%d, %d], implausible", rec[valC], SPILimit, SPILimit)
-				}
-			}
-		}
+		idb, line, lat, lon := r.id, r.line, r.lat, r.lon
+		row := valuesRow{line: line, lat: lat, lon: lon, missing: r.missing, value: r.value}
 		if first, dup := byID[string(idb)]; dup {
 			id := string(idb)
 			if !valuesSamePoint(first.lat, first.lon, lat, lon) {
@@ -278,7 +246,7 @@ func readValues(t *Table, opt ValueOptions) (*Values, error) {
 				return nil, t.FieldError(line, col, "station %s is at %g, %g here but at %g, %g on line %d", id, lat, lon, first.lat, first.lon, first.line)
 			}
 			if first.missing != row.missing || first.value != row.value {
-				return nil, t.FieldError(line, valC, "station %s has %s %q here but another value on line %d", id, kind, rec[valC], first.line)
+				return nil, t.FieldError(line, valC, "station %s has %s %q here but another value on line %d", id, kind, r.raw, first.line)
 			}
 			warn("%s line %d: repeats station %s of line %d exactly; kept once", t.Path, line, id, first.line)
 			continue
@@ -314,6 +282,7 @@ func readValues(t *Table, opt ValueOptions) (*Values, error) {
 			sumZ: z, sumV: row.value, n: 1, next: -1,
 		})
 	}
+	v.Read = rd.read
 	v.Stations = make([]Station, len(sites))
 	for i, s := range sites {
 		st := s.st

@@ -1,6 +1,7 @@
 package station
 
 import (
+	"fmt"
 	"math"
 	"os"
 	"path/filepath"
@@ -376,5 +377,50 @@ func TestValuesWarningsCapped(t *testing.T) {
 	}
 	if len(v.Stations) != 1 || v.Read != 151 || len(v.Warnings) != 101 || v.Warnings[100] != "v.csv: 50 more warnings not shown" {
 		t.Fatalf("stations %d read %d warnings %d last %q", len(v.Stations), v.Read, len(v.Warnings), v.Warnings[len(v.Warnings)-1])
+	}
+}
+
+// TestValuesErrorsInFileOrder: the rows are read a batch ahead of the
+// checks between rows (valuesReader), yet the first bad row of the file is
+// the one reported, whichever check finds it, across batches; duplicates
+// are found across batches and every row is counted.
+func TestValuesErrorsInFileOrder(t *testing.T) {
+	table := func(n int, edit map[int]string) string {
+		var b strings.Builder
+		b.WriteString("station,latitude,longitude,spi\n")
+		for i := range n {
+			row, ok := edit[i]
+			if !ok {
+				row = fmt.Sprintf("S%d,%d.5,%d.25,0.5", i, i%170-85, i%350-175)
+			}
+			b.WriteString(row + "\n")
+		}
+		return b.String()
+	}
+	moved := "S3,10.5,10.25,0.5" // S3 again, somewhere else: found against row 3
+	badLat := "S9999,95,10,0.5"  // found alone
+	cases := []struct {
+		name string
+		edit map[int]string
+		want string // line of the error reported (header = line 1)
+	}{
+		{"between rows first", map[int]string{3 * valuesBatchRows / 2: moved, 2*valuesBatchRows + 7: badLat}, fmt.Sprintf("line %d", 3*valuesBatchRows/2+2)},
+		{"alone first", map[int]string{3 * valuesBatchRows / 2: badLat, 2*valuesBatchRows + 7: moved}, fmt.Sprintf("line %d", 3*valuesBatchRows/2+2)},
+		{"same batch", map[int]string{valuesBatchRows + 1: moved, valuesBatchRows + 2: badLat}, fmt.Sprintf("line %d", valuesBatchRows+3)},
+	}
+	n := 3 * valuesBatchRows
+	for _, c := range cases {
+		_, err := ParseValues("order.csv", strings.NewReader(table(n, c.edit)), ValueOptions{Kind: KindSPI})
+		if err == nil || !strings.Contains(err.Error(), "order.csv "+c.want+" ") {
+			t.Errorf("%s: error %v, want one at %s", c.name, err, c.want)
+		}
+	}
+	// S5 repeated exactly two batches on: kept once, with a warning.
+	v, err := ParseValues("order.csv", strings.NewReader(table(n, map[int]string{2*valuesBatchRows + 5: "S5,-80.5,-170.25,0.5"})), ValueOptions{Kind: KindSPI})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if v.Read != n || len(v.Stations) != n-1 || len(v.Warnings) != 1 || !strings.Contains(v.Warnings[0], "repeats station S5 of line 7") {
+		t.Errorf("read %d, %d stations, warnings %q; want %d, %d and the repeat of S5", v.Read, len(v.Stations), v.Warnings, n, n-1)
 	}
 }
