@@ -59,31 +59,92 @@ func cogParallel(n, workers int, fn func(i int)) {
 	wg.Wait()
 }
 
-// cogMeanOverview is the overview of data (cols x rows) reduced by factor f:
-// each pixel is the mean, in float64 rounded to float32, of the valid
-// full-resolution cells of its f x f block (blocks on the right and bottom
-// edges are cut short by the image). Cells equal to nodata or NaN are
-// skipped; a block with none valid is nodata.
+// cogMeanOverview is the overview of data (cols x rows) reduced by factor f
+// (a power of two): each pixel is the mean, in float64 rounded to float32,
+// of the valid full-resolution cells of its f x f block (blocks on the
+// right and bottom edges are cut short by the image). Cells equal to
+// nodata or NaN are skipped; a block with none valid is nodata. The sums
+// are built level by level (cogMeanSums): a 2 x 2 block's sum from its
+// cells, a larger block's from the sums of its four quarters.
 func cogMeanOverview(data []float32, cols, rows, f int, nodata float32, workers int) []float32 {
-	oc, or := cogCeilDiv(cols, f), cogCeilDiv(rows, f)
-	out := make([]float32, oc*or)
+	s := cogMeanLevel1(data, cols, rows, nodata, workers)
+	for g := 2; g < f; g *= 2 {
+		s = s.half(workers)
+	}
+	return s.means(nodata)
+}
+
+// cogMeanSums are the sums and counts of the valid cells under each pixel
+// of a mean overview (cols x rows).
+type cogMeanSums struct {
+	cols, rows int
+	sums       []float64
+	counts     []int32
+}
+
+// cogMeanLevel1 sums the 2 x 2 blocks of data: row by row, west to east
+// within a block (cogMeanAddRow).
+func cogMeanLevel1(data []float32, cols, rows int, nodata float32, workers int) cogMeanSums {
+	oc, or := cogCeilDiv(cols, 2), cogCeilDiv(rows, 2)
+	s := cogMeanSums{cols: oc, rows: or, sums: make([]float64, oc*or), counts: make([]int32, oc*or)}
 	cogParallel(or, workers, func(oy int) {
-		sums := make([]float64, oc)
-		counts := make([]int32, oc)
-		y1 := min((oy+1)*f, rows)
-		for y := oy * f; y < y1; y++ {
-			cogMeanAddRow(data[y*cols:(y+1)*cols], f, nodata, sums, counts)
-		}
-		dst := out[oy*oc : (oy+1)*oc]
-		for ox := range dst {
-			if counts[ox] == 0 {
-				dst[ox] = nodata
-			} else {
-				dst[ox] = float32(sums[ox] / float64(counts[ox]))
-			}
+		sums, counts := s.sums[oy*oc:(oy+1)*oc], s.counts[oy*oc:(oy+1)*oc]
+		for y := 2 * oy; y < min(2*oy+2, rows); y++ {
+			cogMeanAddRow(data[y*cols:(y+1)*cols], 2, nodata, sums, counts)
 		}
 	})
+	return s
+}
+
+// half is the next level: each pixel sums its four quarters of s, the
+// upper two then the lower two, west to east (cogMeanAddSums).
+func (s cogMeanSums) half(workers int) cogMeanSums {
+	oc, or := cogCeilDiv(s.cols, 2), cogCeilDiv(s.rows, 2)
+	h := cogMeanSums{cols: oc, rows: or, sums: make([]float64, oc*or), counts: make([]int32, oc*or)}
+	cogParallel(or, workers, func(oy int) {
+		sums, counts := h.sums[oy*oc:(oy+1)*oc], h.counts[oy*oc:(oy+1)*oc]
+		for y := 2 * oy; y < min(2*oy+2, s.rows); y++ {
+			cogMeanAddSums(s.sums[y*s.cols:(y+1)*s.cols], s.counts[y*s.cols:(y+1)*s.cols], sums, counts)
+		}
+	})
+	return h
+}
+
+// means are the overview pixels: sum / count, or nodata for none.
+func (s cogMeanSums) means(nodata float32) []float32 {
+	out := make([]float32, len(s.sums))
+	cogMeanRow(s.sums, s.counts, nodata, out)
 	return out
+}
+
+// cogMeanRow puts the means of sums and counts into dst (nodata where the
+// count is 0).
+func cogMeanRow(sums []float64, counts []int32, nodata float32, dst []float32) {
+	counts, dst = counts[:len(sums)], dst[:len(sums)]
+	for i, s := range sums {
+		if counts[i] == 0 {
+			dst[i] = nodata
+		} else {
+			dst[i] = float32(s / float64(counts[i]))
+		}
+	}
+}
+
+// cogMeanAddSums adds one row of a level's sums and counts to those of the
+// next level's row above it: pixel ox takes the pixels 2 ox and 2 ox + 1
+// (the second cut off at the right edge), in that order.
+func cogMeanAddSums(rowSums []float64, rowCounts []int32, sums []float64, counts []int32) {
+	rowCounts = rowCounts[:len(rowSums)]
+	sums, counts = sums[:cogCeilDiv(len(rowSums), 2)], counts[:cogCeilDiv(len(rowSums), 2)]
+	ox := 0
+	for ; 2*ox+1 < len(rowSums); ox++ {
+		sums[ox] = sums[ox] + rowSums[2*ox] + rowSums[2*ox+1]
+		counts[ox] += rowCounts[2*ox] + rowCounts[2*ox+1]
+	}
+	if 2*ox < len(rowSums) {
+		sums[ox] += rowSums[2*ox]
+		counts[ox] += rowCounts[2*ox]
+	}
 }
 
 // cogMeanAddRow adds one full-resolution row to the sums and counts of

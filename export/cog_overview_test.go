@@ -1,6 +1,8 @@
 package export
 
 import (
+	"math"
+	"math/rand/v2"
 	"reflect"
 	"testing"
 )
@@ -67,6 +69,58 @@ func TestCOGModeOverview(t *testing.T) {
 	for _, w := range []int{1, 2} {
 		if got := cogModeOverview(data, 5, 4, 2, 0, w); !reflect.DeepEqual(got, want) {
 			t.Errorf("workers %d: mode overview %v, want %v", w, got, want)
+		}
+	}
+}
+
+// TestCOGMeanOverviewLevels: the sums built level by level give, at every
+// factor, the mean of the valid cells of each block summed directly in
+// float64 (the definition), to within one float32 unit in the last place
+// (only the order of the float64 additions differs), on random images with
+// no data, NaN and odd sizes; blocks with no valid cell are no data.
+func TestCOGMeanOverviewLevels(t *testing.T) {
+	const nd = -9999
+	r := rand.New(rand.NewPCG(3, 4))
+	for trial := range 40 {
+		cols, rows := 1+r.IntN(70), 1+r.IntN(70)
+		data := make([]float32, cols*rows)
+		for i := range data {
+			switch r.IntN(6) {
+			case 0:
+				data[i] = nd
+			case 1:
+				data[i] = float32(math.NaN())
+			default:
+				data[i] = float32(r.NormFloat64() * math.Pow(10, float64(r.IntN(9)-6)))
+			}
+		}
+		for f := 2; f <= 64; f *= 2 {
+			got := cogMeanOverview(data, cols, rows, f, nd, 1+trial%3)
+			oc := cogCeilDiv(cols, f)
+			for oy := range cogCeilDiv(rows, f) {
+				for ox := range oc {
+					s, n := 0.0, 0
+					for y := oy * f; y < min(oy*f+f, rows); y++ {
+						for x := ox * f; x < min(ox*f+f, cols); x++ {
+							if v := data[y*cols+x]; v != nd && v == v {
+								s += float64(v)
+								n++
+							}
+						}
+					}
+					g := got[oy*oc+ox]
+					if n == 0 {
+						if g != nd {
+							t.Fatalf("trial %d f %d (%d, %d): %v, want no data", trial, f, ox, oy, g)
+						}
+						continue
+					}
+					want := float32(s / float64(n))
+					if d := math.Float32bits(g) - math.Float32bits(want); g != want && d != 1 && d != math.MaxUint32 {
+						t.Fatalf("trial %d f %d (%d, %d): %v, want %v (direct sum)", trial, f, ox, oy, g, want)
+					}
+				}
+			}
 		}
 	}
 }

@@ -25,11 +25,17 @@ func EncodeIndexTIFF(w io.Writer, r *grid.Float32, opt TIFFOptions) error {
 		return errors.New("geotiff: nil index raster")
 	}
 	cols, rows := r.Spec.Cols, r.Spec.Rows
+	var sums cogMeanSums // of the last level made: each is made from the one before
 	return tiffEncodeRaster(w, r.Spec, len(r.Data), opt,
 		func(opt TIFFOptions) *tiffImage { return tiffIndexImage(r.Spec, r.NoData, opt) },
 		&tiffLevel{cols: cols, rows: rows, f32: r.Data},
 		func(f, workers int) *tiffLevel {
-			return &tiffLevel{f32: cogMeanOverview(r.Data, cols, rows, f, r.NoData, workers)}
+			if f == 2 {
+				sums = cogMeanLevel1(r.Data, cols, rows, r.NoData, workers)
+			} else {
+				sums = sums.half(workers)
+			}
+			return &tiffLevel{f32: sums.means(r.NoData)}
 		})
 }
 

@@ -207,8 +207,8 @@ func newTiffRowState(spec grid.Spec, nodata float32, s *classes.Scheme, wantInde
 	if wantIndex {
 		st.fimg = tiffIndexImage(spec, nodata, opt)
 		mk(st.fimg)
-		for k, sz := range sizes {
-			st.fov = append(st.fov, newTiffMeanAcc(sz[0], 2<<k, st.t, nodata))
+		for _, sz := range sizes {
+			st.fov = append(st.fov, newTiffMeanAcc(sz[0], st.t, nodata))
 		}
 	}
 	if s != nil && (wantBands || opt.OnBandRows != nil) {
@@ -373,11 +373,19 @@ func (st *tiffRowState) block(b tiffBlock, u8 []uint8) error {
 		nFull = len(st.list)
 		jobs := st.list[:nFull:nFull]
 		go func() { full <- tiffCompressJobs(jobs, st.opt, &st.compFull) }()
-		for y := range b.n {
-			row := b.f32[y*cols : (y+1)*cols]
+		for y := 0; y < b.n && len(st.fov) > 0; y++ {
+			// The first level sums the rows, each level above the finished
+			// rows of sums of the one below (cogMeanSums).
+			lastRow := last && y == b.n-1
+			st.fov[0].add(b.f32[y*cols : (y+1)*cols])
 			for k, acc := range st.fov {
-				acc.add(row)
-				if done := acc.endRow(last && y == b.n-1); done != nil {
+				if !acc.ready(lastRow) {
+					break // so are the levels above
+				}
+				if k+1 < len(st.fov) {
+					st.fov[k+1].addSums(acc.sums, acc.counts)
+				}
+				if done := acc.endRow(lastRow); done != nil {
 					st.addJobs(st.fimg, k+1, done, acc.ty-1)
 				}
 			}
@@ -417,10 +425,11 @@ func (st *tiffRowState) addJobs(img *tiffImage, li int, src *tiffLevel, ty int) 
 	}
 }
 
-// tiffMeanAcc builds one mean overview level (factor f) from full-resolution
-// rows: the sums and counts of the overview row being built, added in the
-// order cogMeanOverview adds them (row by row, west to east), so the bytes
-// agree; finished overview rows go to a tile row of t rows.
+// tiffMeanAcc builds one mean overview level: the sums and counts of the
+// overview row being built, from two full-resolution rows (the first
+// level) or two finished rows of sums of the level below, added in the
+// order cogMeanOverview adds them, so the bytes agree; finished overview
+// rows go to a tile row of t rows.
 type tiffMeanAcc struct {
 	tiffOverviewRows[float32]
 	nodata float32
@@ -428,8 +437,8 @@ type tiffMeanAcc struct {
 	counts []int32
 }
 
-func newTiffMeanAcc(oc, f, t int, nodata float32) *tiffMeanAcc {
-	return &tiffMeanAcc{tiffOverviewRows: newTiffOverviewRows[float32](oc, f, t), nodata: nodata,
+func newTiffMeanAcc(oc, t int, nodata float32) *tiffMeanAcc {
+	return &tiffMeanAcc{tiffOverviewRows: newTiffOverviewRows[float32](oc, 2, t), nodata: nodata,
 		sums: make([]float64, oc), counts: make([]int32, oc)}
 }
 
@@ -473,8 +482,15 @@ func (r *tiffOverviewRows[T]) next(lastRow bool) (rows int, tile []T) {
 	return rows, tile
 }
 
+// add adds a full-resolution row (the first level).
 func (a *tiffMeanAcc) add(row []float32) {
-	cogMeanAddRow(row, a.f, a.nodata, a.sums, a.counts)
+	cogMeanAddRow(row, 2, a.nodata, a.sums, a.counts)
+	a.in++
+}
+
+// addSums adds a finished row of sums and counts of the level below.
+func (a *tiffMeanAcc) addSums(sums []float64, counts []int32) {
+	cogMeanAddSums(sums, counts, a.sums, a.counts)
 	a.in++
 }
 
@@ -485,15 +501,9 @@ func (a *tiffMeanAcc) endRow(lastRow bool) *tiffLevel {
 	if !a.ready(lastRow) {
 		return nil
 	}
-	dst := a.row()
-	for ox := range dst {
-		if a.counts[ox] == 0 {
-			dst[ox] = a.nodata
-		} else {
-			dst[ox] = float32(a.sums[ox] / float64(a.counts[ox]))
-		}
-		a.sums[ox], a.counts[ox] = 0, 0
-	}
+	cogMeanRow(a.sums, a.counts, a.nodata, a.row())
+	clear(a.sums)
+	clear(a.counts)
 	rows, tile := a.next(lastRow)
 	if tile == nil {
 		return nil
