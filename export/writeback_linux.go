@@ -13,3 +13,9 @@ import (
 func startWriteback(f *os.File, off, n int64) {
 	unix.SyncFileRange(int(f.Fd()), off, n, unix.SYNC_FILE_RANGE_WRITE)
 }
+
+// syncData puts the data written to f so far on disk (fdatasync), while
+// the file is still being written.
+func syncData(f *os.File) error {
+	return unix.Fdatasync(int(f.Fd()))
+}
