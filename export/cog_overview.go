@@ -59,23 +59,14 @@ func cogParallel(n, workers int, fn func(i int)) {
 	wg.Wait()
 }
 
-// cogMeanOverview is the overview of data (cols x rows) reduced by factor f
-// (a power of two): each pixel is the mean, in float64 rounded to float32,
-// of the valid full-resolution cells of its f x f block (blocks on the
-// right and bottom edges are cut short by the image). Cells equal to
-// nodata or NaN are skipped; a block with none valid is nodata. The sums
-// are built level by level (cogMeanSums): a 2 x 2 block's sum from its
-// cells, a larger block's from the sums of its four quarters.
-func cogMeanOverview(data []float32, cols, rows, f int, nodata float32, workers int) []float32 {
-	s := cogMeanLevel1(data, cols, rows, nodata, workers)
-	for g := 2; g < f; g *= 2 {
-		s = s.half(workers)
-	}
-	return s.means(nodata)
-}
-
 // cogMeanSums are the sums and counts of the valid cells under each pixel
-// of a mean overview (cols x rows).
+// of a mean overview (cols x rows). A mean overview's pixel is the mean,
+// in float64 rounded to float32, of the valid full-resolution cells of its
+// f x f block (blocks on the right and bottom edges cut short by the
+// image); cells equal to nodata or NaN are skipped, and a block with none
+// valid is nodata. The sums are built level by level: a 2 x 2 block's
+// from its cells (cogMeanLevel1), a larger block's from the sums of its
+// four quarters (half).
 type cogMeanSums struct {
 	cols, rows int
 	sums       []float64

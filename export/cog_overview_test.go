@@ -30,6 +30,16 @@ func TestCOGLevelSizes(t *testing.T) {
 	}
 }
 
+// cogMeanOverview is the mean overview of data (cols x rows) reduced by
+// factor f (a power of two), made as the encoders make it (cogMeanSums).
+func cogMeanOverview(data []float32, cols, rows, f int, nodata float32, workers int) []float32 {
+	s := cogMeanLevel1(data, cols, rows, nodata, workers)
+	for g := 2; g < f; g *= 2 {
+		s = s.half(workers)
+	}
+	return s.means(nodata)
+}
+
 // TestCOGMeanOverview: worked by hand. A 3 x 3 image halved gives 2 x 2;
 // blocks on the right and bottom edges are cut short by the image.
 func TestCOGMeanOverview(t *testing.T) {

@@ -428,7 +428,7 @@ func (st *tiffRowState) addJobs(img *tiffImage, li int, src *tiffLevel, ty int) 
 // tiffMeanAcc builds one mean overview level: the sums and counts of the
 // overview row being built, from two full-resolution rows (the first
 // level) or two finished rows of sums of the level below, added in the
-// order cogMeanOverview adds them, so the bytes agree; finished overview
+// order cogMeanSums adds them, so the bytes agree; finished overview
 // rows go to a tile row of t rows.
 type tiffMeanAcc struct {
 	tiffOverviewRows[float32]

@@ -272,8 +272,7 @@ func (w *lonWindow) spans(lons []float64, lom1, him1 []int64) {
 			c++
 			continue
 		}
-		n := spanRun(sl, lons[c:], lom1[c:len(lons)], him1[c:len(lons)], w.dl, w)
-		c += n
+		c += spanRun(sl, lons[c:], lom1[c:len(lons)], him1[c:len(lons)], w)
 	}
 	for c := len(lons); c < len(lom1); c++ {
 		lom1[c], him1[c] = lom1[c-1], him1[c-1]
@@ -285,8 +284,8 @@ func (w *lonWindow) spans(lons []float64, lom1, him1 []int64) {
 // how many columns it took. sl are the row's longitudes with two +Inf
 // sentinels. A leaf function, so that its loop keeps everything in
 // registers.
-func spanRun(sl, lons []float64, lom1, him1 []int64, dl float64, w *lonWindow) int {
-	lo, hi, prev := w.lo, w.hi, w.prev
+func spanRun(sl, lons []float64, lom1, him1 []int64, w *lonWindow) int {
+	lo, hi, prev, dl := w.lo, w.hi, w.prev, w.dl
 	c := 0
 	for ; c < len(lons) && c < len(lom1) && c < len(him1); c++ {
 		l := lons[c]

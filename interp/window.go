@@ -74,13 +74,13 @@ var exactWeight = 0.5 / exactChordSq
 
 // windowGroup is one call of the kernel: the stations j0 .. j0+m-1 of the
 // row's x, y, z, v (the union of the windows) and the cells c0 .. c0+3 of
-// the row's columns: lane l is the cell at the unit vector (cp cos[c0+l],
-// cp sin[c0+l], cz[l]) (cp the cosine of the row's latitude; each
-// product rounded, as the other paths of the grid have it) whose own
-// window is the row's stations lom1[c0+l]+1 .. him1[c0+l]. The slices are the row's, set once a row; a group sets j0,
-// m and c0. The first pass writes d2 (station j0+j, lane l at d2[4j+l]), n
-// and top; the second reads d2 and tau and writes the sums. The layout is
-// the one window_amd64.s reads.
+// the row's columns. Lane l is the cell at the unit vector (cp cos[c0+l],
+// cp sin[c0+l], cz[l]), cp the cosine of the row's latitude (each product
+// rounded, as the other paths of the grid have it), whose own window is
+// the row's stations lom1[c0+l]+1 .. him1[c0+l]. The slices are the row's,
+// set once a row; a group sets j0, m and c0. The first pass writes d2
+// (station j0+j, lane l at d2[4j+l]), n and top; the second reads d2 and
+// tau and writes the sums. The layout is the one window_amd64.s reads.
 type windowGroup struct {
 	x, y, z, v []float64
 	d2         []float64
