@@ -373,22 +373,8 @@ func (st *tiffRowState) block(b tiffBlock, u8 []uint8) error {
 		nFull = len(st.list)
 		jobs := st.list[:nFull:nFull]
 		go func() { full <- tiffCompressJobs(jobs, st.opt, &st.compFull) }()
-		for y := 0; y < b.n && len(st.fov) > 0; y++ {
-			// The first level sums the rows, each level above the finished
-			// rows of sums of the one below (cogMeanSums).
-			lastRow := last && y == b.n-1
-			st.fov[0].add(b.f32[y*cols : (y+1)*cols])
-			for k, acc := range st.fov {
-				if !acc.ready(lastRow) {
-					break // so are the levels above
-				}
-				if k+1 < len(st.fov) {
-					st.fov[k+1].addSums(acc.sums, acc.counts)
-				}
-				if done := acc.endRow(lastRow); done != nil {
-					st.addJobs(st.fimg, k+1, done, acc.ty-1)
-				}
-			}
+		for y := range b.n {
+			st.foldMeans(b.f32[y*cols:(y+1)*cols], last && y == b.n-1)
 		}
 	}
 	if st.classify {
@@ -414,6 +400,27 @@ func (st *tiffRowState) block(b tiffBlock, u8 []uint8) error {
 		return err
 	}
 	return st.spillTiles()
+}
+
+// foldMeans adds a full-resolution row to the mean overviews: the first
+// level sums the rows, each level above the finished rows of sums of the
+// one below (cogMeanSums); finished tile rows are queued.
+func (st *tiffRowState) foldMeans(row []float32, lastRow bool) {
+	if len(st.fov) == 0 {
+		return
+	}
+	st.fov[0].add(row)
+	for k, acc := range st.fov {
+		if !acc.ready(lastRow) {
+			return // so are the levels above
+		}
+		if k+1 < len(st.fov) {
+			st.fov[k+1].addSums(acc.sums, acc.counts)
+		}
+		if done := acc.endRow(lastRow); done != nil {
+			st.addJobs(st.fimg, k+1, done, acc.ty-1)
+		}
+	}
 }
 
 // addJobs queues the tiles of tile row ty of level li, held in src.

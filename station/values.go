@@ -228,7 +228,6 @@ func readValues(t *Table, opt ValueOptions) (*Values, error) {
 	for {
 		r, ok, err := rd.next()
 		if err != nil {
-			v.Read = rd.read
 			return nil, err
 		}
 		if !ok {
