@@ -8,7 +8,7 @@ import (
 	"math"
 	"strconv"
 
-	"drygrid/classes"
+	"drygrid/bands"
 	"drygrid/grid"
 )
 
@@ -35,7 +35,7 @@ type GeoJSONOptions struct {
 // to w; coordinates are formatted with strconv, not encoding/json, to get a
 // fixed number of decimals and to avoid holding a whole band's text in
 // memory. A code in r that the scheme lacks is an error (nothing written).
-func WriteBandsGeoJSON(w io.Writer, r *grid.Uint8, s *classes.Scheme, opt GeoJSONOptions) error {
+func WriteBandsGeoJSON(w io.Writer, r *grid.Uint8, s *bands.Scheme, opt GeoJSONOptions) error {
 	if r == nil || s == nil {
 		return fmt.Errorf("bands geojson: nil raster or scheme")
 	}

@@ -7,7 +7,7 @@ import (
 	"io"
 	"math"
 
-	"drygrid/classes"
+	"drygrid/bands"
 
 	"github.com/paulmach/orb"
 	"github.com/paulmach/orb/geojson"
@@ -30,7 +30,7 @@ type StationPoint struct {
 // foreign member "drygrid": {caution, generated_by, params}. Each Feature is
 // encoded by paulmach/orb/geojson (encoding/json: sorted property keys,
 // shortest round-trip numbers, so deterministic) and streamed to w.
-func WriteStationsGeoJSON(w io.Writer, pts []StationPoint, s *classes.Scheme, opt GeoJSONOptions) error {
+func WriteStationsGeoJSON(w io.Writer, pts []StationPoint, s *bands.Scheme, opt GeoJSONOptions) error {
 	meta, err := gjMeta(opt)
 	if err != nil {
 		return fmt.Errorf("stations geojson: %w", err)

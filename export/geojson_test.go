@@ -14,7 +14,7 @@ import (
 	"strings"
 	"testing"
 
-	"drygrid/classes"
+	"drygrid/bands"
 	"drygrid/grid"
 	"drygrid/internal/reftest"
 
@@ -137,7 +137,7 @@ func TestWriteBandsGeoJSONFormat(t *testing.T) {
 	r.Data[0] = 0
 	var b bytes.Buffer
 	opt := GeoJSONOptions{Caution: "test caution", Params: map[string]any{"power": 2, "neighbors": 12}}
-	if err := WriteBandsGeoJSON(&b, r, classes.Default(), opt); err != nil {
+	if err := WriteBandsGeoJSON(&b, r, bands.Default(), opt); err != nil {
 		t.Fatal(err)
 	}
 	var doc struct {
@@ -174,7 +174,7 @@ func TestWriteBandsGeoJSONFormat(t *testing.T) {
 			Props map[string]any `json:"properties"`
 		}
 		json.Unmarshal(raw, &f)
-		band := classes.Default().Bands[k]
+		band := bands.Default().Bands[k]
 		if f.Props["code"] != float64(band.Code) || f.Props["key"] != band.Key || f.Props["label"] != band.Label ||
 			f.Props["color"] != band.Color || f.Props["drought"] != band.Drought {
 			t.Errorf("feature %d properties %v, want band %+v", k, f.Props, band)
@@ -182,7 +182,7 @@ func TestWriteBandsGeoJSONFormat(t *testing.T) {
 	}
 	// Deterministic: a second write is byte-identical.
 	var b2 bytes.Buffer
-	WriteBandsGeoJSON(&b2, r, classes.Default(), opt)
+	WriteBandsGeoJSON(&b2, r, bands.Default(), opt)
 	if !bytes.Equal(b.Bytes(), b2.Bytes()) {
 		t.Error("two writes differ")
 	}
@@ -210,7 +210,7 @@ func TestWriteBandsGeoJSONEarthArea(t *testing.T) {
 		r.Data[i] = 5
 	}
 	var b bytes.Buffer
-	if err := WriteBandsGeoJSON(&b, r, classes.Default(), GeoJSONOptions{}); err != nil {
+	if err := WriteBandsGeoJSON(&b, r, bands.Default(), GeoJSONOptions{}); err != nil {
 		t.Fatal(err)
 	}
 	var doc struct {
@@ -233,18 +233,18 @@ func TestWriteBandsGeoJSONErrors(t *testing.T) {
 	r := grid.NewUint8(sp, 0)
 	r.Data[0] = 42
 	var b bytes.Buffer
-	if err := WriteBandsGeoJSON(&b, r, classes.Default(), GeoJSONOptions{}); err == nil || !strings.Contains(err.Error(), "code 42") {
+	if err := WriteBandsGeoJSON(&b, r, bands.Default(), GeoJSONOptions{}); err == nil || !strings.Contains(err.Error(), "code 42") {
 		t.Errorf("unknown code: err %v", err)
 	}
 	r.Data = r.Data[:1]
-	if err := WriteBandsGeoJSON(&b, r, classes.Default(), GeoJSONOptions{}); err == nil {
+	if err := WriteBandsGeoJSON(&b, r, bands.Default(), GeoJSONOptions{}); err == nil {
 		t.Error("short raster: no error")
 	}
 	r.Data = []uint8{1, 2}
-	if err := WriteBandsGeoJSON(&b, r, classes.Default(), GeoJSONOptions{SimplifyKm: math.NaN()}); err == nil {
+	if err := WriteBandsGeoJSON(&b, r, bands.Default(), GeoJSONOptions{SimplifyKm: math.NaN()}); err == nil {
 		t.Error("NaN tolerance: no error")
 	}
-	if err := WriteBandsGeoJSON(&b, r, classes.Default(), GeoJSONOptions{Params: map[string]any{"x": math.Inf(1)}}); err == nil {
+	if err := WriteBandsGeoJSON(&b, r, bands.Default(), GeoJSONOptions{Params: map[string]any{"x": math.Inf(1)}}); err == nil {
 		t.Error("unencodable parameter: no error")
 	}
 }
@@ -287,7 +287,7 @@ func TestBandsGeoJSONOgrinfo(t *testing.T) {
 // gjWriteTestFile writes the band layer of r to path.
 func gjWriteTestFile(path string, r *grid.Uint8) error {
 	var b bytes.Buffer
-	if err := WriteBandsGeoJSON(&b, r, classes.Default(), GeoJSONOptions{}); err != nil {
+	if err := WriteBandsGeoJSON(&b, r, bands.Default(), GeoJSONOptions{}); err != nil {
 		return err
 	}
 	return os.WriteFile(path, b.Bytes(), 0o644)
@@ -304,7 +304,7 @@ func TestStationsGeoJSON(t *testing.T) {
 		{ID: "S-003", Lon: -170, Lat: 0, Value: math.NaN(), Z: 0.1, HasZ: true, Code: 5, InGrid: true},
 	}
 	var b bytes.Buffer
-	if err := WriteStationsGeoJSON(&b, pts, classes.Default(), GeoJSONOptions{Params: map[string]any{"kind": "spi"}}); err != nil {
+	if err := WriteStationsGeoJSON(&b, pts, bands.Default(), GeoJSONOptions{Params: map[string]any{"kind": "spi"}}); err != nil {
 		t.Fatal(err)
 	}
 	var doc struct {
@@ -352,7 +352,7 @@ func TestStationsGeoJSON(t *testing.T) {
 		t.Errorf("ogrinfo feature count %d, want 3", n)
 	}
 	bad := []StationPoint{{ID: "X", Lon: math.NaN(), Lat: 0}}
-	if err := WriteStationsGeoJSON(&b, bad, classes.Default(), GeoJSONOptions{}); err == nil || !strings.Contains(err.Error(), `"X"`) {
+	if err := WriteStationsGeoJSON(&b, bad, bands.Default(), GeoJSONOptions{}); err == nil || !strings.Contains(err.Error(), `"X"`) {
 		t.Errorf("NaN longitude: err %v", err)
 	}
 }
@@ -374,7 +374,7 @@ func TestBandsGeoJSONAntimeridianBBox(t *testing.T) {
 			r.Data[i] = 5
 		}
 		var b bytes.Buffer
-		if err := WriteBandsGeoJSON(&b, r, classes.Default(), GeoJSONOptions{}); err != nil {
+		if err := WriteBandsGeoJSON(&b, r, bands.Default(), GeoJSONOptions{}); err != nil {
 			t.Fatal(err)
 		}
 		var doc struct {
@@ -399,7 +399,7 @@ func TestBandsGeoJSONDeterministic(t *testing.T) {
 			for k := range out {
 				runtime.GOMAXPROCS(k + 1)
 				var b bytes.Buffer
-				if err := WriteBandsGeoJSON(&b, c.r, classes.Default(), GeoJSONOptions{SimplifyKm: km, Params: map[string]any{"b": 1, "a": 2}}); err != nil {
+				if err := WriteBandsGeoJSON(&b, c.r, bands.Default(), GeoJSONOptions{SimplifyKm: km, Params: map[string]any{"b": 1, "a": 2}}); err != nil {
 					t.Fatal(err)
 				}
 				out[k] = b.Bytes()

@@ -10,7 +10,7 @@ import (
 	"strconv"
 	"strings"
 
-	"drygrid/classes"
+	"drygrid/bands"
 	"drygrid/grid"
 )
 
@@ -47,7 +47,7 @@ func EncodeIndexTIFF(w io.Writer, r *grid.Float32, opt TIFFOptions) error {
 // overviews: each overview pixel is the code found most often among the
 // full-resolution cells it covers, no data ignored unless every cell is no
 // data, ties going to the lowest code.
-func EncodeBandsTIFF(w io.Writer, r *grid.Uint8, s *classes.Scheme, opt TIFFOptions) error {
+func EncodeBandsTIFF(w io.Writer, r *grid.Uint8, s *bands.Scheme, opt TIFFOptions) error {
 	if r == nil || s == nil {
 		return errors.New("geotiff: nil band raster or scheme")
 	}
@@ -105,7 +105,7 @@ func WriteIndexTIFF(path string, r *grid.Float32, opt TIFFOptions) error {
 // WriteBandsTIFF writes EncodeBandsTIFF's output to path, then the GDAL PAM
 // sidecar path+".aux.xml" with the band labels as category names, both
 // through temporary files renamed at the end.
-func WriteBandsTIFF(path string, r *grid.Uint8, s *classes.Scheme, opt TIFFOptions) error {
+func WriteBandsTIFF(path string, r *grid.Uint8, s *bands.Scheme, opt TIFFOptions) error {
 	if err := WriteFileAtomic(path, func(w *bufio.Writer) error { return EncodeBandsTIFF(w, r, s, opt) }); err != nil {
 		return err
 	}
@@ -158,7 +158,7 @@ func tiffFormatNoData(v float64) string {
 // tiffColorMap is the TIFF ColorMap (tag 320, TIFF 6.0 section 5): 256 red,
 // then 256 green, then 256 blue values on 0..65535; each band's colour at its
 // code (8-bit c scaled by 257 so 255 maps to 65535), black elsewhere.
-func tiffColorMap(s *classes.Scheme) []uint16 {
+func tiffColorMap(s *bands.Scheme) []uint16 {
 	cm := make([]uint16, 3*256)
 	for _, b := range s.Bands {
 		c := b.RGBA()
@@ -217,7 +217,7 @@ func tiffXMLEscape(s string) string {
 // codes of band 1: CategoryNames entry i names code i (GDAL's PAM format,
 // gcore/gdalpamrasterband.cpp), "No data" at the no-data code, each band's
 // label at its code and "" for unused codes up to the largest.
-func TIFFCategoryAux(s *classes.Scheme, nodata uint8) string {
+func TIFFCategoryAux(s *bands.Scheme, nodata uint8) string {
 	n := int(max(s.MaxCode(), nodata)) + 1
 	names := make([]string, n)
 	names[nodata] = "No data"

@@ -11,7 +11,7 @@ import (
 	"strings"
 	"testing"
 
-	"drygrid/classes"
+	"drygrid/bands"
 	"drygrid/grid"
 	"drygrid/internal/reftest"
 )
@@ -55,7 +55,7 @@ func TestIndexTIFFReadByGDAL(t *testing.T) {
 }
 
 func TestBandsTIFFReadByGDAL(t *testing.T) {
-	s := classes.Default()
+	s := bands.Default()
 	r := tiffTestBands(tiffTestField(tiffCOGSpec), s)
 	path := filepath.Join(t.TempDir(), "bands.tif")
 	if err := WriteBandsTIFF(path, r, s, DefaultTIFFOptions()); err != nil {
@@ -104,7 +104,7 @@ func TestBandsTIFFReadByGDAL(t *testing.T) {
 func TestCOGValidatorCommandLine(t *testing.T) {
 	py := reftest.Python(t, "osgeo_utils.samples.validate_cloud_optimized_geotiff")
 	dir := t.TempDir()
-	s := classes.Default()
+	s := bands.Default()
 	f := tiffTestField(tiffCOGSpec)
 	if err := WriteIndexTIFF(filepath.Join(dir, "index.tif"), f, DefaultTIFFOptions()); err != nil {
 		t.Fatal(err)
@@ -149,7 +149,7 @@ func TestTIFFAntimeridian(t *testing.T) {
 // one or both directions and small tiles, an all-no-data raster (with
 // overviews, which must all be no data), and NaN cells written as no data.
 func TestTIFFSmallAndEdgeCases(t *testing.T) {
-	s := classes.Default()
+	s := bands.Default()
 	cases := []struct {
 		name string
 		spec grid.Spec
@@ -209,7 +209,7 @@ func TestTIFFSmallAndEdgeCases(t *testing.T) {
 // TestTIFFBigTIFF forces BigTIFF (the BigTIFF proposal, Aware Systems; magic
 // 43, 8-byte offsets) and checks GDAL and its COG validator read it.
 func TestTIFFBigTIFF(t *testing.T) {
-	s := classes.Default()
+	s := bands.Default()
 	f := tiffTestField(tiffCOGSpec)
 	opt := DefaultTIFFOptions()
 	opt.BigTIFF = 1
@@ -266,7 +266,7 @@ func TestTIFFChooseBig(t *testing.T) {
 // TestTIFFDeterministic: the bytes do not depend on the number of workers
 // (team rule: byte-identical output for any core count).
 func TestTIFFDeterministic(t *testing.T) {
-	s := classes.Default()
+	s := bands.Default()
 	f := tiffTestField(tiffCOGSpec)
 	b := tiffTestBands(f, s)
 	var ref [2][]byte

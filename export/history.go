@@ -15,13 +15,13 @@ import (
 	"strings"
 	"time"
 
-	"drygrid/classes"
-	"drygrid/grid"
+	"drygrid/bands"
+	"drygrid/region"
 )
 
 // HistoryHeader is the history CSV header: date, then the regions.csv
 // columns (RegionsHeader).
-func HistoryHeader(s *classes.Scheme) []string {
+func HistoryHeader(s *bands.Scheme) []string {
 	return append([]string{"date"}, RegionsHeader(s)...)
 }
 
@@ -39,7 +39,7 @@ func histCheckDate(date string) error {
 // date order (regions in the order given within a date). A history whose
 // header differs from this scheme's (another scheme, another format) is an
 // error and the file is left untouched; the file is rewritten atomically.
-func AppendHistory(path, date string, stats []grid.ZonalStats, s *classes.Scheme) error {
+func AppendHistory(path, date string, stats []region.ZonalStats, s *bands.Scheme) error {
 	if err := histCheckDate(date); err != nil {
 		return fmt.Errorf("history %s: %w", path, err)
 	}

@@ -7,12 +7,12 @@ import (
 	"strings"
 	"testing"
 
-	"drygrid/classes"
-	"drygrid/grid"
+	"drygrid/bands"
+	"drygrid/region"
 )
 
-func histStats(key string, drought, covered float64) grid.ZonalStats {
-	z := grid.ZonalStats{Key: key, AreaKm2: 100, CoveredKm2: covered, CodeKm2: make([]float64, 256)}
+func histStats(key string, drought, covered float64) region.ZonalStats {
+	z := region.ZonalStats{Key: key, AreaKm2: 100, CoveredKm2: covered, CodeKm2: make([]float64, 256)}
 	z.CodeKm2[1] = drought
 	z.CodeKm2[5] = covered - drought
 	return z
@@ -23,10 +23,10 @@ func histStats(key string, drought, covered float64) grid.ZonalStats {
 // leaves the file as it was.
 func TestAppendHistory(t *testing.T) {
 	path := filepath.Join(t.TempDir(), "history.csv")
-	s := classes.Default()
+	s := bands.Default()
 	day := func(date string, a, b float64) {
 		t.Helper()
-		if err := AppendHistory(path, date, []grid.ZonalStats{histStats("north", a, 80), histStats("south", b, 50)}, s); err != nil {
+		if err := AppendHistory(path, date, []region.ZonalStats{histStats("north", a, 80), histStats("south", b, 50)}, s); err != nil {
 			t.Fatal(err)
 		}
 	}
@@ -52,11 +52,11 @@ func TestAppendHistory(t *testing.T) {
 		t.Errorf("read back %+v", h)
 	}
 
-	other := &classes.Scheme{Name: "two", Bands: []classes.Band{
+	other := &bands.Scheme{Name: "two", Bands: []bands.Band{
 		{Code: 1, Key: "dry", Min: math.Inf(-1), Max: 0, MaxInclusive: true, Color: "#000000", Drought: true},
 		{Code: 2, Key: "wet", Min: 0, Max: math.Inf(1), Color: "#ffffff"},
 	}}
-	err = AppendHistory(path, "2026-05-03", []grid.ZonalStats{histStats("north", 1, 2)}, other)
+	err = AppendHistory(path, "2026-05-03", []region.ZonalStats{histStats("north", 1, 2)}, other)
 	if err == nil || !strings.Contains(err.Error(), "line 1: the header has 16 columns, this scheme's has 9") {
 		t.Errorf("other scheme: %v", err)
 	}

@@ -15,7 +15,7 @@ import (
 	"strconv"
 	"strings"
 
-	"drygrid/classes"
+	"drygrid/bands"
 )
 
 // PageRegionRow is one region's line in the page's table and tooltip.
@@ -32,7 +32,7 @@ type PageRegionRow struct {
 type PageInput struct {
 	Title, Subtitle string
 	Caution         string // empty gives MapCaution
-	Scheme          *classes.Scheme
+	Scheme          *bands.Scheme
 	// RFC 7946 documents from the team's writers; nil or empty leaves the
 	// layer out. Bands: properties code, key, label, color, drought,
 	// area_km2. Stations: id, value, z, code, key, in_grid.

@@ -5,7 +5,7 @@ import (
 	"math"
 	"testing"
 
-	"drygrid/classes"
+	"drygrid/bands"
 
 	"github.com/paulmach/orb"
 	"github.com/paulmach/orb/geojson"
@@ -18,7 +18,7 @@ import (
 // not a reference for anything.
 func pageFixtureInput(t testing.TB, f *picFixture) PageInput {
 	t.Helper()
-	s := classes.Default()
+	s := bands.Default()
 	spec := f.spec
 	byCode := map[uint8]orb.MultiPolygon{}
 	for r := 0; r < spec.Rows; r++ {

@@ -15,7 +15,7 @@ import (
 	"strings"
 	"testing"
 
-	"drygrid/classes"
+	"drygrid/bands"
 	"drygrid/internal/reftest"
 )
 
@@ -83,7 +83,7 @@ func TestPageWellFormed(t *testing.T) {
 	py := reftest.Python(t, "html.parser")
 	for _, in := range []PageInput{
 		pageFixtureInput(t, picMakeFixture(t, 164, -48, 178, -34, 0.5)),
-		{Scheme: classes.Default(), BBox: [4]float64{-180, -90, 180, 90}}, // no layers, no regions
+		{Scheme: bands.Default(), BBox: [4]float64{-180, -90, 180, 90}}, // no layers, no regions
 	} {
 		file := filepath.Join(t.TempDir(), "map.html")
 		if err := WritePage(file, in); err != nil {
@@ -113,7 +113,7 @@ func TestPageContent(t *testing.T) {
 		"Parched": "z ≤ -2.0", "Very dry": "-2.0 &lt; z ≤ -1.5", "Dry": "-1.5 &lt; z ≤ -1.0", "Drying": "-1.0 &lt; z ≤ -0.5",
 		"Near normal": "-0.5 &lt; z &lt; 0.5", "Moist": "0.5 ≤ z &lt; 1.0", "Wet": "1.0 ≤ z &lt; 1.5", "Very wet": "1.5 ≤ z &lt; 2.0", "Soaked": "z ≥ 2.0",
 	}
-	for _, b := range classes.Default().Bands {
+	for _, b := range bands.Default().Bands {
 		item := `fill="` + picDesignColours[b.Code] + `" stroke="#808080"></rect></svg><span class="legend-label">` + b.Label +
 			`</span><span class="legend-range">` + want[b.Label] + `</span>`
 		if !strings.Contains(page, item) {
@@ -142,7 +142,7 @@ func TestPageContent(t *testing.T) {
 func TestPageEmbedsSafely(t *testing.T) {
 	doc := `{"type":"FeatureCollection","features":[{"type":"Feature","geometry":{"type":"Point","coordinates":[1,2]},` +
 		`"properties":{"id":"</script><script>alert(1)</script><!--","value":1,"z":0.1,"code":5,"key":"normal","in_grid":true}}]}`
-	in := PageInput{Scheme: classes.Default(), StationsGeoJSON: []byte(doc), BBox: [4]float64{0, 0, 10, 10}}
+	in := PageInput{Scheme: bands.Default(), StationsGeoJSON: []byte(doc), BBox: [4]float64{0, 0, 10, 10}}
 	page := pageEncodeT(t, in)
 	if n, m := strings.Count(page, "<script"), strings.Count(page, "</script>"); n != 5 || m != 5 {
 		t.Errorf("%d <script and %d </script>, want 5 each", n, m)
@@ -169,13 +169,13 @@ func TestPageRejects(t *testing.T) {
 		want string
 	}{
 		"no scheme":     {PageInput{BBox: ok}, "no band scheme"},
-		"bad bbox":      {PageInput{Scheme: classes.Default(), BBox: [4]float64{10, 0, 0, 10}}, "bbox"},
-		"NaN bbox":      {PageInput{Scheme: classes.Default(), BBox: [4]float64{math.NaN(), 0, 1, 1}}, "not finite"},
-		"wide bbox":     {PageInput{Scheme: classes.Default(), BBox: [4]float64{-180, 0, 200, 1}}, "bbox"},
-		"bad bands":     {PageInput{Scheme: classes.Default(), BBox: ok, BandsGeoJSON: []byte(`{"type":`)}, "bands GeoJSON"},
-		"bad regions":   {PageInput{Scheme: classes.Default(), BBox: ok, RegionsGeoJSON: []byte(`{} {}`)}, "regions GeoJSON"},
-		"bad colour":    {PageInput{Scheme: &classes.Scheme{Bands: []classes.Band{{Code: 1, Key: "a", Label: "A", Color: "red"}}}, BBox: ok}, "colour"},
-		"colour inject": {PageInput{Scheme: &classes.Scheme{Bands: []classes.Band{{Code: 1, Key: "a", Label: "A", Color: `#aabbcc"x`}}}, BBox: ok}, "colour"},
+		"bad bbox":      {PageInput{Scheme: bands.Default(), BBox: [4]float64{10, 0, 0, 10}}, "bbox"},
+		"NaN bbox":      {PageInput{Scheme: bands.Default(), BBox: [4]float64{math.NaN(), 0, 1, 1}}, "not finite"},
+		"wide bbox":     {PageInput{Scheme: bands.Default(), BBox: [4]float64{-180, 0, 200, 1}}, "bbox"},
+		"bad bands":     {PageInput{Scheme: bands.Default(), BBox: ok, BandsGeoJSON: []byte(`{"type":`)}, "bands GeoJSON"},
+		"bad regions":   {PageInput{Scheme: bands.Default(), BBox: ok, RegionsGeoJSON: []byte(`{} {}`)}, "regions GeoJSON"},
+		"bad colour":    {PageInput{Scheme: &bands.Scheme{Bands: []bands.Band{{Code: 1, Key: "a", Label: "A", Color: "red"}}}, BBox: ok}, "colour"},
+		"colour inject": {PageInput{Scheme: &bands.Scheme{Bands: []bands.Band{{Code: 1, Key: "a", Label: "A", Color: `#aabbcc"x`}}}, BBox: ok}, "colour"},
 	} {
 		var b bytes.Buffer
 		err := EncodePage(&b, c.in)
@@ -184,7 +184,7 @@ func TestPageRejects(t *testing.T) {
 		}
 	}
 	// NaN statistics are shown as a dash and sent as JSON null.
-	in := PageInput{Scheme: classes.Default(), BBox: ok, Regions: []PageRegionRow{{Name: "Empty", MeanZ: math.NaN(), CoveredPct: 0, SharePct: map[string]float64{"dry": math.Inf(1)}}}}
+	in := PageInput{Scheme: bands.Default(), BBox: ok, Regions: []PageRegionRow{{Name: "Empty", MeanZ: math.NaN(), CoveredPct: 0, SharePct: map[string]float64{"dry": math.Inf(1)}}}}
 	p := pageEncodeT(t, in)
 	if !strings.Contains(p, `<td data-v="">–</td>`) || !strings.Contains(p, `"mean_z":null`) {
 		t.Error("NaN mean z must show as a dash and encode as null")

@@ -10,7 +10,7 @@ import (
 	"io"
 	"math"
 
-	"drygrid/classes"
+	"drygrid/bands"
 	"drygrid/grid"
 
 	"github.com/paulmach/orb"
@@ -28,8 +28,8 @@ type PictureRegion struct {
 
 // PictureInput is what map.png shows.
 type PictureInput struct {
-	Bands    *grid.Uint8     // band codes; Bands.NoData (usually 0) is drawn as no data
-	Scheme   *classes.Scheme // labels and colours of the codes
+	Bands    *grid.Uint8   // band codes; Bands.NoData (usually 0) is drawn as no data
+	Scheme   *bands.Scheme // labels and colours of the codes
 	Stations []PicturePoint
 	Regions  []PictureRegion
 	Title    string // e.g. "Kelverin Islands (fictitious) - SPI, 30 days ending 30 November 2025"

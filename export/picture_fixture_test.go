@@ -4,7 +4,7 @@ import (
 	"math"
 	"testing"
 
-	"drygrid/classes"
+	"drygrid/bands"
 	"drygrid/grid"
 
 	"github.com/paulmach/orb"
@@ -47,7 +47,7 @@ func picMakeFixture(t testing.TB, west, south, east, north, res float64) *picFix
 		u, v := (lon-w)/lw, (n-lat)/lh
 		return 2.8*math.Cos(math.Pi*(u+0.6*v)) + 0.4*math.Sin(7*u)
 	}
-	s := classes.Default()
+	s := bands.Default()
 	f.bands = grid.NewUint8(spec, 0)
 	for r := 0; r < spec.Rows; r++ {
 		for c := 0; c < spec.Cols; c++ {
@@ -82,7 +82,7 @@ func picMakeFixture(t testing.TB, west, south, east, north, res float64) *picFix
 
 func (f *picFixture) input() PictureInput {
 	return PictureInput{
-		Bands: f.bands, Scheme: classes.Default(), Stations: f.stations, Regions: f.regions,
+		Bands: f.bands, Scheme: bands.Default(), Stations: f.stations, Regions: f.regions,
 		Title:    "Kelverin Islands (fictitious) - SPI, 30 days ending 30 November 2025",
 		Subtitle: "IDW power 2, 12 neighbours, 300 km; 214 stations",
 	}

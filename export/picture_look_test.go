@@ -9,7 +9,7 @@ import (
 	"strings"
 	"testing"
 
-	"drygrid/classes"
+	"drygrid/bands"
 )
 
 // lookDir is $name when set (the files are kept there for a person, or a
@@ -48,7 +48,7 @@ func lookPage(t *testing.T, path string) {
 		t.Fatal(err)
 	}
 	page := string(data)
-	for _, b := range classes.Default().Bands {
+	for _, b := range bands.Default().Bands {
 		if !strings.Contains(page, html.EscapeString(b.Label)) {
 			t.Errorf("%s: no label %q", path, b.Label)
 		}

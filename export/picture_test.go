@@ -11,7 +11,7 @@ import (
 	"strings"
 	"testing"
 
-	"drygrid/classes"
+	"drygrid/bands"
 	"drygrid/grid"
 	"drygrid/internal/reftest"
 
@@ -297,14 +297,14 @@ func TestPictureRejects(t *testing.T) {
 		in  PictureInput
 		opt PictureOptions
 	}{
-		"no bands":    {PictureInput{Scheme: classes.Default()}, PictureOptions{}},
+		"no bands":    {PictureInput{Scheme: bands.Default()}, PictureOptions{}},
 		"no scheme":   {PictureInput{Bands: good}, PictureOptions{}},
-		"short data":  {PictureInput{Bands: short, Scheme: classes.Default()}, PictureOptions{}},
-		"empty grid":  {PictureInput{Bands: &grid.Uint8{Spec: grid.Spec{Res: 1}}, Scheme: classes.Default()}, PictureOptions{}},
-		"NaN res":     {PictureInput{Bands: &grid.Uint8{Spec: grid.Spec{Res: math.NaN(), Cols: 1, Rows: 1}, Data: []uint8{0}}, Scheme: classes.Default()}, PictureOptions{}},
-		"narrow":      {PictureInput{Bands: good, Scheme: classes.Default()}, PictureOptions{Width: 100}},
-		"huge width":  {PictureInput{Bands: good, Scheme: classes.Default()}, PictureOptions{Width: 100000}},
-		"empty bands": {PictureInput{Bands: good, Scheme: &classes.Scheme{}}, PictureOptions{}},
+		"short data":  {PictureInput{Bands: short, Scheme: bands.Default()}, PictureOptions{}},
+		"empty grid":  {PictureInput{Bands: &grid.Uint8{Spec: grid.Spec{Res: 1}}, Scheme: bands.Default()}, PictureOptions{}},
+		"NaN res":     {PictureInput{Bands: &grid.Uint8{Spec: grid.Spec{Res: math.NaN(), Cols: 1, Rows: 1}, Data: []uint8{0}}, Scheme: bands.Default()}, PictureOptions{}},
+		"narrow":      {PictureInput{Bands: good, Scheme: bands.Default()}, PictureOptions{Width: 100}},
+		"huge width":  {PictureInput{Bands: good, Scheme: bands.Default()}, PictureOptions{Width: 100000}},
+		"empty bands": {PictureInput{Bands: good, Scheme: &bands.Scheme{}}, PictureOptions{}},
 	} {
 		var b bytes.Buffer
 		if err := EncodePicture(&b, c.in, c.opt); err == nil || !strings.HasPrefix(err.Error(), "picture: ") {
@@ -335,7 +335,7 @@ func TestPictureOddInputs(t *testing.T) {
 			b.Data[i] = uint8(i % 256) // includes 0, 1..9 and codes no band holds
 		}
 		var buf bytes.Buffer
-		in := PictureInput{Bands: b, Scheme: classes.Default(), Stations: stations, Regions: weird, Title: strings.Repeat("Long title ", 30)}
+		in := PictureInput{Bands: b, Scheme: bands.Default(), Stations: stations, Regions: weird, Title: strings.Repeat("Long title ", 30)}
 		p, err := picPaint(in, PictureOptions{Width: 600})
 		if err != nil {
 			t.Fatalf("%v: %v", spec, err)
@@ -357,7 +357,7 @@ func BenchmarkPictureGlobal(b *testing.B) {
 	for i := range r.Data {
 		r.Data[i] = uint8(i/3600%10) % 10
 	}
-	in := PictureInput{Bands: r, Scheme: classes.Default(), Title: "Global"}
+	in := PictureInput{Bands: r, Scheme: bands.Default(), Title: "Global"}
 	for b.Loop() {
 		if err := EncodePicture(io.Discard, in, PictureOptions{}); err != nil {
 			b.Fatal(err)

@@ -10,13 +10,13 @@ import (
 	"path/filepath"
 	"testing"
 
-	"drygrid/classes"
+	"drygrid/bands"
 	"drygrid/grid"
 )
 
 // polyBenchRaster is a deterministic, realistic band raster on the global
 // 0.1 deg grid (3600 x 1800): a smooth z field (sines plus Gaussian blobs
-// plus mild noise) classified with classes.Default(), and about 30% no data
+// plus mild noise) classified with bands.Default(), and about 30% no data
 // (where a second smooth field is low, like areas without stations).
 func polyBenchRaster(tb testing.TB) *grid.Uint8 {
 	sp, err := grid.Global(0.1)
@@ -29,7 +29,7 @@ func polyBenchRaster(tb testing.TB) *grid.Uint8 {
 	for i := range blobs {
 		blobs[i] = blob{rng.Float64() * 360, rng.Float64()*180 - 90, 3 + rng.Float64()*12, rng.NormFloat64() * 1.5}
 	}
-	s := classes.Default()
+	s := bands.Default()
 	r := grid.NewUint8(sp, 0)
 	for row := 0; row < sp.Rows; row++ {
 		for col := 0; col < sp.Cols; col++ {
@@ -58,7 +58,7 @@ func polyBenchRaster(tb testing.TB) *grid.Uint8 {
 // DESIGN.md target is >= 3x faster than that on the same raster.
 func BenchmarkPolygonizeGlobal(b *testing.B) {
 	r := polyBenchRaster(b)
-	s := classes.Default()
+	s := bands.Default()
 	path := filepath.Join(b.TempDir(), "bands.geojson")
 	b.ResetTimer()
 	for b.Loop() {
@@ -74,7 +74,7 @@ func BenchmarkPolygonizeGlobal(b *testing.B) {
 // the file system.
 func BenchmarkWriteBandsGeoJSONDiscard(b *testing.B) {
 	r := polyBenchRaster(b)
-	s := classes.Default()
+	s := bands.Default()
 	b.ResetTimer()
 	for b.Loop() {
 		if err := WriteBandsGeoJSON(io.Discard, r, s, GeoJSONOptions{}); err != nil {
@@ -114,13 +114,13 @@ func TestWritePolyBenchRaster(t *testing.T) {
 	}
 	path := filepath.Join(dir, "bands.geojson")
 	if err := WriteFileAtomic(path, func(w *bufio.Writer) error {
-		return WriteBandsGeoJSON(w, r, classes.Default(), GeoJSONOptions{})
+		return WriteBandsGeoJSON(w, r, bands.Default(), GeoJSONOptions{})
 	}); err != nil {
 		t.Fatal(err)
 	}
 	if keep {
 		if err := WriteFileAtomic(filepath.Join(dir, "bands-simplified-10km.geojson"), func(w *bufio.Writer) error {
-			return WriteBandsGeoJSON(w, r, classes.Default(), GeoJSONOptions{SimplifyKm: 10})
+			return WriteBandsGeoJSON(w, r, bands.Default(), GeoJSONOptions{SimplifyKm: 10})
 		}); err != nil {
 			t.Fatal(err)
 		}
@@ -175,7 +175,7 @@ func TestWritePolyBenchRaster(t *testing.T) {
 // --simplify-km 10.
 func BenchmarkSimplifyGlobal(b *testing.B) {
 	r := polyBenchRaster(b)
-	s := classes.Default()
+	s := bands.Default()
 	b.ResetTimer()
 	for b.Loop() {
 		if err := WriteBandsGeoJSON(io.Discard, r, s, GeoJSONOptions{SimplifyKm: 10}); err != nil {

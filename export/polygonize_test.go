@@ -7,7 +7,7 @@ import (
 	"math"
 	"testing"
 
-	"drygrid/classes"
+	"drygrid/bands"
 	"drygrid/grid"
 	"drygrid/internal/reftest"
 
@@ -102,7 +102,7 @@ type polyFC struct {
 
 func polyFCOf(t testing.TB, name string, r *grid.Uint8, opt GeoJSONOptions) polyFC {
 	var b bytes.Buffer
-	if err := WriteBandsGeoJSON(&b, r, classes.Default(), opt); err != nil {
+	if err := WriteBandsGeoJSON(&b, r, bands.Default(), opt); err != nil {
 		t.Fatalf("%s: %v", name, err)
 	}
 	counts := map[string]int{}

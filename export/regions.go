@@ -8,8 +8,8 @@ import (
 	"math"
 	"strconv"
 
-	"drygrid/classes"
-	"drygrid/grid"
+	"drygrid/bands"
+	"drygrid/region"
 )
 
 // RegionsCaution is the caution carried by regions.json and the chart.
@@ -20,7 +20,7 @@ const RegionsCaution = "Shares of area are computed from interpolated estimates 
 // RegionsHeader is the regions.csv header for a scheme (DESIGN.md "Formats
 // written"): region, area_km2, covered_km2, covered_pct, one <key>_pct per
 // band in scheme order, in_drought_pct, mean_z.
-func RegionsHeader(s *classes.Scheme) []string {
+func RegionsHeader(s *bands.Scheme) []string {
 	h := []string{"region", "area_km2", "covered_km2", "covered_pct"}
 	for _, b := range s.Bands {
 		h = append(h, b.Key+"_pct")
@@ -36,7 +36,7 @@ type regRow struct {
 	meanZ                     float64
 }
 
-func regValues(z grid.ZonalStats, s *classes.Scheme) regRow {
+func regValues(z region.ZonalStats, s *bands.Scheme) regRow {
 	r := regRow{area: z.AreaKm2, covered: z.CoveredKm2, coveredPct: math.NaN(), droughtPct: math.NaN(), meanZ: math.NaN()}
 	if z.AreaKm2 > 0 {
 		r.coveredPct = 100 * z.CoveredKm2 / z.AreaKm2
@@ -81,7 +81,7 @@ func regFmt(v float64) string {
 	return s
 }
 
-func regRecord(z grid.ZonalStats, s *classes.Scheme) []string {
+func regRecord(z region.ZonalStats, s *bands.Scheme) []string {
 	r := regValues(z, s)
 	rec := []string{z.Key, regFmt(r.area), regFmt(r.covered), regFmt(r.coveredPct)}
 	for _, p := range r.bandPct {
@@ -94,7 +94,7 @@ func regRecord(z grid.ZonalStats, s *classes.Scheme) []string {
 // given. Areas are km^2 on the WGS84 ellipsoid; band and in-drought shares
 // are percent of the covered (not masked) area, empty when nothing is
 // covered; mean_z is the area-weighted mean index, empty without one.
-func WriteRegionsCSV(w io.Writer, stats []grid.ZonalStats, s *classes.Scheme) error {
+func WriteRegionsCSV(w io.Writer, stats []region.ZonalStats, s *bands.Scheme) error {
 	cw := csv.NewWriter(w)
 	if err := cw.Write(RegionsHeader(s)); err != nil {
 		return fmt.Errorf("regions.csv: %w", err)
@@ -180,7 +180,7 @@ const regMethod = "Each grid cell counts with the share of its area inside the r
 // (plus each band's and the in-drought area in km^2), the scheme's bands
 // with code, key, label, colour, drought flag and z range, the method and a
 // caution that these are estimates, not official declarations.
-func WriteRegionsJSON(w io.Writer, stats []grid.ZonalStats, s *classes.Scheme, meta RegionsMeta) error {
+func WriteRegionsJSON(w io.Writer, stats []region.ZonalStats, s *bands.Scheme, meta RegionsMeta) error {
 	doc := regJSONDoc{Caution: RegionsCaution, Date: meta.Date, Source: meta.Source, Regions: meta.Regions,
 		Grid: meta.Grid, Method: regMethod, Scheme: regJSONScheme{Name: s.Name}, Stats: []regJSONRegion{}}
 	for _, b := range s.Bands {

@@ -8,8 +8,9 @@ import (
 	"strings"
 	"testing"
 
-	"drygrid/classes"
+	"drygrid/bands"
 	"drygrid/grid"
+	"drygrid/region"
 
 	"github.com/paulmach/orb"
 )
@@ -17,7 +18,7 @@ import (
 // regFixture: four equal cells in one row (same latitude, so equal areas on
 // the ellipsoid), coded parched, parched, dry and no data, with z -2.5,
 // -2.1, -1.2 and none; one region over all four, one over half of the first.
-func regFixture(t *testing.T) ([]grid.ZonalStats, float64) {
+func regFixture(t *testing.T) ([]region.ZonalStats, float64) {
 	t.Helper()
 	s, err := grid.NewSpec(0, 10, 4, 11, 1)
 	if err != nil {
@@ -27,12 +28,12 @@ func regFixture(t *testing.T) ([]grid.ZonalStats, float64) {
 	z := grid.NewFloat32(s, grid.NoDataIndex)
 	copy(b.Data, []uint8{1, 1, 3, 0})
 	copy(z.Data, []float32{-2.5, -2.1, -1.2, grid.NoDataIndex})
-	rs := []grid.Region{
+	rs := []region.Region{
 		{Key: "all, four", Geom: orb.MultiPolygon{{{{0, 10}, {4, 10}, {4, 11}, {0, 11}, {0, 10}}}}},
 		{Key: "half", Geom: orb.MultiPolygon{{{{0, 10}, {0.5, 10}, {0.5, 11}, {0, 11}, {0, 10}}}}},
 		{Key: "outside", Geom: orb.MultiPolygon{{{{50, 10}, {51, 10}, {51, 11}, {50, 11}, {50, 10}}}}},
 	}
-	return grid.Zonal(b, z, rs), s.CellAreaKm2(0)
+	return region.Zonal(b, z, rs), s.CellAreaKm2(0)
 }
 
 // TestWriteRegionsCSV: the header of DESIGN.md "Formats written" and shares
@@ -42,7 +43,7 @@ func regFixture(t *testing.T) ([]grid.ZonalStats, float64) {
 func TestWriteRegionsCSV(t *testing.T) {
 	st, a := regFixture(t)
 	var buf bytes.Buffer
-	if err := WriteRegionsCSV(&buf, st, classes.Default()); err != nil {
+	if err := WriteRegionsCSV(&buf, st, bands.Default()); err != nil {
 		t.Fatal(err)
 	}
 	recs, err := csv.NewReader(&buf).ReadAll()
@@ -71,7 +72,7 @@ func TestWriteRegionsCSV(t *testing.T) {
 func TestWriteRegionsJSON(t *testing.T) {
 	st, a := regFixture(t)
 	var buf bytes.Buffer
-	if err := WriteRegionsJSON(&buf, st, classes.Default(), RegionsMeta{Date: "2026-05-01", Source: "bands.tif"}); err != nil {
+	if err := WriteRegionsJSON(&buf, st, bands.Default(), RegionsMeta{Date: "2026-05-01", Source: "bands.tif"}); err != nil {
 		t.Fatal(err)
 	}
 	var doc struct {

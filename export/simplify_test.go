@@ -5,7 +5,7 @@ import (
 	"math/rand/v2"
 	"testing"
 
-	"drygrid/classes"
+	"drygrid/bands"
 	"drygrid/grid"
 	"drygrid/internal/reftest"
 
@@ -18,7 +18,7 @@ func polySmooth(seed uint64, cols, rows int, res float64, nodata bool) *grid.Uin
 	sp := grid.Spec{West: -20 + float64(rng.IntN(10)), North: 60 - float64(rng.IntN(10)), Res: res, Cols: cols, Rows: rows}
 	r := grid.NewUint8(sp, 0)
 	fx, fy, ph := 0.05+0.2*rng.Float64(), 0.05+0.2*rng.Float64(), 6*rng.Float64()
-	s := classes.Default()
+	s := bands.Default()
 	for i := range r.Data {
 		x, y := float64(i%cols), float64(i/cols)
 		z := 1.8*math.Sin(fx*x+ph)*math.Cos(fy*y) + 0.7*math.Sin(0.3*x-0.2*y) + 0.03*rng.NormFloat64()

@@ -11,7 +11,7 @@ import (
 	"path/filepath"
 	"testing"
 
-	"drygrid/classes"
+	"drygrid/bands"
 	"drygrid/grid"
 	"drygrid/internal/reftest"
 )
@@ -65,7 +65,7 @@ func BenchmarkEncodeIndexTIFFGlobal(b *testing.B) {
 // without and with horizontal differencing (predictor 2), for the choice of
 // tiffBandsPredictor.
 func BenchmarkEncodeBandsTIFFGlobal(b *testing.B) {
-	s := classes.Default()
+	s := bands.Default()
 	r := tiffTestBands(tiffGlobalField(b), s)
 	opt, _ := tiffNormalize(DefaultTIFFOptions())
 	for _, pred := range []int{1, 2} {

@@ -3,11 +3,11 @@ package export
 import (
 	"math"
 
-	"drygrid/classes"
+	"drygrid/bands"
 )
 
-// tiffClassifier gives the same codes as classes.Scheme.Classify, band by
-// band in scheme order with the same tests as classes.Band.Contains, from
+// tiffClassifier gives the same codes as bands.Scheme.Classify, band by
+// band in scheme order with the same tests as bands.Band.Contains, from
 // plain arrays (Classify copies each Band, strings included, per test).
 type tiffClassifier struct {
 	lo, hi       []float64
@@ -18,7 +18,7 @@ type tiffClassifier struct {
 	disjoint bool
 }
 
-func newTiffClassifier(s *classes.Scheme) tiffClassifier {
+func newTiffClassifier(s *bands.Scheme) tiffClassifier {
 	var c tiffClassifier
 	if s == nil {
 		return c

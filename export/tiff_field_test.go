@@ -9,7 +9,7 @@ import (
 	"strconv"
 	"testing"
 
-	"drygrid/classes"
+	"drygrid/bands"
 	"drygrid/grid"
 	"drygrid/internal/reftest"
 )
@@ -37,7 +37,7 @@ func tiffTestField(s grid.Spec) *grid.Float32 {
 }
 
 // tiffTestBands classifies a field with the default scheme.
-func tiffTestBands(f *grid.Float32, s *classes.Scheme) *grid.Uint8 {
+func tiffTestBands(f *grid.Float32, s *bands.Scheme) *grid.Uint8 {
 	b := grid.NewUint8(f.Spec, 0)
 	for i, v := range f.Data {
 		if v != f.NoData {

@@ -10,7 +10,7 @@ import (
 	"path/filepath"
 	"strconv"
 
-	"drygrid/classes"
+	"drygrid/bands"
 	"drygrid/grid"
 )
 
@@ -40,7 +40,7 @@ func EncodeIndexTIFFRows(w io.Writer, spec grid.Spec, nodata float32, produce TI
 // s and no data 0. Either writer may be nil to skip that file; s may be nil
 // only when bands and opt.OnBandRows are. Both files are written after
 // the last row is produced, index first.
-func EncodeIndexBandsTIFFRows(index, bands io.Writer, spec grid.Spec, nodata float32, s *classes.Scheme, produce TIFFRowFunc, opt TIFFOptions) error {
+func EncodeIndexBandsTIFFRows(index, bands io.Writer, spec grid.Spec, nodata float32, s *bands.Scheme, produce TIFFRowFunc, opt TIFFOptions) error {
 	if produce == nil {
 		return errors.New("geotiff: nil row function")
 	}
@@ -90,7 +90,7 @@ func WriteIndexTIFFRows(path string, spec grid.Spec, nodata float32, produce TIF
 // compressed tiles wait in a temporary file in opt.SpillDir, or beside the
 // output when that is empty, so memory stays at a few blocks of rows
 // whatever the size of the grid.
-func WriteIndexBandsTIFFRows(indexPath, bandsPath string, spec grid.Spec, nodata float32, s *classes.Scheme, produce TIFFRowFunc, opt TIFFOptions) error {
+func WriteIndexBandsTIFFRows(indexPath, bandsPath string, spec grid.Spec, nodata float32, s *bands.Scheme, produce TIFFRowFunc, opt TIFFOptions) error {
 	if indexPath == "" && bandsPath == "" {
 		return errors.New("geotiff: no output path for the rows")
 	}
@@ -147,7 +147,7 @@ func tiffIndexImage(spec grid.Spec, nodata float32, opt TIFFOptions) *tiffImage 
 }
 
 // tiffBandsImage is the image description of a band raster on spec.
-func tiffBandsImage(spec grid.Spec, nodata uint8, s *classes.Scheme, opt TIFFOptions) *tiffImage {
+func tiffBandsImage(spec grid.Spec, nodata uint8, s *bands.Scheme, opt TIFFOptions) *tiffImage {
 	img := tiffNewImage(spec, opt)
 	img.nodataU = nodata
 	img.predictor = tiffBandsPredictor
@@ -189,7 +189,7 @@ type tiffRowState struct {
 // from the first tile.
 var tiffMemoryTiles int64 = 32 << 20
 
-func newTiffRowState(spec grid.Spec, nodata float32, s *classes.Scheme, wantIndex, wantBands bool, opt TIFFOptions) (*tiffRowState, error) {
+func newTiffRowState(spec grid.Spec, nodata float32, s *bands.Scheme, wantIndex, wantBands bool, opt TIFFOptions) (*tiffRowState, error) {
 	st := &tiffRowState{spec: spec, t: opt.TileSize, nodata: nodata, opt: opt, spillDir: opt.SpillDir}
 	var sizes [][2]int
 	if opt.Overviews {

@@ -3,7 +3,7 @@ package export
 import (
 	"testing"
 
-	"drygrid/classes"
+	"drygrid/bands"
 )
 
 // BenchmarkEncodeIndexBandsTIFFRowsGlobal streams the global 0.1 deg
@@ -12,7 +12,7 @@ import (
 // through EncodeIndexTIFF, the classification and EncodeBandsTIFF.
 func BenchmarkEncodeIndexBandsTIFFRowsGlobal(b *testing.B) {
 	r := tiffGlobalField(b)
-	s := classes.Default()
+	s := bands.Default()
 	opt := DefaultTIFFOptions()
 	cols := r.Spec.Cols
 	produce := func(row0, n int, dst []float32) error {

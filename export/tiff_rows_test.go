@@ -12,7 +12,7 @@ import (
 	"strings"
 	"testing"
 
-	"drygrid/classes"
+	"drygrid/bands"
 	"drygrid/grid"
 )
 
@@ -38,7 +38,7 @@ func tiffRowsFrom(t *testing.T, r *grid.Float32, tile int) TIFFRowFunc {
 // mid-block, and (8300 columns at tile 16) an overview factor of 32, larger
 // than the tile.
 func TestTIFFRowsSameBytes(t *testing.T) {
-	s := classes.Default()
+	s := bands.Default()
 	cases := []struct {
 		cols, rows, tile, workers int
 		overviews                 bool
@@ -122,7 +122,7 @@ func TestTIFFRowsSameBytes(t *testing.T) {
 // band sidecar included, that WriteIndexTIFF and WriteBandsTIFF write, and
 // leaves no spill file beside them.
 func TestTIFFRowsWriteFiles(t *testing.T) {
-	s := classes.Default()
+	s := bands.Default()
 	spec := grid.Spec{West: 100, North: -10, Res: 0.1, Cols: 700, Rows: 600}
 	r := tiffTestField(spec)
 	opt := DefaultTIFFOptions()
@@ -160,7 +160,7 @@ func TestTIFFRowsErrors(t *testing.T) {
 	spec := grid.Spec{West: 0, North: 10, Res: 0.01, Cols: 700, Rows: 900}
 	boom := errors.New("boom")
 	calls := 0
-	err := EncodeIndexBandsTIFFRows(&bytes.Buffer{}, &bytes.Buffer{}, spec, -9999, classes.Default(),
+	err := EncodeIndexBandsTIFFRows(&bytes.Buffer{}, &bytes.Buffer{}, spec, -9999, bands.Default(),
 		func(row0, n int, dst []float32) error {
 			calls++
 			if row0 >= 512 {
@@ -193,18 +193,18 @@ func TestTIFFRowsErrors(t *testing.T) {
 }
 
 // TestTIFFClassifier: the classifier of the row encoders gives
-// classes.Scheme.Classify's code for the cut points, their float64
+// bands.Scheme.Classify's code for the cut points, their float64
 // neighbours, infinities, NaN and random values, on the default scheme and
 // on one with the other inclusivity at each cut.
 func TestTIFFClassifier(t *testing.T) {
 	inf := math.Inf(1)
-	other := &classes.Scheme{Name: "other", Bands: []classes.Band{
+	other := &bands.Scheme{Name: "other", Bands: []bands.Band{
 		{Code: 3, Key: "a", Min: -inf, Max: -1, MaxInclusive: false, Color: "#000000"},
 		{Code: 1, Key: "b", Min: -1, Max: 0.25, MinInclusive: true, MaxInclusive: true, Color: "#000000"},
 		{Code: 7, Key: "c", Min: 0.25, Max: inf, Color: "#000000"},
 	}}
 	r := rand.New(rand.NewPCG(4, 4))
-	for _, s := range []*classes.Scheme{classes.Default(), other} {
+	for _, s := range []*bands.Scheme{bands.Default(), other} {
 		zs := []float64{math.NaN(), inf, -inf, 0, math.Copysign(0, -1)}
 		for _, b := range s.Bands {
 			for _, x := range []float64{b.Min, b.Max} {
@@ -247,9 +247,9 @@ func TestTIFFClassifier(t *testing.T) {
 
 // TestTIFFRowsOnBandRows: the band codes handed to OnBandRows, block by
 // block in row order, are the classification of the raster (as
-// classes.Scheme.Classify gives it), also when only the index is written.
+// bands.Scheme.Classify gives it), also when only the index is written.
 func TestTIFFRowsOnBandRows(t *testing.T) {
-	s := classes.Default()
+	s := bands.Default()
 	spec := grid.Spec{West: 0, North: 50, Res: 0.1, Cols: 333, Rows: 300}
 	r := tiffTestField(spec)
 	want := tiffTestBands(r, s)

@@ -11,7 +11,7 @@ import (
 	"strings"
 	"testing"
 
-	"drygrid/classes"
+	"drygrid/bands"
 	"drygrid/grid"
 	"drygrid/internal/reftest"
 )
@@ -193,7 +193,7 @@ func TestReadTIFFTeamWriter(t *testing.T) {
 	b, f := tiffrTestRasters()
 	for _, opt := range []TIFFOptions{DefaultTIFFOptions(), {TileSize: 64}} {
 		var bb, fb bytes.Buffer
-		if err := EncodeBandsTIFF(&bb, b, classes.Default(), opt); err != nil {
+		if err := EncodeBandsTIFF(&bb, b, bands.Default(), opt); err != nil {
 			t.Fatal(err)
 		}
 		if err := EncodeIndexTIFF(&fb, f, opt); err != nil {
@@ -229,7 +229,7 @@ func FuzzReadTIFF(f *testing.F) {
 	}
 	for _, opt := range []TIFFOptions{{TileSize: 16}, {TileSize: 16, Overviews: true}} {
 		var bb, fb bytes.Buffer
-		if EncodeBandsTIFF(&bb, small, classes.Default(), opt) == nil {
+		if EncodeBandsTIFF(&bb, small, bands.Default(), opt) == nil {
 			f.Add(bb.Bytes())
 		}
 		_ = b

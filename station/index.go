@@ -1,6 +1,7 @@
 package station
 
 import (
+	"drygrid/spi"
 	"encoding/csv"
 	"fmt"
 	"io"
@@ -361,27 +362,27 @@ func idxStationRow(site idxSite, s []idxEntry, year int, opt IndexOptions, scrat
 		return r, ref
 	}
 	x := r.Total
-	below, equal := pctSortedCount(ref, x)
+	below, equal := spi.SortedCount(ref, x)
 	n := float64(len(ref))
 	r.Percentile = 100 * (float64(below) + float64(equal)/2) / n
-	if med := pctSortedMedian(ref); med > 0 {
+	if med := spi.SortedMedian(ref); med > 0 {
 		r.PctOfMedian = 100 * x / med
 	} else {
 		notes = append(notes, "reference median is 0")
 	}
 
-	shape, scale, err := GammaFit(ref[r.Zeros:])
+	shape, scale, err := spi.GammaFit(ref[r.Zeros:])
 	if err != nil {
 		notes = append(notes, "gamma not fitted: "+err.Error())
 	} else {
 		r.Shape, r.Scale, r.Fitted = shape, scale, true
-		a2, ok, tested := gofTest(ref[r.Zeros:], shape, scale)
+		a2, ok, tested := spi.GammaFitOKSorted(ref[r.Zeros:], shape, scale)
 		r.AD, r.FitTested, r.FitOK = a2, tested, ok && tested
 		switch {
 		case !tested:
 			notes = append(notes, fmt.Sprintf("%d non-zero totals are too few to test the gamma fit", len(ref)-r.Zeros))
 		case !ok:
-			notes = append(notes, fmt.Sprintf("gamma rejected by Anderson-Darling at 5 %% (A2 %.3f > %.3f)", a2, ADCritical5(shape)))
+			notes = append(notes, fmt.Sprintf("gamma rejected by Anderson-Darling at 5 %% (A2 %.3f > %.3f)", a2, spi.ADCritical5(shape)))
 		}
 	}
 	switch opt.Distribution {
@@ -389,13 +390,13 @@ func idxStationRow(site idxSite, s []idxEntry, year int, opt IndexOptions, scrat
 		// Gringorten position of x among the reference totals, x counted
 		// once more when its year lies outside the reference period.
 		if targetInRef {
-			r.SPI = idxGringortenSorted(below, equal, len(ref))
+			r.SPI = spi.GringortenCounts(below, equal, len(ref))
 		} else {
-			r.SPI = idxGringortenSorted(below, equal+1, len(ref)+1)
+			r.SPI = spi.GringortenCounts(below, equal+1, len(ref)+1)
 		}
 	default:
 		if r.Fitted {
-			r.SPI = SPI(x, shape, scale, float64(r.Zeros)/n)
+			r.SPI = spi.SPI(x, shape, scale, float64(r.Zeros)/n)
 		}
 	}
 	if !math.IsNaN(r.SPI) {
@@ -408,14 +409,6 @@ func idxStationRow(site idxSite, s []idxEntry, year int, opt IndexOptions, scrat
 	}
 	r.Note = strings.Join(notes, "; ")
 	return r, ref
-}
-
-// idxGringortenSorted is GringortenSPI from the counts below and equal to
-// x (equal >= 1) in a sample of n.
-func idxGringortenSorted(below, equal, n int) float64 {
-	i := float64(below) + float64(equal+1)/2
-	p := (i - 0.44) / (float64(n) + 0.12)
-	return spiQuantile(p, 1-p)
 }
 
 // IndexSummary counts the stations of an index table by outcome.

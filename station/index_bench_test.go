@@ -1,6 +1,7 @@
 package station
 
 import (
+	"drygrid/spi"
 	"math/rand/v2"
 	"runtime"
 	"sync"
@@ -75,12 +76,12 @@ func BenchmarkSPI100k(b *testing.B) {
 							zeros++
 						}
 					}
-					shape, scale, err := GammaFit(x)
+					shape, scale, err := spi.GammaFit(x)
 					if err != nil {
 						b.Error(err)
 						return
 					}
-					out[k] = SPI(x[len(x)-1], shape, scale, float64(zeros)/float64(len(x)))
+					out[k] = spi.SPI(x[len(x)-1], shape, scale, float64(zeros)/float64(len(x)))
 				}
 			}(w)
 		}

@@ -2,6 +2,7 @@ package station
 
 import (
 	"bytes"
+	"drygrid/spi"
 	"fmt"
 	"math"
 	"strconv"
@@ -73,7 +74,7 @@ func TestIndexSciPy(t *testing.T) {
 			idxCheck(t, tag()+" scale", r.Scale, w.Scale, 1e-6, true)
 			idxCheck(t, tag()+" A2", r.AD, w.A2, 1e-6, true)
 			idxCheck(t, tag()+" spi", r.SPI, w.SPI, 1e-6, false)
-			if r.Fitted && r.FitTested && r.FitOK != (*w.A2 <= ADCritical5(r.Shape)) {
+			if r.Fitted && r.FitTested && r.FitOK != (*w.A2 <= spi.ADCritical5(r.Shape)) {
 				t.Errorf("%s: fit_ok %v with SciPy A2 %.4f", tag(), r.FitOK, *w.A2)
 			}
 		}
@@ -117,10 +118,10 @@ func TestIndexFixtureOutcomes(t *testing.T) {
 	// (D'Agostino and Stephens 1986, table 4.21).
 	for _, r := range res.Rows {
 		if r.Station == "ST07" {
-			if !(r.AD > ADCritical5(r.Shape)) {
-				t.Errorf("ST07: A2 %v not above the critical %v", r.AD, ADCritical5(r.Shape))
+			if !(r.AD > spi.ADCritical5(r.Shape)) {
+				t.Errorf("ST07: A2 %v not above the critical %v", r.AD, spi.ADCritical5(r.Shape))
 			}
-			want["ST07"] = fmt.Sprintf("gamma rejected by Anderson-Darling at 5 %% (A2 %.3f > %.3f)", r.AD, ADCritical5(r.Shape))
+			want["ST07"] = fmt.Sprintf("gamma rejected by Anderson-Darling at 5 %% (A2 %.3f > %.3f)", r.AD, spi.ADCritical5(r.Shape))
 		}
 	}
 	for _, r := range res.Rows {

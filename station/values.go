@@ -1,12 +1,11 @@
 package station
 
 import (
+	"drygrid/spi"
 	"fmt"
 	"io"
 	"math"
 	"strings"
-
-	"drygrid/classes"
 )
 
 // Kind names what a station value table holds.
@@ -60,7 +59,7 @@ type Station struct {
 	ID       string
 	Lon, Lat float64  // Lon normalised to [-180, 180)
 	Value    float64  // the input value (SPI or percentile)
-	Z        float64  // z (SPI units): SPI as is, percentile via classes.PercentileToZ
+	Z        float64  // z (SPI units): SPI as is, percentile via spi.PercentileToZ
 	Line     int      // line of first appearance
 	Merged   []string // other ids averaged into this site (same point), if any
 }
@@ -258,7 +257,7 @@ func readValues(t *Table, opt ValueOptions) (*Values, error) {
 		}
 		z := row.value
 		if kind == KindPercentile {
-			z = classes.PercentileToZ(row.value)
+			z = spi.PercentileToZ(row.value)
 		}
 		if si, ok := valuesFindPoint(byPoint, sites, lat, lon); ok {
 			s := &sites[si]

@@ -29,7 +29,7 @@ import (
 	"strconv"
 	"strings"
 
-	"drygrid/classes"
+	"drygrid/bands"
 	"drygrid/export"
 	"drygrid/grid"
 	"drygrid/interp"
@@ -212,7 +212,7 @@ func polygonize(in, out string) error {
 		return err
 	}
 	return writeFile(out, func(w *bufio.Writer) error {
-		return export.WriteBandsGeoJSON(w, r, classes.Default(), export.GeoJSONOptions{})
+		return export.WriteBandsGeoJSON(w, r, bands.Default(), export.GeoJSONOptions{})
 	})
 }
 

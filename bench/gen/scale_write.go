@@ -4,7 +4,7 @@ import (
 	"os"
 	"strings"
 
-	"drygrid/classes"
+	"drygrid/bands"
 	"drygrid/export"
 	"drygrid/grid"
 	"drygrid/interp"
@@ -17,7 +17,7 @@ import (
 // for comparison.
 // It returns the number of cells with a value.
 func scaleWrite(ip *interp.Interpolator, spec grid.Spec, out string) (valid int, err error) {
-	s := classes.Default()
+	s := bands.Default()
 	opt := export.DefaultTIFFOptions()
 	bandsPath := strings.TrimSuffix(out, ".tif") + ".bands.tif"
 	if os.Getenv("DRYGRID_BENCH_WHOLE") == "1" {

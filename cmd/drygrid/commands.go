@@ -6,7 +6,7 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"drygrid/classes"
+	"drygrid/bands"
 )
 
 // addCommands registers the commands beyond grid and demo.
@@ -37,7 +37,7 @@ func newSchemeCmd() *cobra.Command {
 			if !example {
 				return usagef("scheme: say --example to print the example scheme file")
 			}
-			_, err := fmt.Fprint(cmd.OutOrStdout(), classes.ExampleSchemeTOML())
+			_, err := fmt.Fprint(cmd.OutOrStdout(), bands.ExampleSchemeTOML())
 			return err
 		},
 	}

@@ -13,7 +13,7 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"drygrid/classes"
+	"drygrid/bands"
 	"drygrid/export"
 	"drygrid/interp"
 	"drygrid/station"
@@ -211,7 +211,7 @@ func printCrossval(w io.Writer, source string, r interp.CrossValResult) {
 
 // writeResiduals writes one row per station: id, position, observed and
 // predicted z, residual, stations used, counted, and both bands' keys.
-func writeResiduals(path string, v *station.Values, r interp.CrossValResult, scheme *classes.Scheme) error {
+func writeResiduals(path string, v *station.Values, r interp.CrossValResult, scheme *bands.Scheme) error {
 	key := func(code uint8) string {
 		if b, ok := scheme.Band(code); ok {
 			return b.Key
@@ -346,7 +346,7 @@ func cvRank(rs []interp.CrossValResult) []int {
 }
 
 // cvRunSearch cross-validates every combination and prints the ranking.
-func cvRunSearch(pts []interp.Point, combos []interp.Params, scheme *classes.Scheme, asJSON bool, w io.Writer) error {
+func cvRunSearch(pts []interp.Point, combos []interp.Params, scheme *bands.Scheme, asJSON bool, w io.Writer) error {
 	rs := make([]interp.CrossValResult, len(combos))
 	for i, p := range combos {
 		r, err := interp.CrossValidate(pts, p, scheme.Classify)

@@ -10,6 +10,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"drygrid/interp"
+	"drygrid/scenario"
 	"drygrid/station"
 )
 
@@ -37,7 +38,7 @@ demo describes a real place.`,
 
 // runDemo writes the scenario's inputs and runs index and grid on them.
 func runDemo(out string, stderr io.Writer) error {
-	sc := station.DemoScenario()
+	sc := scenario.DemoScenario()
 	in := filepath.Join(out, "inputs")
 	if err := os.MkdirAll(in, 0o755); err != nil {
 		return fmt.Errorf("demo: %w", err)

@@ -8,6 +8,7 @@ import (
 	"path/filepath"
 
 	"drygrid/export"
+	"drygrid/scenario"
 	"drygrid/station"
 )
 
@@ -19,7 +20,7 @@ const demoHistoryYears = 10
 // demoHistoryYears years of the scenario (dated on the window's last day)
 // and returns the history table and its chart, to be published with the
 // demo's layers. The template job gives the grid, parameters and regions.
-func demoHistory(sc *station.Scenario, stationsCSV, totalsCSV string, tmpl gridJob) (history, chart []byte, err error) {
+func demoHistory(sc *scenario.Scenario, stationsCSV, totalsCSV string, tmpl gridJob) (history, chart []byte, err error) {
 	tmp, err := os.MkdirTemp("", "drygrid-demo-history-")
 	if err != nil {
 		return nil, nil, fmt.Errorf("demo history: %w", err)

@@ -5,12 +5,13 @@ import (
 	"io"
 	"path/filepath"
 
+	"drygrid/scenario"
 	"drygrid/station"
 )
 
 // demoIndex runs the index step on the scenario's totals and returns the
 // path of the index table the grid step reads.
-func demoIndex(sc *station.Scenario, stationsCSV, totalsCSV, dir string, stderr io.Writer) (string, error) {
+func demoIndex(sc *scenario.Scenario, stationsCSV, totalsCSV, dir string, stderr io.Writer) (string, error) {
 	res, err := station.ComputeIndex(stationsCSV, totalsCSV, station.IndexOptions{Year: sc.TargetYear})
 	if err != nil {
 		return "", fmt.Errorf("demo index: %w", err)

@@ -13,10 +13,11 @@ import (
 	"time"
 	"unicode/utf8"
 
-	"drygrid/classes"
+	"drygrid/bands"
 	"drygrid/export"
 	"drygrid/grid"
 	"drygrid/interp"
+	"drygrid/region"
 	"drygrid/station"
 )
 
@@ -61,10 +62,10 @@ type gridJob struct {
 type gridResult struct {
 	Values  *station.Values
 	Spec    grid.Spec
-	Scheme  *classes.Scheme
+	Scheme  *bands.Scheme
 	Index   *grid.Float32
 	Bands   *grid.Uint8
-	Regions []grid.ZonalStats
+	Regions []region.ZonalStats
 	Files   []string
 	Elapsed time.Duration
 	// Rows, when not nil, streams the index rows into the GeoTIFF writers
@@ -86,9 +87,9 @@ func runGrid(job gridJob, stderr io.Writer) (*gridResult, error) {
 	if err != nil {
 		return nil, err
 	}
-	var regions []grid.Region
+	var regions []region.Region
 	if job.Regions != "" {
-		r, err := grid.ReadRegions(job.Regions, job.RegionKey)
+		r, err := region.ReadRegions(job.Regions, job.RegionKey)
 		if err != nil {
 			return nil, regionsErrPos(job.Regions, err)
 		}
@@ -144,7 +145,7 @@ func runGrid(job gridJob, stderr io.Writer) (*gridResult, error) {
 		res.Tally = newBandTally(spec)
 		res.Tally.add(0, spec.Rows, res.Bands.Data)
 		if len(regions) > 0 {
-			res.Regions = grid.Zonal(res.Bands, index, regions)
+			res.Regions = region.Zonal(res.Bands, index, regions)
 		}
 	}
 	gridded := manifestNow()
@@ -194,11 +195,11 @@ func writeIndexTable(path string, res *station.IndexResult) error {
 }
 
 // loadScheme reads a band scheme file, or gives the default bands for "".
-func loadScheme(path string) (*classes.Scheme, error) {
+func loadScheme(path string) (*bands.Scheme, error) {
 	if path == "" {
-		return classes.Default(), nil
+		return bands.Default(), nil
 	}
-	return classes.LoadScheme(path)
+	return bands.LoadScheme(path)
 }
 
 // points are the stations as the interpolator takes them.
@@ -211,7 +212,7 @@ func points(v *station.Values) []interp.Point {
 }
 
 // classify turns the index raster into band codes (0 = no data).
-func classify(index *grid.Float32, scheme *classes.Scheme) *grid.Uint8 {
+func classify(index *grid.Float32, scheme *bands.Scheme) *grid.Uint8 {
 	bands := grid.NewUint8(index.Spec, 0)
 	for i, v := range index.Data {
 		if v != index.NoData {
@@ -224,7 +225,7 @@ func classify(index *grid.Float32, scheme *classes.Scheme) *grid.Uint8 {
 // writeLayers writes the chosen layers, the extra files and the manifest
 // into a temporary directory beside job.Out and publishes it in place of
 // job.Out once all are written (publish.go).
-func writeLayers(job gridJob, res *gridResult, regions []grid.Region, start time.Time) error {
+func writeLayers(job gridJob, res *gridResult, regions []region.Region, start time.Time) error {
 	owned := map[string]bool{export.ManifestName: true}
 	for _, files := range layerFiles {
 		for _, f := range files {

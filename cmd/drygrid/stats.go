@@ -8,9 +8,10 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"drygrid/classes"
+	"drygrid/bands"
 	"drygrid/export"
 	"drygrid/grid"
+	"drygrid/region"
 )
 
 type statsFlags struct {
@@ -75,7 +76,7 @@ func runStats(cmd *cobra.Command, f statsFlags) error {
 	if err != nil {
 		return err
 	}
-	regions, err := grid.ReadRegions(f.regions, f.regionKey)
+	regions, err := region.ReadRegions(f.regions, f.regionKey)
 	if err != nil {
 		return err
 	}
@@ -91,11 +92,11 @@ func runStats(cmd *cobra.Command, f statsFlags) error {
 		if index, err = export.ReadIndexTIFF(f.index); err != nil {
 			return err
 		}
-		if err := grid.SameGrid(bands, index); err != nil {
+		if err := region.SameGrid(bands, index); err != nil {
 			return fmt.Errorf("%s and %s: %w", f.bands, f.index, err)
 		}
 	}
-	stats := grid.Zonal(bands, index, regions)
+	stats := region.Zonal(bands, index, regions)
 	if err := os.MkdirAll(f.out, 0o755); err != nil {
 		return fmt.Errorf("--out %s: %w", f.out, err)
 	}
@@ -134,7 +135,7 @@ func runStats(cmd *cobra.Command, f statsFlags) error {
 
 // statsCheckCodes refuses a band raster holding codes the scheme lacks: its
 // shares would not add up to the covered area.
-func statsCheckCodes(path string, b *grid.Uint8, s *classes.Scheme) error {
+func statsCheckCodes(path string, b *grid.Uint8, s *bands.Scheme) error {
 	var seen [256]bool
 	for _, c := range b.Data {
 		seen[c] = true

@@ -10,7 +10,7 @@ import (
 	"strings"
 	"testing"
 
-	"drygrid/classes"
+	"drygrid/bands"
 	"drygrid/export"
 	"drygrid/grid"
 )
@@ -64,8 +64,8 @@ func TestStatsAndChartCommands(t *testing.T) {
 			}
 		}
 	}
-	bands, index := filepath.Join(dir, "bands.tif"), filepath.Join(dir, "index.tif")
-	if err := export.WriteBandsTIFF(bands, b, classes.Default(), export.DefaultTIFFOptions()); err != nil {
+	bandsPath, index := filepath.Join(dir, "bands.tif"), filepath.Join(dir, "index.tif")
+	if err := export.WriteBandsTIFF(bandsPath, b, bands.Default(), export.DefaultTIFFOptions()); err != nil {
 		t.Fatal(err)
 	}
 	if err := export.WriteIndexTIFF(index, z, export.DefaultTIFFOptions()); err != nil {
@@ -75,7 +75,7 @@ func TestStatsAndChartCommands(t *testing.T) {
 	hist := filepath.Join(dir, "history.csv")
 	out := filepath.Join(dir, "out")
 	for _, date := range []string{"2026-05-01", "2026-05-02", "2026-05-01"} {
-		if err := statsRun(t, "stats", "--bands", bands, "--index", index, "--regions", regions, "--out", out, "--history", hist, "--date", date); err != nil {
+		if err := statsRun(t, "stats", "--bands", bandsPath, "--index", index, "--regions", regions, "--out", out, "--history", hist, "--date", date); err != nil {
 			t.Fatal(err)
 		}
 	}
@@ -114,18 +114,18 @@ func TestStatsAndChartCommands(t *testing.T) {
 
 	// Usage and data errors.
 	var ue usageError
-	if err := statsRun(t, "stats", "--bands", bands, "--regions", regions, "--history", hist); !errors.As(err, &ue) {
+	if err := statsRun(t, "stats", "--bands", bandsPath, "--regions", regions, "--history", hist); !errors.As(err, &ue) {
 		t.Errorf("--history without --date: %v, want a usage error", err)
 	}
 	other, _ := grid.NewSpec(9, 41, 18, 48, 0.5)
 	wrong := filepath.Join(dir, "wrong.tif")
 	export.WriteIndexTIFF(wrong, grid.NewFloat32(other, grid.NoDataIndex), export.DefaultTIFFOptions())
-	if err := statsRun(t, "stats", "--bands", bands, "--index", wrong, "--regions", regions, "--out", out); err == nil || !strings.Contains(err.Error(), "differs from the band raster's") {
+	if err := statsRun(t, "stats", "--bands", bandsPath, "--index", wrong, "--regions", regions, "--out", out); err == nil || !strings.Contains(err.Error(), "differs from the band raster's") {
 		t.Errorf("index on another grid: %v", err)
 	}
 	b.Data[0] = 77
 	odd := filepath.Join(dir, "odd.tif")
-	export.WriteBandsTIFF(odd, b, classes.Default(), export.DefaultTIFFOptions())
+	export.WriteBandsTIFF(odd, b, bands.Default(), export.DefaultTIFFOptions())
 	if err := statsRun(t, "stats", "--bands", odd, "--regions", regions, "--out", out); err == nil || !strings.Contains(err.Error(), "holds code 77") {
 		t.Errorf("unknown code: %v", err)
 	}

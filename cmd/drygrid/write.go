@@ -10,14 +10,14 @@ import (
 	"time"
 
 	"drygrid/export"
-	"drygrid/grid"
+	"drygrid/region"
 )
 
 // layerWriter writes one run's layers into dir.
 type layerWriter struct {
 	job     gridJob
 	res     *gridResult
-	regions []grid.Region
+	regions []region.Region
 	dir     string
 
 	bandsGJ, stationsGJ []byte // encoded once, for the files and the page

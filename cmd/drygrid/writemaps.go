@@ -7,7 +7,7 @@ import (
 	"os"
 
 	"drygrid/export"
-	"drygrid/grid"
+	"drygrid/region"
 )
 
 // writeRegions writes regions.csv and regions.json.
@@ -80,7 +80,7 @@ func (w *layerWriter) writePage() error {
 }
 
 // pageRows turns zonal statistics into the page's table rows.
-func pageRows(stats []grid.ZonalStats, w *layerWriter) []export.PageRegionRow {
+func pageRows(stats []region.ZonalStats, w *layerWriter) []export.PageRegionRow {
 	rows := make([]export.PageRegionRow, 0, len(stats))
 	for _, z := range stats {
 		r := export.PageRegionRow{Name: z.Key, AreaKm2: z.AreaKm2, SharePct: map[string]float64{}, MeanZ: math.NaN()}

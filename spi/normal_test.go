@@ -1,4 +1,4 @@
-package classes
+package spi
 
 import (
 	"bytes"
@@ -147,21 +147,6 @@ func TestPercentileRoundTrip(t *testing.T) {
 	for z := -3.0; z <= 3.0; z += 0.01 {
 		if back := PercentileToZ(ZToPercentile(z)); math.Abs(back-z) > 1e-9 {
 			t.Errorf("PercentileToZ(ZToPercentile(%v)) = %.15g", z, back)
-		}
-	}
-}
-
-// The default bands in percentile terms: a 15th-percentile window is "dry"
-// (z = -1.036, between -1.5 and -1.0), the 16th is "drying" (z = -0.994).
-// Phi(-1) = 15.87 % (A&S Table 26.1, 1 - 0.841345); the 94th is "very-wet"
-// (z = 1.555) and the 2nd "parched" (z = -2.054) (quantiles from memory of
-// the normal tables).
-func TestPercentileIntoBands(t *testing.T) {
-	s := Default()
-	for p, want := range map[float64]string{15: "dry", 16: "drying", 50: "normal", 2: "parched", 99.9: "soaked", 0: "parched", 94: "very-wet"} {
-		b, _ := s.Band(s.Classify(PercentileToZ(p)))
-		if b.Key != want {
-			t.Errorf("percentile %v -> z %.4f -> %s, want %s", p, PercentileToZ(p), b.Key, want)
 		}
 	}
 }

@@ -1,6 +1,7 @@
-package classes
+package bands
 
 import (
+	"drygrid/spi"
 	"image/color"
 	"math"
 	"math/rand/v2"
@@ -192,5 +193,20 @@ func TestBandRangeCustomCuts(t *testing.T) {
 	b := Band{Min: -1.25, Max: 0.75, MinInclusive: true}
 	if got, want := b.Range(), "-1.25 <= z < 0.75"; got != want {
 		t.Errorf("Range = %q, want %q", got, want)
+	}
+}
+
+// The default bands in percentile terms: a 15th-percentile window is "dry"
+// (z = -1.036, between -1.5 and -1.0), the 16th is "drying" (z = -0.994).
+// Phi(-1) = 15.87 % (A&S Table 26.1, 1 - 0.841345); the 94th is "very-wet"
+// (z = 1.555) and the 2nd "parched" (z = -2.054) (quantiles from memory of
+// the normal tables).
+func TestPercentileIntoBands(t *testing.T) {
+	s := Default()
+	for p, want := range map[float64]string{15: "dry", 16: "drying", 50: "normal", 2: "parched", 99.9: "soaked", 0: "parched", 94: "very-wet"} {
+		b, _ := s.Band(s.Classify(spi.PercentileToZ(p)))
+		if b.Key != want {
+			t.Errorf("percentile %v -> z %.4f -> %s, want %s", p, spi.PercentileToZ(p), b.Key, want)
+		}
 	}
 }

@@ -1,7 +1,8 @@
-package station
+package scenario
 
 import (
 	"bytes"
+	"drygrid/station"
 	"math"
 	"testing"
 )
@@ -14,7 +15,7 @@ import (
 func TestScenarioThroughIndex(t *testing.T) {
 	s := DemoScenario()
 	c := scnCSVs(t, s)
-	res, err := ComputeIndexReaders("stations.csv", bytes.NewReader(c[0]), "totals.csv", bytes.NewReader(c[1]), IndexOptions{})
+	res, err := station.ComputeIndexReaders("stations.csv", bytes.NewReader(c[0]), "totals.csv", bytes.NewReader(c[1]), station.IndexOptions{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -22,10 +23,10 @@ func TestScenarioThroughIndex(t *testing.T) {
 		t.Fatalf("index year %d", res.Year)
 	}
 	var out bytes.Buffer
-	if err := WriteIndexCSV(&out, res); err != nil {
+	if err := station.WriteIndexCSV(&out, res); err != nil {
 		t.Fatal(err)
 	}
-	v, err := ParseValues("index.csv", &out, ValueOptions{Kind: KindSPI})
+	v, err := station.ParseValues("index.csv", &out, station.ValueOptions{Kind: station.KindSPI})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -39,7 +40,7 @@ func TestScenarioThroughIndex(t *testing.T) {
 		}
 	}
 	// 3 short records and 1 missing target year (scenario.go), as "no value".
-	if noIndex != 4 || len(v.Rejected) != 4 || v.RejectedByReason()[ReasonNoValue] != 4 || len(v.Stations) != len(s.Sites)-4 {
+	if noIndex != 4 || len(v.Rejected) != 4 || v.RejectedByReason()[station.ReasonNoValue] != 4 || len(v.Stations) != len(s.Sites)-4 {
 		t.Fatalf("no index %d, rejected %v, stations %d of %d", noIndex, v.Rejected, len(v.Stations), len(s.Sites))
 	}
 	var sum2 float64

@@ -1,4 +1,4 @@
-package classes
+package bands
 
 import (
 	"math"

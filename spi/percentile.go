@@ -1,4 +1,4 @@
-package station
+package spi
 
 import (
 	"math"
@@ -25,11 +25,11 @@ func Median(sample []float64) float64 {
 	}
 	s := append([]float64(nil), sample...)
 	sort.Float64s(s)
-	return pctSortedMedian(s)
+	return SortedMedian(s)
 }
 
-// pctSortedMedian is the median of an ascending, non-empty sample.
-func pctSortedMedian(s []float64) float64 {
+// SortedMedian is the median of an ascending, non-empty sample.
+func SortedMedian(s []float64) float64 {
 	n := len(s)
 	if n%2 == 1 {
 		return s[n/2]
@@ -37,9 +37,9 @@ func pctSortedMedian(s []float64) float64 {
 	return (s[n/2-1] + s[n/2]) / 2
 }
 
-// pctSortedCount counts the members of an ascending sample below and equal
+// SortedCount counts the members of an ascending sample below and equal
 // to x by binary search.
-func pctSortedCount(s []float64, x float64) (below, equal int) {
+func SortedCount(s []float64, x float64) (below, equal int) {
 	below = sort.SearchFloat64s(s, x)
 	hi := sort.Search(len(s), func(i int) bool { return s[i] > x })
 	return below, hi - below

@@ -1,4 +1,4 @@
-package station
+package scenario
 
 import (
 	"bytes"
@@ -12,8 +12,9 @@ import (
 	"strings"
 	"testing"
 
-	"drygrid/classes"
+	"drygrid/bands"
 	"drygrid/internal/reftest"
+	"drygrid/station"
 )
 
 func scnCSVs(t *testing.T, s *Scenario) [3][]byte {
@@ -304,14 +305,14 @@ func TestScenarioAnomaly(t *testing.T) {
 	if s.DryCentre[0] > s.WetCentre[0] {
 		t.Error("dry core should be west of the wet one")
 	}
-	bands := map[uint8]int{}
-	sch := classes.Default()
+	perBand := map[uint8]int{}
+	sch := bands.Default()
 	for _, st := range s.Sites {
-		bands[sch.Classify(s.AnomalyZ[st.ID])]++
+		perBand[sch.Classify(s.AnomalyZ[st.ID])]++
 	}
-	t.Logf("stations per band: %v", bands)
-	if len(bands) < 6 {
-		t.Errorf("stations fall in only %d bands: %v", len(bands), bands)
+	t.Logf("stations per band: %v", perBand)
+	if len(perBand) < 6 {
+		t.Errorf("stations fall in only %d bands: %v", len(perBand), perBand)
 	}
 }
 
@@ -365,7 +366,7 @@ func TestScenarioTargetYearAgainstSciPy(t *testing.T) {
 func TestScenarioCSVRoundTrip(t *testing.T) {
 	s := DemoScenario()
 	c := scnCSVs(t, s)
-	v, err := ParseValues("values.csv", bytes.NewReader(c[2]), ValueOptions{Kind: KindSPI})
+	v, err := station.ParseValues("values.csv", bytes.NewReader(c[2]), station.ValueOptions{Kind: station.KindSPI})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -377,7 +378,7 @@ func TestScenarioCSVRoundTrip(t *testing.T) {
 			t.Fatalf("values row %d: %+v vs %+v z %v", i, st, s.Sites[i], s.AnomalyZ[st.ID])
 		}
 	}
-	tb, err := NewTable("stations.csv", bytes.NewReader(c[0]))
+	tb, err := station.NewTable("stations.csv", bytes.NewReader(c[0]))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -401,7 +402,7 @@ func TestScenarioCSVRoundTrip(t *testing.T) {
 	if n != len(s.Sites) {
 		t.Fatalf("%d station rows", n)
 	}
-	tt, err := NewTable("totals.csv", bytes.NewReader(c[1]))
+	tt, err := station.NewTable("totals.csv", bytes.NewReader(c[1]))
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -1,4 +1,4 @@
-package grid
+package region
 
 import (
 	"encoding/json"
@@ -7,6 +7,7 @@ import (
 	"runtime"
 	"testing"
 
+	"drygrid/grid"
 	"drygrid/internal/reftest"
 
 	"github.com/paulmach/orb"
@@ -61,7 +62,7 @@ func ringsJSON(p orb.Polygon) [][][2]float64 {
 // exactly; one offset by a quarter cell covers exact halves at its ends
 // (plane geometry).
 func TestCoverageAlignedRectangle(t *testing.T) {
-	s, err := NewSpec(0, 30, 20, 50, 0.5)
+	s, err := grid.NewSpec(0, 30, 20, 50, 0.5)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -96,7 +97,7 @@ func TestCoverageAlignedRectangle(t *testing.T) {
 // rings and regions smaller than one cell.
 func TestCoverageVsShapely(t *testing.T) {
 	py := reftest.Python(t, "shapely", "numpy")
-	s, err := NewSpec(-10, -10, 10, 10, 1)
+	s, err := grid.NewSpec(-10, -10, 10, 10, 1)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -143,7 +144,7 @@ func TestCoverageVsShapely(t *testing.T) {
 	}
 }
 
-func regionAreaKm2(s Spec, g orb.MultiPolygon) float64 {
+func regionAreaKm2(s grid.Spec, g orb.MultiPolygon) float64 {
 	var a float64
 	for _, w := range Coverage(s, g) {
 		a += w.Frac * s.CellAreaKm2(w.Cell/s.Cols)
@@ -157,7 +158,7 @@ func regionAreaKm2(s Spec, g orb.MultiPolygon) float64 {
 // 0.1 % for regions of 100+ cells (issue 5).
 func TestRegionAreaVsPyproj(t *testing.T) {
 	py := reftest.Python(t, "pyproj", "shapely")
-	s, err := Global(0.1)
+	s, err := grid.Global(0.1)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -197,8 +198,8 @@ func TestRegionAreaVsPyproj(t *testing.T) {
 // surface, 510,065,621.7 km^2 (Moritz 2000, Geodetic Reference System 1980,
 // J. Geodesy 74; the WGS84 value differs below 0.1 km^2).
 func TestGlobeArea(t *testing.T) {
-	s, _ := Global(1)
-	b := NewUint8(s, 0)
+	s, _ := grid.Global(1)
+	b := grid.NewUint8(s, 0)
 	rs := []Region{{Key: "earth", Geom: mustNorm(t, rect(-180, -90, 180, 90))}}
 	st := Zonal(b, nil, rs)
 	if math.Abs(st[0].AreaKm2-510065621.7) > 0.1 {
@@ -215,9 +216,9 @@ func TestGlobeArea(t *testing.T) {
 func TestCoverageAntimeridian(t *testing.T) {
 	whole := mustNorm(t, rect(175, -2, 185, 3))
 	split := mustNorm(t, orb.MultiPolygon{rect(175, -2, 180, 3), rect(-180, -2, -175, 3)})
-	cross, _ := NewSpec(170, -10, -170, 10, 0.5)
-	glob, _ := Global(0.5)
-	for _, s := range []Spec{cross, glob} {
+	cross, _ := grid.NewSpec(170, -10, -170, 10, 0.5)
+	glob, _ := grid.Global(0.5)
+	for _, s := range []grid.Spec{cross, glob} {
 		a, b := Coverage(s, whole), Coverage(s, split)
 		if len(a) != 200 || len(b) != 200 {
 			t.Fatalf("%s: %d and %d cells, want 20 x 10 = 200", s, len(a), len(b))
@@ -243,7 +244,7 @@ func TestCoverageAntimeridian(t *testing.T) {
 // grid's covered area, and per region the band areas plus the masked area
 // make the region's area (a law of any partition).
 func TestTilingProperty(t *testing.T) {
-	s, _ := NewSpec(-20, -15, 25, 18, 0.5)
+	s, _ := grid.NewSpec(-20, -15, 25, 18, 0.5)
 	rowA := s.RowAreasKm2()
 	for seed := uint64(1); seed <= 25; seed++ {
 		rng := rand.New(rand.NewPCG(seed, 7))
@@ -263,7 +264,7 @@ func TestTilingProperty(t *testing.T) {
 				t.Fatalf("seed %d (%dx%d tiles, %d segments): cell %d shares add to %.12f, want 1", seed, nx, ny, sub, i, v)
 			}
 		}
-		b := NewUint8(s, 0)
+		b := grid.NewUint8(s, 0)
 		var covered float64
 		for i := range b.Data {
 			if c := uint8(rng.IntN(11)); c < 10 {
@@ -295,9 +296,9 @@ func TestTilingProperty(t *testing.T) {
 // TestZonalMeanZ: a region over half of one cell and the whole of its
 // neighbour (same row, same area) weighs their codes and z 1 : 2 (arithmetic).
 func TestZonalMeanZ(t *testing.T) {
-	s, _ := NewSpec(0, 0, 4, 2, 1)
-	b := NewUint8(s, 0)
-	z := NewFloat32(s, NoDataIndex)
+	s, _ := grid.NewSpec(0, 0, 4, 2, 1)
+	b := grid.NewUint8(s, 0)
+	z := grid.NewFloat32(s, grid.NoDataIndex)
 	b.Data[s.Index(1, 0)], z.Data[s.Index(1, 0)] = 1, -2
 	b.Data[s.Index(2, 0)], z.Data[s.Index(2, 0)] = 5, 1
 	rs := []Region{{Key: "r", Geom: mustNorm(t, rect(1.5, 1, 3, 2))}, {Key: "far", Geom: mustNorm(t, rect(50, 1, 51, 2))}}
@@ -310,8 +311,8 @@ func TestZonalMeanZ(t *testing.T) {
 	if st[1].AreaKm2 != 0 || st[1].HasMeanZ || st[1].Key != "far" {
 		t.Errorf("region off the grid: %+v", st[1])
 	}
-	other, _ := NewSpec(0, 0, 4, 3, 1)
-	wrong := NewFloat32(other, NoDataIndex)
+	other, _ := grid.NewSpec(0, 0, 4, 3, 1)
+	wrong := grid.NewFloat32(other, grid.NoDataIndex)
 	if err := SameGrid(b, wrong); err == nil {
 		t.Error("SameGrid accepts an index raster on another grid")
 	}
@@ -323,17 +324,17 @@ func TestZonalMeanZ(t *testing.T) {
 // BenchmarkZonalGlobal3000: 3,000 jittered regions (60 x 50, 32 vertices
 // each) tiling the globe, over the global 0.1 deg band raster (issue 5).
 func BenchmarkZonalGlobal3000(b *testing.B) {
-	s, _ := Global(0.1)
+	s, _ := grid.Global(0.1)
 	rng := rand.New(rand.NewPCG(3, 3000))
 	rs, err := jitterTiling(rng, -180, -90, 180, 90, 60, 50, 8)
 	if err != nil {
 		b.Fatal(err)
 	}
-	bands := NewUint8(s, 0)
+	bands := grid.NewUint8(s, 0)
 	for i := range bands.Data {
 		bands.Data[i] = uint8(i / 7919 % 10)
 	}
-	idx := NewFloat32(s, NoDataIndex)
+	idx := grid.NewFloat32(s, grid.NoDataIndex)
 	for i := range idx.Data {
 		idx.Data[i] = float32(i%101)/25 - 2
 	}
@@ -348,12 +349,12 @@ func BenchmarkZonalGlobal3000(b *testing.B) {
 // TestZonalCoreCount: results are bit-identical for any GOMAXPROCS (team
 // brief: deterministic outputs).
 func TestZonalCoreCount(t *testing.T) {
-	s, _ := NewSpec(-20, -15, 25, 18, 0.25)
+	s, _ := grid.NewSpec(-20, -15, 25, 18, 0.25)
 	rs, err := jitterTiling(rand.New(rand.NewPCG(9, 9)), s.West, s.South(), s.East(), s.North, 9, 7, 5)
 	if err != nil {
 		t.Fatal(err)
 	}
-	b, z := NewUint8(s, 0), NewFloat32(s, NoDataIndex)
+	b, z := grid.NewUint8(s, 0), grid.NewFloat32(s, grid.NoDataIndex)
 	for i := range b.Data {
 		b.Data[i], z.Data[i] = uint8(i%10), float32(i%17)/4-2
 	}

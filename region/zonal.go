@@ -1,6 +1,7 @@
-package grid
+package region
 
 import (
+	"drygrid/grid"
 	"fmt"
 	"math"
 	"runtime"
@@ -33,7 +34,7 @@ func (z ZonalStats) MaskedKm2() float64 { return z.AreaKm2 - z.CoveredKm2 }
 //
 // An rtree over the region bounds (shifted by -360, 0, +360 for the
 // antimeridian, see Coverage) picks the regions that reach the grid.
-func Zonal(bands *Uint8, index *Float32, regions []Region) []ZonalStats {
+func Zonal(bands *grid.Uint8, index *grid.Float32, regions []Region) []ZonalStats {
 	if bands == nil || len(bands.Data) != bands.Spec.Len() {
 		return nil
 	}
@@ -78,7 +79,7 @@ func Zonal(bands *Uint8, index *Float32, regions []Region) []ZonalStats {
 
 // SameGrid reports an error when the index raster is not on the band
 // raster's grid (nil index is fine).
-func SameGrid(bands *Uint8, index *Float32) error {
+func SameGrid(bands *grid.Uint8, index *grid.Float32) error {
 	if index == nil {
 		return nil
 	}
@@ -88,7 +89,7 @@ func SameGrid(bands *Uint8, index *Float32) error {
 	return nil
 }
 
-func zonalOne(bands *Uint8, index *Float32, r Region, reach bool, rowArea []float64, cov *covWork, buf []CellWeight) (ZonalStats, []CellWeight) {
+func zonalOne(bands *grid.Uint8, index *grid.Float32, r Region, reach bool, rowArea []float64, cov *covWork, buf []CellWeight) (ZonalStats, []CellWeight) {
 	z := ZonalStats{Key: r.Key, CodeKm2: make([]float64, 256)}
 	if !reach {
 		return z, buf

@@ -1,6 +1,7 @@
-package grid
+package region
 
 import (
+	"drygrid/grid"
 	"strings"
 	"testing"
 )
@@ -127,7 +128,7 @@ func FuzzParseRegions(f *testing.F) {
 		if err != nil {
 			return
 		}
-		s, _ := NewSpec(-180, -90, 180, 90, 5)
+		s, _ := grid.NewSpec(-180, -90, 180, 90, 5)
 		for _, r := range rs {
 			for _, p := range r.Geom {
 				if regSignedArea(p[0]) <= 0 {

@@ -1,4 +1,4 @@
-package station
+package spi
 
 import (
 	"math"
@@ -101,11 +101,11 @@ func ADCritical5(m float64) float64 {
 // x against the fitted gamma(shape, scale). tested is false when there are
 // fewer than ADMinCount positive values; ok is false when the test rejects.
 func GammaFitOK(x []float64, shape, scale float64) (a2 float64, ok, tested bool) {
-	return gofTest(gofPositives(x), shape, scale)
+	return GammaFitOKSorted(gofPositives(x), shape, scale)
 }
 
-// gofTest is GammaFitOK on an ascending slice of positive values.
-func gofTest(s []float64, shape, scale float64) (a2 float64, ok, tested bool) {
+// GammaFitOKSorted is GammaFitOK on an ascending slice of positive values.
+func GammaFitOKSorted(s []float64, shape, scale float64) (a2 float64, ok, tested bool) {
 	if len(s) < ADMinCount {
 		return math.NaN(), true, false
 	}

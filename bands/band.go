@@ -1,6 +1,6 @@
 // Package classes holds band schemes: named severity bands over z (SPI
 // units), classifying values into them, and the percentile <-> z conversion.
-package classes
+package bands
 
 import (
 	"fmt"

@@ -1,6 +1,7 @@
-package grid
+package region
 
 import (
+	"drygrid/grid"
 	"math"
 	"sort"
 
@@ -10,7 +11,7 @@ import (
 // CellWeight is one grid cell touched by a region and the share of the
 // cell's area that lies inside the region.
 type CellWeight struct {
-	Cell int     // row-major index, Spec.Index(col, row)
+	Cell int     // row-major index, grid.Spec.Index(col, row)
 	Frac float64 // share of the cell inside the region, in (0, 1]
 }
 
@@ -47,13 +48,13 @@ const covMinFrac = 1e-12
 // integral -∮ y dx of the clipped ring is split among the columns each edge
 // spans; clipping to a column only adds vertical edges, on which dx = 0, so
 // the per-column sums are the exact clipped areas.
-func Coverage(s Spec, g orb.MultiPolygon) []CellWeight {
+func Coverage(s grid.Spec, g orb.MultiPolygon) []CellWeight {
 	var cov covWork
 	return cov.coverage(s, g, nil)
 }
 
 // coverage is Coverage appending to all[:0] and reusing c's buffers.
-func (c *covWork) coverage(s Spec, g orb.MultiPolygon, all []CellWeight) []CellWeight {
+func (c *covWork) coverage(s grid.Spec, g orb.MultiPolygon, all []CellWeight) []CellWeight {
 	all = all[:0]
 	for _, p := range g {
 		if len(p) == 0 {
@@ -110,7 +111,7 @@ func covSnapped(v float64) float64 {
 }
 
 // polygon adds the shares of one polygon shifted by dlon degrees.
-func (c *covWork) polygon(s Spec, p orb.Polygon, dlon float64, out []CellWeight) []CellWeight {
+func (c *covWork) polygon(s grid.Spec, p orb.Polygon, dlon float64, out []CellWeight) []CellWeight {
 	south := s.South()
 	c.rings = c.rings[:0]
 	c.ylo, c.yhi = c.ylo[:0], c.yhi[:0]

@@ -1,4 +1,4 @@
-package station
+package spi
 
 import (
 	"math"
@@ -56,7 +56,7 @@ func GringortenSPI(sample []float64, x float64) float64 {
 		n++
 		equal = 1
 	}
-	return idxGringortenSorted(below, equal, n)
+	return GringortenCounts(below, equal, n)
 }
 
 // spiCount counts the members of sample below and equal to x.
@@ -70,4 +70,12 @@ func spiCount(sample []float64, x float64) (below, equal int) {
 		}
 	}
 	return below, equal
+}
+
+// GringortenCounts is GringortenSPI from the counts below and equal to
+// x (equal >= 1) in a sample of n.
+func GringortenCounts(below, equal, n int) float64 {
+	i := float64(below) + float64(equal+1)/2
+	p := (i - 0.44) / (float64(n) + 0.12)
+	return spiQuantile(p, 1-p)
 }
