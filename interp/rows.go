@@ -12,7 +12,7 @@ import (
 // computes them: the values are the same bits as those rows of
 // Grid(spec, nil), whatever the block split and Params.Workers. Rows are
 // spread over Params.Workers goroutines (0 = GOMAXPROCS). It lets a caller
-// stream a large grid block by block (export.EncodeIndexTIFFRows) without
+// stream a large grid block by block (geotiff.EncodeIndexRows) without
 // holding the whole raster.
 func (ip *Interpolator) Rows(spec grid.Spec, row0, n int, dst []float32) error {
 	if row0 < 0 || n < 0 || row0+n > spec.Rows || spec.Cols < 0 {

@@ -19,6 +19,9 @@ package main
 
 import (
 	"bufio"
+	"drygrid/geotiff"
+	"drygrid/layer/geojson"
+	"drygrid/publish"
 	"encoding/binary"
 	"fmt"
 	"math"
@@ -30,7 +33,6 @@ import (
 	"strings"
 
 	"drygrid/bands"
-	"drygrid/export"
 	"drygrid/grid"
 	"drygrid/interp"
 	"drygrid/station"
@@ -88,7 +90,7 @@ func run(a []string) error {
 		if err != nil {
 			return err
 		}
-		return export.WriteFileAtomic(a[3], func(w *bufio.Writer) error { return station.WriteIndexCSV(w, res) })
+		return publish.WriteFile(a[3], func(w *bufio.Writer) error { return station.WriteIndexCSV(w, res) })
 	case a[0] == "scale" && len(a) == 8:
 		return scale(a[1:])
 	}
@@ -207,12 +209,12 @@ func gammaDraw(r *rand.Rand, shape float64) float64 {
 }
 
 func polygonize(in, out string) error {
-	r, err := export.ReadBandsTIFF(in)
+	r, err := geotiff.ReadBands(in)
 	if err != nil {
 		return err
 	}
 	return writeFile(out, func(w *bufio.Writer) error {
-		return export.WriteBandsGeoJSON(w, r, bands.Default(), export.GeoJSONOptions{})
+		return geojson.EncodeBands(w, r, bands.Default(), geojson.Options{})
 	})
 }
 
@@ -224,19 +226,19 @@ func cog(in, out string) error {
 	if strings.HasSuffix(in, ".f32") {
 		r, err = readRaw(in)
 	} else {
-		r, err = export.ReadIndexTIFF(in)
+		r, err = geotiff.ReadIndex(in)
 	}
 	if err != nil {
 		return err
 	}
-	return export.WriteIndexTIFF(out, r, export.DefaultTIFFOptions())
+	return geotiff.WriteIndex(out, r, geotiff.DefaultOptions())
 }
 
 // raw writes the index GeoTIFF in as raw float32 OUT.f32, its grid as
 // OUT.f32.spec and a GDAL VRT OUT.vrt over the raw file (so that GDAL and
 // drygrid both encode from the same uncompressed pixels).
 func raw(in, out string) error {
-	r, err := export.ReadIndexTIFF(in)
+	r, err := geotiff.ReadIndex(in)
 	if err != nil {
 		return err
 	}

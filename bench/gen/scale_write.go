@@ -5,20 +5,20 @@ import (
 	"strings"
 
 	"drygrid/bands"
-	"drygrid/export"
+	"drygrid/geotiff"
 	"drygrid/grid"
 	"drygrid/interp"
 )
 
 // scaleWrite streams the rows of spec from the interpolator into the index
-// and band COGs (export.WriteIndexBandsTIFFRows): only a few blocks of rows
+// and band COGs (geotiff.WriteIndexBandsRows): only a few blocks of rows
 // and the compressed tiles are held. DRYGRID_BENCH_WHOLE=1 grids the whole
 // raster first and writes it with WriteIndexTIFF/WriteBandsTIFF instead,
 // for comparison.
 // It returns the number of cells with a value.
 func scaleWrite(ip *interp.Interpolator, spec grid.Spec, out string) (valid int, err error) {
 	s := bands.Default()
-	opt := export.DefaultTIFFOptions()
+	opt := geotiff.DefaultOptions()
 	bandsPath := strings.TrimSuffix(out, ".tif") + ".bands.tif"
 	if os.Getenv("DRYGRID_BENCH_WHOLE") == "1" {
 		idx := ip.Grid(spec, nil)
@@ -29,10 +29,10 @@ func scaleWrite(ip *interp.Interpolator, spec grid.Spec, out string) (valid int,
 				valid++
 			}
 		}
-		if err := export.WriteIndexTIFF(out, idx, opt); err != nil {
+		if err := geotiff.WriteIndex(out, idx, opt); err != nil {
 			return 0, err
 		}
-		return valid, export.WriteBandsTIFF(bandsPath, bands, s, opt)
+		return valid, geotiff.WriteBands(bandsPath, bands, s, opt)
 	}
 	rows := rowsOf(ip, spec)
 	count := func(row0, n int, dst []float32) error {
@@ -46,5 +46,5 @@ func scaleWrite(ip *interp.Interpolator, spec grid.Spec, out string) (valid int,
 		}
 		return nil
 	}
-	return valid, export.WriteIndexBandsTIFFRows(out, bandsPath, spec, grid.NoDataIndex, s, count, opt)
+	return valid, geotiff.WriteIndexBandsRows(out, bandsPath, spec, grid.NoDataIndex, s, count, opt)
 }

@@ -1,16 +1,16 @@
 package main
 
 import (
+	"drygrid/history"
+	"drygrid/layer/chart"
 	"fmt"
 
 	"github.com/spf13/cobra"
-
-	"drygrid/export"
 )
 
 // newChartCmd is `drygrid chart`: the share in drought over time per region.
 func newChartCmd() *cobra.Command {
-	var history, out, title string
+	var historyPath, out, title string
 	var limit int
 	c := &cobra.Command{
 		Use:   "chart --history FILE.csv --out chart.png [--regions-limit N]",
@@ -26,17 +26,17 @@ drought declarations.`,
 		Example: `  drygrid chart --history drought-history.csv --out drought-chart.png --regions-limit 6`,
 		Args:    cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
-			if history == "" || out == "" {
+			if historyPath == "" || out == "" {
 				return usagef("chart needs --history FILE.csv and --out FILE.png")
 			}
 			if limit < 1 || limit > 40 {
 				return usagef("--regions-limit %d must be between 1 and 40", limit)
 			}
-			h, err := export.ReadHistory(history)
+			h, err := history.Read(historyPath)
 			if err != nil {
 				return err
 			}
-			if err := export.WriteHistoryChart(out, h, export.ChartOptions{RegionsLimit: limit, Title: title}); err != nil {
+			if err := chart.WriteFile(out, h, chart.Options{RegionsLimit: limit, Title: title}); err != nil {
 				return err
 			}
 			fmt.Fprintf(cmd.ErrOrStderr(), "chart: %d regions, %d dates -> %s\n", min(limit, len(h.Regions)), len(h.Dates), out)
@@ -44,7 +44,7 @@ drought declarations.`,
 		},
 	}
 	fl := c.Flags()
-	fl.StringVar(&history, "history", "", "history CSV from 'drygrid stats --history' (required)")
+	fl.StringVar(&historyPath, "history", "", "history CSV from 'drygrid stats --history' (required)")
 	fl.StringVar(&out, "out", "", "PNG file to write (required)")
 	fl.IntVar(&limit, "regions-limit", 8, "most regions drawn (the highest latest shares)")
 	fl.StringVar(&title, "title", "", "chart title (default \"Share of each region in drought\")")

@@ -14,8 +14,8 @@ import (
 	"github.com/spf13/cobra"
 
 	"drygrid/bands"
-	"drygrid/export"
 	"drygrid/interp"
+	"drygrid/publish"
 	"drygrid/station"
 )
 
@@ -219,7 +219,7 @@ func writeResiduals(path string, v *station.Values, r interp.CrossValResult, sch
 		return ""
 	}
 	num := func(x float64) string { return strconv.FormatFloat(x, 'f', 6, 64) }
-	return export.WriteFileAtomic(path, func(bw *bufio.Writer) error {
+	return publish.WriteFile(path, func(bw *bufio.Writer) error {
 		cw := csv.NewWriter(bw)
 		if err := cw.Write([]string{"station", "latitude", "longitude", "observed", "predicted", "residual",
 			"n_used", "counted", "observed_band", "predicted_band"}); err != nil {

@@ -7,7 +7,8 @@ import (
 	"os"
 	"path/filepath"
 
-	"drygrid/export"
+	"drygrid/history"
+	"drygrid/layer/chart"
 	"drygrid/scenario"
 	"drygrid/station"
 )
@@ -20,7 +21,7 @@ const demoHistoryYears = 10
 // demoHistoryYears years of the scenario (dated on the window's last day)
 // and returns the history table and its chart, to be published with the
 // demo's layers. The template job gives the grid, parameters and regions.
-func demoHistory(sc *scenario.Scenario, stationsCSV, totalsCSV string, tmpl gridJob) (history, chart []byte, err error) {
+func demoHistory(sc *scenario.Scenario, stationsCSV, totalsCSV string, tmpl gridJob) (historyCSV, chartPNG []byte, err error) {
 	tmp, err := os.MkdirTemp("", "drygrid-demo-history-")
 	if err != nil {
 		return nil, nil, fmt.Errorf("demo history: %w", err)
@@ -44,21 +45,21 @@ func demoHistory(sc *scenario.Scenario, stationsCSV, totalsCSV string, tmpl grid
 		if err != nil {
 			return nil, nil, fmt.Errorf("demo history %d: %w", y, err)
 		}
-		if err := export.AppendHistory(histPath, fmt.Sprintf("%d-11-30", y), r.Regions, r.Scheme); err != nil {
+		if err := history.Append(histPath, fmt.Sprintf("%d-11-30", y), r.Regions, r.Scheme); err != nil {
 			return nil, nil, err
 		}
 	}
-	if history, err = os.ReadFile(histPath); err != nil {
+	if historyCSV, err = os.ReadFile(histPath); err != nil {
 		return nil, nil, err
 	}
-	h, err := export.ReadHistory(histPath)
+	h, err := history.Read(histPath)
 	if err != nil {
 		return nil, nil, err
 	}
 	var buf bytes.Buffer
-	opt := export.ChartOptions{Title: fmt.Sprintf("%s: share of each district in drought, %s", capitalize(sc.Name), sc.Window)}
-	if err := export.EncodeHistoryChart(&buf, h, opt); err != nil {
+	opt := chart.Options{Title: fmt.Sprintf("%s: share of each district in drought, %s", capitalize(sc.Name), sc.Window)}
+	if err := chart.Encode(&buf, h, opt); err != nil {
 		return nil, nil, err
 	}
-	return history, buf.Bytes(), nil
+	return historyCSV, buf.Bytes(), nil
 }

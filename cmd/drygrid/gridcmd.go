@@ -1,6 +1,7 @@
 package main
 
 import (
+	"drygrid/history"
 	"fmt"
 	"io"
 	"math"
@@ -9,8 +10,6 @@ import (
 	"time"
 
 	"github.com/spf13/cobra"
-
-	"drygrid/export"
 )
 
 // gridFlags are the flags of `drygrid grid` that shape one run.
@@ -193,7 +192,7 @@ func appendHistory(path, date string, res *gridResult, stderr io.Writer) error {
 	if date == "" {
 		date = time.Now().UTC().Format("2006-01-02")
 	}
-	if err := export.AppendHistory(path, date, res.Regions, res.Scheme); err != nil {
+	if err := history.Append(path, date, res.Regions, res.Scheme); err != nil {
 		return err
 	}
 	fmt.Fprintf(stderr, "history: %d rows for %s in %s\n", len(res.Regions), date, path)

@@ -14,9 +14,11 @@ import (
 	"unicode/utf8"
 
 	"drygrid/bands"
-	"drygrid/export"
+	"drygrid/geotiff"
 	"drygrid/grid"
 	"drygrid/interp"
+	"drygrid/manifest"
+	"drygrid/publish"
 	"drygrid/region"
 	"drygrid/station"
 )
@@ -52,7 +54,7 @@ type gridJob struct {
 	Extra map[string][]byte
 	// ExtraInputs, ExtraParams, ExtraCounts and ExtraTimings go into the
 	// manifest beside the grid step's own.
-	ExtraInputs  []export.ManifestFile
+	ExtraInputs  []manifest.File
 	ExtraParams  map[string]any
 	ExtraCounts  map[string]any
 	ExtraTimings map[string]float64
@@ -70,7 +72,7 @@ type gridResult struct {
 	Elapsed time.Duration
 	// Rows, when not nil, streams the index rows into the GeoTIFF writers
 	// (Index and Bands are then nil). Tally holds the band areas either way.
-	Rows  export.TIFFRowFunc
+	Rows  geotiff.RowFunc
 	Tally *bandTally
 
 	timings  map[string]float64     // seconds by step, for the manifest
@@ -226,7 +228,7 @@ func classify(index *grid.Float32, scheme *bands.Scheme) *grid.Uint8 {
 // into a temporary directory beside job.Out and publishes it in place of
 // job.Out once all are written (publish.go).
 func writeLayers(job gridJob, res *gridResult, regions []region.Region, start time.Time) error {
-	owned := map[string]bool{export.ManifestName: true}
+	owned := map[string]bool{manifest.Name: true}
 	for _, files := range layerFiles {
 		for _, f := range files {
 			owned[f] = true
@@ -263,21 +265,21 @@ func writeLayers(job gridJob, res *gridResult, regions []region.Region, start ti
 		if err != nil {
 			return err
 		}
-		if err := export.WriteManifest(dir, m); err != nil {
+		if err := manifest.Write(dir, m); err != nil {
 			return err
 		}
 		res.Files = res.Files[:0]
 		for _, f := range m.Outputs {
 			res.Files = append(res.Files, f.Path)
 		}
-		res.Files = append(res.Files, export.ManifestName)
+		res.Files = append(res.Files, manifest.Name)
 		return nil
 	}})
 }
 
 // writeStream writes one file of a layer through a streaming encoder.
 func writeStream(path string, enc func(w io.Writer) error) error {
-	return export.WriteFileAtomic(path, func(w *bufio.Writer) error { return enc(w) })
+	return publish.WriteFile(path, func(w *bufio.Writer) error { return enc(w) })
 }
 
 // regionsErrPos adds the line and column to a JSON syntax error in the

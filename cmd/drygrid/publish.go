@@ -43,6 +43,7 @@ package main
 
 import (
 	"crypto/rand"
+	"drygrid/manifest"
 	"encoding/hex"
 	"errors"
 	"fmt"
@@ -53,8 +54,6 @@ import (
 	"strings"
 	"syscall"
 	"time"
-
-	"drygrid/export"
 )
 
 // publishStaleAfter is the age after which a temporary directory is removed
@@ -293,8 +292,8 @@ func publishCarryOver(out, tmp string, owned map[string]bool, inputs []string) e
 		}
 	}
 	prev := map[string]bool{}
-	if b, err := os.ReadFile(filepath.Join(out, export.ManifestName)); err == nil {
-		if names, err := export.ParseManifestOutputs(filepath.Join(out, export.ManifestName), b); err == nil {
+	if b, err := os.ReadFile(filepath.Join(out, manifest.Name)); err == nil {
+		if names, err := manifest.ParseOutputs(filepath.Join(out, manifest.Name), b); err == nil {
 			for _, n := range names {
 				prev[strings.Split(n, "/")[0]] = true
 			}
@@ -334,7 +333,7 @@ func publishLeftover(name string) bool {
 			}
 		}
 	}
-	return strings.HasPrefix(name, "."+export.ManifestName+".tmp-")
+	return strings.HasPrefix(name, "."+manifest.Name+".tmp-")
 }
 
 // publishLink recreates src at dst: directories are made anew, regular files

@@ -109,7 +109,7 @@ func TestRunExample(t *testing.T) {
 	if n := strings.Count(string(hist), "\n2025-11-30,"); n != 6 {
 		t.Errorf("history has %d rows for 2025-11-30, want 6:\n%s", n, hist)
 	}
-	// Re-running the same date replaces the rows (export.AppendHistory);
+	// Re-running the same date replaces the rows (history.Append);
 	// on 3 cores every file, and the manifest but its timings, is the same.
 	runtime.GOMAXPROCS(3)
 	if code := run([]string{"run", jobPath}); code != exitOK {

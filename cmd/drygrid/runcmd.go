@@ -9,7 +9,8 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"drygrid/export"
+	"drygrid/history"
+	"drygrid/manifest"
 	"drygrid/station"
 )
 
@@ -81,11 +82,11 @@ func runJobFile(path string, stderr io.Writer) error {
 		return err
 	}
 	g := j.Grid
-	jobIn, err := export.ManifestInput(path, "job")
+	jobIn, err := manifest.Input(path, "job")
 	if err != nil {
 		return err
 	}
-	g.ExtraInputs = []export.ManifestFile{jobIn}
+	g.ExtraInputs = []manifest.File{jobIn}
 	g.ExtraParams = map[string]any{"window": j.Window, "date": j.Date, "year": j.Year}
 	g.ExtraCounts = map[string]any{}
 	g.ExtraTimings = map[string]float64{}
@@ -107,7 +108,7 @@ func runJobFile(path string, stderr io.Writer) error {
 		g.StationsData = buf.Bytes()
 		g.Extra = map[string][]byte{"index.csv": buf.Bytes()}
 		for _, in := range [][2]string{{j.Totals, "totals"}, {j.StationList, "station-list"}} {
-			f, err := export.ManifestInput(in[0], in[1])
+			f, err := manifest.Input(in[0], in[1])
 			if err != nil {
 				return err
 			}
@@ -133,7 +134,7 @@ func runJobFile(path string, stderr io.Writer) error {
 		printCrossval(stderr, res.Values.Path, *res.crossval)
 	}
 	if j.History != "" {
-		if err := export.AppendHistory(j.History, j.Date, res.Regions, res.Scheme); err != nil {
+		if err := history.Append(j.History, j.Date, res.Regions, res.Scheme); err != nil {
 			return fmt.Errorf("layers published in %s, but the history was not updated: %w", g.Out, err)
 		}
 		fmt.Fprintf(stderr, "history: %d regions for %s in %s\n", len(res.Regions), j.Date, filepath.Clean(j.History))

@@ -9,8 +9,11 @@ import (
 	"github.com/spf13/cobra"
 
 	"drygrid/bands"
-	"drygrid/export"
+	"drygrid/geotiff"
 	"drygrid/grid"
+	"drygrid/history"
+	"drygrid/layer/regions"
+	"drygrid/publish"
 	"drygrid/region"
 )
 
@@ -76,43 +79,43 @@ func runStats(cmd *cobra.Command, f statsFlags) error {
 	if err != nil {
 		return err
 	}
-	regions, err := region.ReadRegions(f.regions, f.regionKey)
+	regs, err := region.ReadRegions(f.regions, f.regionKey)
 	if err != nil {
 		return err
 	}
-	bands, err := export.ReadBandsTIFF(f.bands)
+	bandRaster, err := geotiff.ReadBands(f.bands)
 	if err != nil {
 		return err
 	}
-	if err := statsCheckCodes(f.bands, bands, scheme); err != nil {
+	if err := statsCheckCodes(f.bands, bandRaster, scheme); err != nil {
 		return err
 	}
 	var index *grid.Float32
 	if f.index != "" {
-		if index, err = export.ReadIndexTIFF(f.index); err != nil {
+		if index, err = geotiff.ReadIndex(f.index); err != nil {
 			return err
 		}
-		if err := region.SameGrid(bands, index); err != nil {
+		if err := region.SameGrid(bandRaster, index); err != nil {
 			return fmt.Errorf("%s and %s: %w", f.bands, f.index, err)
 		}
 	}
-	stats := region.Zonal(bands, index, regions)
+	stats := region.Zonal(bandRaster, index, regs)
 	if err := os.MkdirAll(f.out, 0o755); err != nil {
 		return fmt.Errorf("--out %s: %w", f.out, err)
 	}
-	meta := export.RegionsMeta{Date: f.date, Source: f.bands, Regions: f.regions, Grid: bands.Spec.String()}
-	if err := export.WriteFileAtomic(filepath.Join(f.out, "regions.csv"), func(w *bufio.Writer) error {
-		return export.WriteRegionsCSV(w, stats, scheme)
+	meta := regions.Meta{Date: f.date, Source: f.bands, Regions: f.regions, Grid: bandRaster.Spec.String()}
+	if err := publish.WriteFile(filepath.Join(f.out, "regions.csv"), func(w *bufio.Writer) error {
+		return regions.WriteCSV(w, stats, scheme)
 	}); err != nil {
 		return err
 	}
-	if err := export.WriteFileAtomic(filepath.Join(f.out, "regions.json"), func(w *bufio.Writer) error {
-		return export.WriteRegionsJSON(w, stats, scheme, meta)
+	if err := publish.WriteFile(filepath.Join(f.out, "regions.json"), func(w *bufio.Writer) error {
+		return regions.WriteJSON(w, stats, scheme, meta)
 	}); err != nil {
 		return err
 	}
 	if f.history != "" {
-		if err := export.AppendHistory(f.history, f.date, stats, scheme); err != nil {
+		if err := history.Append(f.history, f.date, stats, scheme); err != nil {
 			return err
 		}
 	}
@@ -123,7 +126,7 @@ func runStats(cmd *cobra.Command, f statsFlags) error {
 			outside++
 		}
 	}
-	fmt.Fprintf(e, "stats: %d regions over %s -> %s\n", len(regions), bands.Spec, filepath.Join(f.out, "regions.csv"))
+	fmt.Fprintf(e, "stats: %d regions over %s -> %s\n", len(regs), bandRaster.Spec, filepath.Join(f.out, "regions.csv"))
 	if outside > 0 {
 		fmt.Fprintf(e, "warning: %d regions lie wholly outside the grid (area 0)\n", outside)
 	}

@@ -11,7 +11,7 @@ import (
 	"testing"
 
 	"drygrid/bands"
-	"drygrid/export"
+	"drygrid/geotiff"
 	"drygrid/grid"
 )
 
@@ -65,10 +65,10 @@ func TestStatsAndChartCommands(t *testing.T) {
 		}
 	}
 	bandsPath, index := filepath.Join(dir, "bands.tif"), filepath.Join(dir, "index.tif")
-	if err := export.WriteBandsTIFF(bandsPath, b, bands.Default(), export.DefaultTIFFOptions()); err != nil {
+	if err := geotiff.WriteBands(bandsPath, b, bands.Default(), geotiff.DefaultOptions()); err != nil {
 		t.Fatal(err)
 	}
-	if err := export.WriteIndexTIFF(index, z, export.DefaultTIFFOptions()); err != nil {
+	if err := geotiff.WriteIndex(index, z, geotiff.DefaultOptions()); err != nil {
 		t.Fatal(err)
 	}
 	regions := "../../testdata/regions/districts.geojson"
@@ -119,13 +119,13 @@ func TestStatsAndChartCommands(t *testing.T) {
 	}
 	other, _ := grid.NewSpec(9, 41, 18, 48, 0.5)
 	wrong := filepath.Join(dir, "wrong.tif")
-	export.WriteIndexTIFF(wrong, grid.NewFloat32(other, grid.NoDataIndex), export.DefaultTIFFOptions())
+	geotiff.WriteIndex(wrong, grid.NewFloat32(other, grid.NoDataIndex), geotiff.DefaultOptions())
 	if err := statsRun(t, "stats", "--bands", bandsPath, "--index", wrong, "--regions", regions, "--out", out); err == nil || !strings.Contains(err.Error(), "differs from the band raster's") {
 		t.Errorf("index on another grid: %v", err)
 	}
 	b.Data[0] = 77
 	odd := filepath.Join(dir, "odd.tif")
-	export.WriteBandsTIFF(odd, b, bands.Default(), export.DefaultTIFFOptions())
+	geotiff.WriteBands(odd, b, bands.Default(), geotiff.DefaultOptions())
 	if err := statsRun(t, "stats", "--bands", odd, "--regions", regions, "--out", out); err == nil || !strings.Contains(err.Error(), "holds code 77") {
 		t.Errorf("unknown code: %v", err)
 	}

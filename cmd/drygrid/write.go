@@ -2,6 +2,10 @@ package main
 
 import (
 	"bytes"
+	"drygrid/geotiff"
+	"drygrid/layer"
+	"drygrid/layer/geojson"
+	"drygrid/manifest"
 	"fmt"
 	"io"
 	"path/filepath"
@@ -9,7 +13,6 @@ import (
 	"strings"
 	"time"
 
-	"drygrid/export"
 	"drygrid/region"
 )
 
@@ -36,16 +39,16 @@ func (w *layerWriter) params() map[string]any {
 }
 
 func (w *layerWriter) write(name string) error {
-	opt := export.DefaultTIFFOptions()
+	opt := geotiff.DefaultOptions()
 	opt.Software = "drygrid " + version
 	if w.res.Rows != nil && (name == "index" || name == "bands") {
 		return w.writeStreamed(name, opt)
 	}
 	switch name {
 	case "index":
-		return export.WriteIndexTIFF(w.path("index.tif"), w.res.Index, opt)
+		return geotiff.WriteIndex(w.path("index.tif"), w.res.Index, opt)
 	case "bands":
-		return export.WriteBandsTIFF(w.path("bands.tif"), w.res.Bands, w.res.Scheme, opt)
+		return geotiff.WriteBands(w.path("bands.tif"), w.res.Bands, w.res.Scheme, opt)
 	case "geojson":
 		b, err := w.bandsGeoJSON()
 		if err != nil {
@@ -69,12 +72,12 @@ func (w *layerWriter) write(name string) error {
 }
 
 // stationPoints are the stations as the GeoJSON writer takes them.
-func (w *layerWriter) stationPoints() []export.StationPoint {
+func (w *layerWriter) stationPoints() []geojson.Station {
 	spec, scheme := w.res.Spec, w.res.Scheme
-	pts := make([]export.StationPoint, 0, len(w.res.Values.Stations))
+	pts := make([]geojson.Station, 0, len(w.res.Values.Stations))
 	for _, s := range w.res.Values.Stations {
 		_, _, in := spec.Cell(s.Lon, s.Lat)
-		pts = append(pts, export.StationPoint{ID: s.ID, Lon: s.Lon, Lat: s.Lat, Value: s.Value,
+		pts = append(pts, geojson.Station{ID: s.ID, Lon: s.Lon, Lat: s.Lat, Value: s.Value,
 			Z: s.Z, HasZ: true, Code: scheme.Classify(s.Z), InGrid: in})
 	}
 	return pts
@@ -84,8 +87,8 @@ func (w *layerWriter) stationPoints() []export.StationPoint {
 func (w *layerWriter) bandsGeoJSON() ([]byte, error) {
 	if w.bandsGJ == nil {
 		var buf bytes.Buffer
-		opt := export.GeoJSONOptions{SimplifyKm: w.job.SimplifyKm, Caution: export.MapCaution, Params: w.params()}
-		if err := export.WriteBandsGeoJSON(&buf, w.res.Bands, w.res.Scheme, opt); err != nil {
+		opt := geojson.Options{SimplifyKm: w.job.SimplifyKm, Caution: layer.Caution, Params: w.params()}
+		if err := geojson.EncodeBands(&buf, w.res.Bands, w.res.Scheme, opt); err != nil {
 			return nil, err
 		}
 		w.bandsGJ = buf.Bytes()
@@ -97,8 +100,8 @@ func (w *layerWriter) bandsGeoJSON() ([]byte, error) {
 func (w *layerWriter) stationsGeoJSON() ([]byte, error) {
 	if w.stationsGJ == nil {
 		var buf bytes.Buffer
-		opt := export.GeoJSONOptions{Caution: export.MapCaution, Params: w.params()}
-		if err := export.WriteStationsGeoJSON(&buf, w.stationPoints(), w.res.Scheme, opt); err != nil {
+		opt := geojson.Options{Caution: layer.Caution, Params: w.params()}
+		if err := geojson.EncodeStations(&buf, w.stationPoints(), w.res.Scheme, opt); err != nil {
 			return nil, err
 		}
 		w.stationsGJ = buf.Bytes()
@@ -133,12 +136,12 @@ func sortedKeys[V any](m map[string]V) []string {
 }
 
 // buildManifest describes the run whose files are in dir.
-func buildManifest(job gridJob, res *gridResult, dir string, start time.Time) (*export.Manifest, error) {
-	var inputs []export.ManifestFile
+func buildManifest(job gridJob, res *gridResult, dir string, start time.Time) (*manifest.Manifest, error) {
+	var inputs []manifest.File
 	// A stations table made in memory by the index step is an output
 	// (job.Extra), not an input.
 	if job.StationsData == nil {
-		f, err := export.ManifestInput(job.Stations, "stations")
+		f, err := manifest.Input(job.Stations, "stations")
 		if err != nil {
 			return nil, err
 		}
@@ -148,14 +151,14 @@ func buildManifest(job gridJob, res *gridResult, dir string, start time.Time) (*
 		if in[0] == "" {
 			continue
 		}
-		f, err := export.ManifestInput(in[0], in[1])
+		f, err := manifest.Input(in[0], in[1])
 		if err != nil {
 			return nil, err
 		}
 		inputs = append(inputs, f)
 	}
 	inputs = append(inputs, job.ExtraInputs...)
-	outputs, err := export.ManifestOutputs(dir, nil)
+	outputs, err := manifest.Outputs(dir, nil)
 	if err != nil {
 		return nil, err
 	}
@@ -213,8 +216,8 @@ func buildManifest(job gridJob, res *gridResult, dir string, start time.Time) (*
 	if command == "" {
 		command = "grid"
 	}
-	return &export.Manifest{
-		Software: "drygrid", Version: version, Command: command, Caution: export.MapCaution,
+	return &manifest.Manifest{
+		Software: "drygrid", Version: version, Command: command, Caution: layer.Caution,
 		Parameters: params, Inputs: inputs, Outputs: outputs, Counts: counts, Grid: gridInfo, Timings: timings,
 	}, nil
 }

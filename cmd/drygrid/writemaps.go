@@ -6,7 +6,10 @@ import (
 	"math"
 	"os"
 
-	"drygrid/export"
+	"drygrid/layer"
+	"drygrid/layer/page"
+	"drygrid/layer/picture"
+	"drygrid/layer/regions"
 	"drygrid/region"
 )
 
@@ -14,13 +17,13 @@ import (
 func (w *layerWriter) writeRegions() error {
 	stats, s := w.res.Regions, w.res.Scheme
 	if err := writeStream(w.path("regions.csv"), func(out io.Writer) error {
-		return export.WriteRegionsCSV(out, stats, s)
+		return regions.WriteCSV(out, stats, s)
 	}); err != nil {
 		return err
 	}
-	meta := export.RegionsMeta{Source: "drygrid grid --stations " + w.job.Stations, Regions: w.job.Regions, Grid: w.res.Spec.String()}
+	meta := regions.Meta{Source: "drygrid grid --stations " + w.job.Stations, Regions: w.job.Regions, Grid: w.res.Spec.String()}
 	return writeStream(w.path("regions.json"), func(out io.Writer) error {
-		return export.WriteRegionsJSON(out, stats, s, meta)
+		return regions.WriteJSON(out, stats, s, meta)
 	})
 }
 
@@ -43,15 +46,15 @@ func (w *layerWriter) title() string {
 
 // writePicture writes map.png.
 func (w *layerWriter) writePicture() error {
-	in := export.PictureInput{Bands: w.res.Bands, Scheme: w.res.Scheme,
-		Title: w.title(), Subtitle: w.subtitle(), Caution: export.MapCaution}
+	in := picture.Input{Bands: w.res.Bands, Scheme: w.res.Scheme,
+		Title: w.title(), Subtitle: w.subtitle(), Caution: layer.Caution}
 	for _, s := range w.res.Values.Stations {
-		in.Stations = append(in.Stations, export.PicturePoint{Lon: s.Lon, Lat: s.Lat})
+		in.Stations = append(in.Stations, picture.Point{Lon: s.Lon, Lat: s.Lat})
 	}
 	for _, r := range w.regions {
-		in.Regions = append(in.Regions, export.PictureRegion{Name: r.Key, Geom: r.Geom})
+		in.Regions = append(in.Regions, picture.Region{Name: r.Key, Geom: r.Geom})
 	}
-	return export.WritePicture(w.path("map.png"), in, export.PictureOptions{})
+	return picture.WriteFile(w.path("map.png"), in, picture.Options{})
 }
 
 // writePage writes map.html with the layers inline.
@@ -65,7 +68,7 @@ func (w *layerWriter) writePage() error {
 		return err
 	}
 	spec := w.res.Spec
-	in := export.PageInput{Title: w.title(), Subtitle: w.subtitle(), Caution: export.MapCaution,
+	in := page.Input{Title: w.title(), Subtitle: w.subtitle(), Caution: layer.Caution,
 		Scheme: w.res.Scheme, BandsGeoJSON: bands, StationsGeoJSON: stations,
 		BBox: [4]float64{spec.West, spec.South(), spec.East(), spec.North}}
 	if w.job.Regions != "" {
@@ -76,14 +79,14 @@ func (w *layerWriter) writePage() error {
 		in.RegionsGeoJSON = b
 		in.Regions = pageRows(w.res.Regions, w)
 	}
-	return export.WritePage(w.path("map.html"), in)
+	return page.WriteFile(w.path("map.html"), in)
 }
 
 // pageRows turns zonal statistics into the page's table rows.
-func pageRows(stats []region.ZonalStats, w *layerWriter) []export.PageRegionRow {
-	rows := make([]export.PageRegionRow, 0, len(stats))
+func pageRows(stats []region.ZonalStats, w *layerWriter) []page.RegionRow {
+	rows := make([]page.RegionRow, 0, len(stats))
 	for _, z := range stats {
-		r := export.PageRegionRow{Name: z.Key, AreaKm2: z.AreaKm2, SharePct: map[string]float64{}, MeanZ: math.NaN()}
+		r := page.RegionRow{Name: z.Key, AreaKm2: z.AreaKm2, SharePct: map[string]float64{}, MeanZ: math.NaN()}
 		if z.AreaKm2 > 0 {
 			r.CoveredPct = 100 * z.CoveredKm2 / z.AreaKm2
 		}

@@ -1,14 +1,14 @@
 package main
 
 import (
-	"drygrid/export"
+	"drygrid/geotiff"
 	"drygrid/grid"
 )
 
 // writeStreamed writes index.tif and bands.tif, those of the two the run
 // asks for, in one pass over the rows of res.Rows, and tallies the band
 // areas for the summary and the manifest.
-func (w *layerWriter) writeStreamed(name string, opt export.TIFFOptions) error {
+func (w *layerWriter) writeStreamed(name string, opt geotiff.Options) error {
 	if name == "bands" && w.job.Layers["index"] {
 		return nil // written with index.tif
 	}
@@ -22,7 +22,7 @@ func (w *layerWriter) writeStreamed(name string, opt export.TIFFOptions) error {
 	t := newBandTally(w.res.Spec)
 	opt.OnBandRows = t.add
 	opt.SpillDir = w.dir
-	if err := export.WriteIndexBandsTIFFRows(idx, bnd, w.res.Spec, grid.NoDataIndex, w.res.Scheme, w.res.Rows, opt); err != nil {
+	if err := geotiff.WriteIndexBandsRows(idx, bnd, w.res.Spec, grid.NoDataIndex, w.res.Scheme, w.res.Rows, opt); err != nil {
 		return err
 	}
 	w.res.Tally = t

@@ -1,0 +1,221 @@
+package geojson
+
+import (
+	"bufio"
+	"encoding/json"
+	"fmt"
+	"io"
+	"math"
+	"strconv"
+
+	"drygrid/bands"
+	"drygrid/grid"
+	"drygrid/polygon"
+)
+
+// Caution is the caution text written when Options.Caution is
+// empty: every human-facing output says what the maps are (team rule).
+const Caution = "Interpolated estimates from a station network, not official drought declarations. " +
+	"Defer to the national meteorological or hydrological service and to local rules."
+
+// Options controls the GeoJSON layers.
+type Options struct {
+	SimplifyKm float64        // 0 = off (exact cell edges); see PolygonizeSimplified
+	Caution    string         // top-level foreign member text (RFC 7946 sec 6.1); empty = Caution
+	Params     map[string]any // parameters used (power, neighbors, ...), a foreign member
+}
+
+// EncodeBands writes the band layer (RFC 7946): a FeatureCollection with
+// one Feature per band present in r, in scheme order, whose geometry is the
+// dissolved MultiPolygon of PolygonizeRFC7946 (exterior rings
+// counter-clockwise, holes clockwise, [lon, lat], split at the antimeridian,
+// polygon.GeoJSONDecimals decimals, no crs member) and whose properties are code,
+// key, label, color, drought and area_km2 (the cells' areas on the WGS84
+// ellipsoid, to 0.01 km2). The top level carries a bbox and the foreign
+// member "drygrid": {caution, generated_by, params}. Features are streamed
+// to w; coordinates are formatted with strconv, not encoding/json, to get a
+// fixed number of decimals and to avoid holding a whole band's text in
+// memory. A code in r that the scheme lacks is an error (nothing written).
+func EncodeBands(w io.Writer, r *grid.Uint8, s *bands.Scheme, opt Options) error {
+	if r == nil || s == nil {
+		return fmt.Errorf("bands geojson: nil raster or scheme")
+	}
+	sp := r.Spec
+	if sp.Cols <= 0 || sp.Rows <= 0 || len(r.Data) != sp.Len() {
+		return fmt.Errorf("bands geojson: raster holds %d cells, grid %s needs %d", len(r.Data), sp, sp.Len())
+	}
+	if math.IsNaN(opt.SimplifyKm) || opt.SimplifyKm < 0 || math.IsInf(opt.SimplifyKm, 0) {
+		return fmt.Errorf("bands geojson: simplify tolerance %g km must be a finite number >= 0", opt.SimplifyKm)
+	}
+	// Cell counts per code and row give the ellipsoidal areas and the bbox.
+	rowArea := sp.RowAreasKm2()
+	var area [256]float64
+	var count [256]int
+	minC, maxC, minR, maxR := sp.Cols, -1, sp.Rows, -1
+	for row := 0; row < sp.Rows; row++ {
+		var n [256]int
+		line := r.Data[row*sp.Cols : (row+1)*sp.Cols]
+		for col, c := range line {
+			if c == r.NoData {
+				continue
+			}
+			n[c]++
+			minC, maxC = min(minC, col), max(maxC, col)
+			minR, maxR = min(minR, row), max(maxR, row)
+		}
+		for c, k := range n {
+			if k > 0 {
+				area[c] += float64(k) * rowArea[row]
+				count[c] += k
+			}
+		}
+	}
+	for c := range count {
+		if count[c] > 0 {
+			if _, ok := s.Band(uint8(c)); !ok {
+				return fmt.Errorf("bands geojson: raster holds code %d in %d cells, which scheme %q has no band for", c, count[c], s.Name)
+			}
+		}
+	}
+	meta, err := gjMeta(opt)
+	if err != nil {
+		return fmt.Errorf("bands geojson: %w", err)
+	}
+	polys := polygon.PolygonizeSimplified(r, opt.SimplifyKm)
+	d := polygon.GeoJSONDecimals(sp)
+
+	bw := bufio.NewWriterSize(w, 1<<16)
+	buf := make([]byte, 0, 1<<16)
+	buf = append(buf, `{"type":"FeatureCollection","drygrid":`...)
+	buf = append(buf, meta...)
+	if maxC >= 0 {
+		w0 := sp.West + float64(minC)*sp.Res
+		e0 := sp.West + float64(maxC+1)*sp.Res
+		switch {
+		case e0-w0 >= 360-sp.Res/2:
+			w0, e0 = -180, 180 // every longitude
+		case w0 >= 180:
+			w0, e0 = w0-360, e0-360
+		case e0 > 180:
+			e0 -= 360 // crosses: west > east (RFC 7946 section 5.2)
+		}
+		n0, s0 := sp.North-float64(minR)*sp.Res, sp.North-float64(maxR+1)*sp.Res
+		buf = append(buf, `,"bbox":[`...)
+		for k, v := range []float64{w0, s0, e0, n0} {
+			if k > 0 {
+				buf = append(buf, ',')
+			}
+			buf = gjNum(buf, polygon.Round(v, d), d)
+		}
+		buf = append(buf, ']')
+	}
+	buf = append(buf, `,"features":[`...)
+	first := true
+	for _, b := range s.Bands {
+		mp := polys[b.Code]
+		if count[b.Code] == 0 || len(mp) == 0 {
+			continue
+		}
+		if !first {
+			buf = append(buf, ',')
+		}
+		first = false
+		buf = append(buf, "\n"+`{"type":"Feature","properties":{"code":`...)
+		buf = strconv.AppendInt(buf, int64(b.Code), 10)
+		buf = append(buf, `,"key":`...)
+		buf = gjString(buf, b.Key)
+		buf = append(buf, `,"label":`...)
+		buf = gjString(buf, b.Label)
+		buf = append(buf, `,"color":`...)
+		buf = gjString(buf, b.Color)
+		buf = append(buf, `,"drought":`...)
+		buf = strconv.AppendBool(buf, b.Drought)
+		buf = append(buf, `,"area_km2":`...)
+		buf = gjNum(buf, math.Round(area[b.Code]*100)/100, 2)
+		buf = append(buf, `},"geometry":{"type":"MultiPolygon","coordinates":[`...)
+		for pi, poly := range mp {
+			if pi > 0 {
+				buf = append(buf, ',')
+			}
+			buf = append(buf, '[')
+			for ri, ring := range poly {
+				if ri > 0 {
+					buf = append(buf, ',')
+				}
+				buf = append(buf, '[')
+				for k, p := range ring {
+					if k > 0 {
+						buf = append(buf, ',')
+					}
+					buf = append(buf, '[')
+					buf = gjNum(buf, p[0], d)
+					buf = append(buf, ',')
+					buf = gjNum(buf, p[1], d)
+					buf = append(buf, ']')
+				}
+				buf = append(buf, ']')
+				if len(buf) > 1<<15 {
+					if _, err := bw.Write(buf); err != nil {
+						return fmt.Errorf("bands geojson: write: %w", err)
+					}
+					buf = buf[:0]
+				}
+			}
+			buf = append(buf, ']')
+		}
+		buf = append(buf, "]}}"...)
+	}
+	buf = append(buf, "\n]}\n"...)
+	if _, err := bw.Write(buf); err != nil {
+		return fmt.Errorf("bands geojson: write: %w", err)
+	}
+	if err := bw.Flush(); err != nil {
+		return fmt.Errorf("bands geojson: write: %w", err)
+	}
+	return nil
+}
+
+// gjMeta encodes the "drygrid" foreign member. encoding/json sorts map keys,
+// so the text is deterministic.
+func gjMeta(opt Options) ([]byte, error) {
+	caution := opt.Caution
+	if caution == "" {
+		caution = Caution
+	}
+	params := opt.Params
+	if params == nil {
+		params = map[string]any{}
+	}
+	b, err := json.Marshal(map[string]any{"caution": caution, "generated_by": "drygrid", "params": params})
+	if err != nil {
+		return nil, fmt.Errorf("encode parameters (foreign member drygrid): %w", err)
+	}
+	return b, nil
+}
+
+// gjNum appends v with at most d decimals, trailing zeros dropped ("-180",
+// "0.3", "12.25"), never "-0". v should already be rounded (polygon.Round).
+func gjNum(buf []byte, v float64, d int) []byte {
+	start := len(buf)
+	buf = strconv.AppendFloat(buf, v, 'f', d, 64)
+	if d > 0 {
+		k := len(buf)
+		for buf[k-1] == '0' {
+			k--
+		}
+		if buf[k-1] == '.' {
+			k--
+		}
+		buf = buf[:k]
+	}
+	if string(buf[start:]) == "-0" {
+		buf = append(buf[:start], '0')
+	}
+	return buf
+}
+
+// gjString appends s as a JSON string.
+func gjString(buf []byte, s string) []byte {
+	b, _ := json.Marshal(s) // a string always encodes
+	return append(buf, b...)
+}

@@ -1,0 +1,301 @@
+package page
+
+import (
+	"bufio"
+	"bytes"
+	"crypto/sha256"
+	_ "embed"
+	"encoding/base64"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"html/template"
+	"io"
+	"math"
+	"strconv"
+	"strings"
+
+	"drygrid/bands"
+	"drygrid/layer"
+	"drygrid/publish"
+)
+
+// RegionRow is one region's line in the page's table and tooltip.
+type RegionRow struct {
+	Name         string
+	AreaKm2      float64
+	CoveredPct   float64            // percent of the region's area with data
+	InDroughtPct float64            // percent of the covered area in drought bands
+	SharePct     map[string]float64 // percent of the covered area by band key
+	MeanZ        float64            // area-weighted mean z; NaN when nothing is covered
+}
+
+// Input is what map.html shows.
+type Input struct {
+	Title, Subtitle string
+	Caution         string // empty gives layer.Caution
+	Scheme          *bands.Scheme
+	// RFC 7946 documents from the team's writers; nil or empty leaves the
+	// layer out. Bands: properties code, key, label, color, drought,
+	// area_km2. Stations: id, value, z, code, key, in_grid.
+	BandsGeoJSON, StationsGeoJSON, RegionsGeoJSON []byte
+	Regions                                       []RegionRow
+	// BBox is W, S, E, N of the grid; E exceeds 180 on a grid crossing the
+	// antimeridian (the GeoJSON coordinates are split at 180).
+	BBox [4]float64
+}
+
+//go:embed assets/page.html
+var pageHTML string
+
+//go:embed assets/page.js
+var pageJS string
+
+//go:embed assets/page.css
+var pageCSS string
+
+var pageTmpl = template.Must(template.New("page").Parse(pageHTML))
+
+// WriteFile writes map.html to path atomically.
+func WriteFile(path string, in Input) error {
+	return publish.WriteFile(path, func(w *bufio.Writer) error { return Encode(w, in) })
+}
+
+// Encode writes one self-contained HTML page: the layers drawn from the
+// inline GeoJSON by embedded script, pan and zoom, tooltips, the legend, the
+// region table and the caution. Its Content-Security-Policy forbids every
+// network load; the script and style are allowed by their SHA-256 hashes.
+func Encode(w io.Writer, in Input) error { return pageEncode(w, in, "") }
+
+// pageEncode is Encode with extra script appended to the page's own
+// (the browser test's self-check); the CSP hash covers the whole script.
+func pageEncode(w io.Writer, in Input, extraJS string) error {
+	d, err := pageData(in, extraJS)
+	if err != nil {
+		return err
+	}
+	var buf bytes.Buffer
+	if err := pageTmpl.Execute(&buf, d); err != nil {
+		return fmt.Errorf("page: render template: %w", err)
+	}
+	if _, err := w.Write(buf.Bytes()); err != nil {
+		return fmt.Errorf("page: write: %w", err)
+	}
+	return nil
+}
+
+// pageBand is a band as the legend and the script see it.
+type pageBand struct {
+	Code    uint8  `json:"code"`
+	Key     string `json:"key"`
+	Label   string `json:"label"`
+	Color   string `json:"color"`
+	Range   string `json:"range"`
+	Drought bool   `json:"drought"`
+}
+
+// pageRow is a region row formatted for the table (text) and the script.
+type pageRow struct {
+	Name      string             `json:"name"`
+	AreaKm2   *float64           `json:"area_km2"`
+	Covered   *float64           `json:"covered_pct"`
+	InDrought *float64           `json:"in_drought_pct"`
+	MeanZ     *float64           `json:"mean_z"`
+	Shares    map[string]float64 `json:"share_pct"`
+	Cells     []pageCell         `json:"-"`
+}
+
+// pageCell is one table cell: its text and the number it sorts by.
+type pageCell struct {
+	Text string
+	Sort string
+}
+
+type pageMeta struct {
+	BBox        [4]float64 `json:"bbox"`
+	Bands       []pageBand `json:"bands"`
+	Regions     []pageRow  `json:"regions"`
+	NoDataLabel string     `json:"nodata_label"`
+}
+
+type pageView struct {
+	Title, Subtitle, Caution string
+	CSP                      string
+	Style                    template.CSS
+	Script                   template.JS
+	Meta                     template.JS
+	Bands                    template.JS
+	Stations                 template.JS
+	Regions                  template.JS
+	Legend                   []pageBand
+	NoDataLabel              string
+	HasStations, HasRegions  bool
+	Drought                  string
+	Rows                     []pageRow
+	Cols                     []pageBand
+}
+
+// pageData checks the input and prepares everything the template writes.
+func pageData(in Input, extraJS string) (*pageView, error) {
+	if in.Scheme == nil || len(in.Scheme.Bands) == 0 {
+		return nil, errors.New("page: no band scheme")
+	}
+	b := in.BBox
+	for _, v := range b {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return nil, fmt.Errorf("page: bbox %v is not finite", b)
+		}
+	}
+	if !(b[0] < b[2]) || !(b[1] < b[3]) || b[2]-b[0] > 360+1e-9 || b[0] < -180 || b[0] >= 180 || b[1] < -90 || b[3] > 90 {
+		return nil, fmt.Errorf("page: bbox %v must have -180 <= W < 180, W < E (E past 180 across the antimeridian, at most 360 wide) and -90 <= S < N <= 90", b)
+	}
+	v := &pageView{
+		Title:       strings.TrimSpace(in.Title),
+		Subtitle:    strings.TrimSpace(in.Subtitle),
+		Caution:     strings.TrimSpace(in.Caution),
+		NoDataLabel: layer.NoDataLabel,
+		Style:       template.CSS(pageCSS),
+		Script:      template.JS(pageJS + extraJS),
+	}
+	if v.Title == "" {
+		v.Title = "Precipitation index bands"
+	}
+	if v.Caution == "" {
+		v.Caution = layer.Caution
+	}
+	var dry []string
+	for _, band := range in.Scheme.Bands {
+		pb := pageBand{Code: band.Code, Key: band.Key, Label: band.Label, Color: band.Color, Range: pageRangeText(band.Range()), Drought: band.Drought}
+		if c := band.RGBA(); fmt.Sprintf("#%02x%02x%02x", c.R, c.G, c.B) != strings.ToLower(band.Color) {
+			return nil, fmt.Errorf("page: band %s colour %q is not #rrggbb", band.Key, band.Color)
+		}
+		pb.Color = strings.ToLower(band.Color)
+		v.Legend = append(v.Legend, pb)
+		if band.Drought {
+			dry = append(dry, band.Label)
+		}
+	}
+	v.Cols = v.Legend
+	v.Drought = strings.Join(dry, ", ")
+	for _, r := range in.Regions {
+		v.Rows = append(v.Rows, pageMakeRow(r, v.Legend))
+	}
+	meta, err := json.Marshal(pageMeta{BBox: b, Bands: v.Legend, Regions: v.Rows, NoDataLabel: layer.NoDataLabel})
+	if err != nil {
+		return nil, fmt.Errorf("page: encode region table: %w", err)
+	}
+	v.Meta = template.JS(meta)
+	for _, l := range []struct {
+		name string
+		src  []byte
+		dst  *template.JS
+		has  *bool
+	}{
+		{"bands", in.BandsGeoJSON, &v.Bands, nil},
+		{"stations", in.StationsGeoJSON, &v.Stations, &v.HasStations},
+		{"regions", in.RegionsGeoJSON, &v.Regions, &v.HasRegions},
+	} {
+		s, err := pageEmbedJSON(l.src)
+		if err != nil {
+			return nil, fmt.Errorf("page: %s GeoJSON: %w", l.name, err)
+		}
+		*l.dst = template.JS(s)
+		if l.has != nil {
+			*l.has = s != "null"
+		}
+	}
+	v.CSP = "default-src 'none'; script-src '" + pageHash(pageJS+extraJS) + "'; style-src '" + pageHash(pageCSS) +
+		"'; img-src data:; base-uri 'none'; form-action 'none'"
+	return v, nil
+}
+
+// pageHash is the CSP source expression for an inline block (CSP Level 2:
+// base64 of the SHA-256 of the exact text).
+func pageHash(s string) string {
+	h := sha256.Sum256([]byte(s))
+	return "sha256-" + base64.StdEncoding.EncodeToString(h[:])
+}
+
+// pageEmbedJSON checks that b is one JSON value and makes it safe inside a
+// <script type="application/json"> block: "<" (which valid JSON holds only
+// inside strings) becomes \u003c, so no "</script" or "<!--" can end or
+// confuse the block. Empty input gives null.
+func pageEmbedJSON(b []byte) (string, error) {
+	b = bytes.Trim(b, " \t\r\n") // JSON whitespace (RFC 8259 section 2)
+	if len(b) == 0 {
+		return "null", nil
+	}
+	if !json.Valid(b) {
+		var x any
+		err := json.Unmarshal(b, &x)
+		return "", fmt.Errorf("not valid JSON: %v", err)
+	}
+	s := string(b)
+	s = strings.ReplaceAll(s, "<", `\u003c`)
+	s = strings.ReplaceAll(s, "\u2028", `\u2028`)
+	s = strings.ReplaceAll(s, "\u2029", `\u2029`)
+	return s, nil
+}
+
+// pageRangeText writes a band's range with the <= and >= signs.
+func pageRangeText(s string) string {
+	return strings.NewReplacer("<=", "≤", ">=", "≥").Replace(s)
+}
+
+// pageFinite gives a pointer to v, or nil (JSON null) when v is not finite.
+func pageFinite(v float64) *float64 {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return nil
+	}
+	return &v
+}
+
+// pageNum formats a number for the table, or an en dash when missing.
+func pageNum(v *float64, dec int) pageCell {
+	if v == nil {
+		return pageCell{Text: "–", Sort: ""}
+	}
+	return pageCell{Text: pageGroup(strconv.FormatFloat(*v, 'f', dec, 64)), Sort: strconv.FormatFloat(*v, 'g', -1, 64)}
+}
+
+// pageGroup puts thousands separators (commas, as English text does) into
+// a formatted number: 1234567.5 -> 1,234,567.5.
+func pageGroup(s string) string {
+	sign := ""
+	if strings.HasPrefix(s, "-") {
+		sign, s = "-", s[1:]
+	}
+	whole, frac := s, ""
+	if i := strings.IndexByte(s, '.'); i >= 0 {
+		whole, frac = s[:i], s[i:]
+	}
+	var b strings.Builder
+	for i, c := range whole {
+		if i > 0 && (len(whole)-i)%3 == 0 {
+			b.WriteByte(',')
+		}
+		b.WriteRune(c)
+	}
+	return sign + b.String() + frac
+}
+
+func pageMakeRow(r RegionRow, bands []pageBand) pageRow {
+	row := pageRow{
+		Name: r.Name, AreaKm2: pageFinite(r.AreaKm2), Covered: pageFinite(r.CoveredPct),
+		InDrought: pageFinite(r.InDroughtPct), MeanZ: pageFinite(r.MeanZ), Shares: map[string]float64{},
+	}
+	for k, v := range r.SharePct {
+		if f := pageFinite(v); f != nil {
+			row.Shares[k] = *f
+		}
+	}
+	row.Cells = []pageCell{pageNum(row.AreaKm2, 0), pageNum(row.Covered, 1), pageNum(row.InDrought, 1), pageNum(row.MeanZ, 2)}
+	for _, b := range bands {
+		var p *float64
+		if v, ok := row.Shares[b.Key]; ok {
+			p = &v
+		}
+		row.Cells = append(row.Cells, pageNum(p, 1))
+	}
+	return row
+}
