@@ -25,8 +25,9 @@
 // become z through spi.PercentileToZ; an SPI beyond +/-5 (SPILimit) is
 // rejected as implausible. In the index step a station's reference sample is
 // its non-missing totals in the reference period (by default every year it
-// has, the target year included); it needs MinYears of them (default 30) and
-// a target-year total, else its SPI and percentile are empty with a reason.
+// has, the target year included); it needs IndexOptions.MinYears of them
+// (DefaultMinYears, 30) and a target-year total, else its SPI and percentile
+// are empty with a reason.
 // An SPI beyond +/-5 is held there and noted. Results do not depend on the
 // number of workers.
 //
