@@ -1,5 +1,3 @@
-// Package classes holds band schemes: named severity bands over z (SPI
-// units), classifying values into them, and the percentile <-> z conversion.
 package bands
 
 import (

@@ -8,12 +8,12 @@ import (
 	"testing"
 )
 
-// designBands is DESIGN.md's "Default bands" table, copied by hand: that
-// table is our contract, so Default() must match it field by field. Colours:
-// ColorBrewer 9-class BrBG (Brewer, Penn State), as DESIGN.md cites; the hex
-// values agree with ColorBrewer's published list (from memory). "In
-// drought" means codes 1-3 (DESIGN.md).
-var designBands = []struct {
+// defaultBands is the "Default bands" table of docs/design.md and the
+// package doc, copied by hand: that table is our contract, so Default() must
+// match it field by field. Colours: ColorBrewer 9-class BrBG (Brewer, Penn
+// State); the hex values agree with ColorBrewer's published list (from
+// memory). "In drought" means codes 1-3.
+var defaultBands = []struct {
 	code    uint8
 	key     string
 	label   string
@@ -32,18 +32,18 @@ var designBands = []struct {
 	{9, "soaked", "Soaked", "z >= 2.0", "#01665e", false},
 }
 
-func TestDefaultMatchesDesignTable(t *testing.T) {
+func TestDefaultMatchesBandTable(t *testing.T) {
 	s := Default()
-	if len(s.Bands) != len(designBands) {
-		t.Fatalf("%d bands, DESIGN.md has %d", len(s.Bands), len(designBands))
+	if len(s.Bands) != len(defaultBands) {
+		t.Fatalf("%d bands, the table has %d", len(s.Bands), len(defaultBands))
 	}
-	for i, want := range designBands {
+	for i, want := range defaultBands {
 		b := s.Bands[i]
 		if b.Code != want.code || b.Key != want.key || b.Label != want.label || b.Color != want.color || b.Drought != want.drought {
-			t.Errorf("band %d = %+v, DESIGN.md says %+v", i+1, b, want)
+			t.Errorf("band %d = %+v, the table says %+v", i+1, b, want)
 		}
 		if got := b.Range(); got != want.zRange {
-			t.Errorf("band %s range %q, DESIGN.md says %q", b.Key, got, want.zRange)
+			t.Errorf("band %s range %q, the table says %q", b.Key, got, want.zRange)
 		}
 	}
 	if s.MaxCode() != 9 {
@@ -54,7 +54,7 @@ func TestDefaultMatchesDesignTable(t *testing.T) {
 	}
 }
 
-// Values exactly on the cut points fall where DESIGN.md's table puts them;
+// Values exactly on the cut points fall where the band table puts them;
 // cut points +/-1.0, 1.5, 2.0 from McKee et al. (1993) and WMO-No. 1090
 // (2012, SPI User Guide), +/-0.5 ours. The nextafter neighbours show each
 // cut is a hard edge between exactly the two bands either side.
@@ -84,7 +84,7 @@ func TestDefaultBoundaries(t *testing.T) {
 			t.Errorf("Classify(just above %v) = %d, want %d", c.cut, got, c.over)
 		}
 	}
-	// "In drought" is z <= -1.0 (DESIGN.md): -1.0 is, its upper neighbour is not.
+	// "In drought" is z <= -1.0 (codes 1-3): -1.0 is, its upper neighbour is not.
 	for z, want := range map[float64]bool{-1.0: true, math.Nextafter(-1, 0): false, -5: true, 0: false} {
 		b, _ := s.Band(s.Classify(z))
 		if b.Drought != want {
@@ -156,7 +156,7 @@ func TestEveryZInExactlyOneBand(t *testing.T) {
 
 func TestBandLookup(t *testing.T) {
 	s := Default()
-	for _, want := range designBands {
+	for _, want := range defaultBands {
 		b, ok := s.Band(want.code)
 		if !ok || b.Key != want.key {
 			t.Errorf("Band(%d) = %v,%v, want %s", want.code, b.Key, ok, want.key)

@@ -12,7 +12,7 @@ type Scheme struct {
 	Bands []Band
 }
 
-// Default is drygrid's nine-band scheme (DESIGN.md "Default bands"). The
+// Default is drygrid's nine-band scheme (the table in the package doc). The
 // +/-1.0, 1.5 and 2.0 cut points follow McKee et al. (1993) and WMO-No. 1090
 // (2012); +/-0.5 is ours. Dry bands include their upper bound, wet bands
 // their lower bound. Colours: ColorBrewer's 9-class BrBG (Brewer, Penn State;

@@ -11,7 +11,7 @@ import (
 )
 
 // The example file must reproduce Default() exactly; Default() is checked
-// against DESIGN.md's table in band_test.go.
+// against the band table in band_test.go.
 func TestExampleSchemeIsDefault(t *testing.T) {
 	s, err := ParseScheme("example.toml", []byte(ExampleSchemeTOML()))
 	if err != nil {

@@ -14,8 +14,8 @@ import (
 // Cell areas against pyproj 3.4 (python3-pyproj): Geod(ellps="WGS84")
 // .polygon_area_perimeter, GeographicLib's geodesic polygon area, with the
 // parallel edges densified (testdata/grid_areas_ref.py explains why: a
-// cell's meridians are geodesics, its parallels are not). 1e-6 relative is
-// the tolerance the issue asks for.
+// cell's meridians are geodesics, its parallels are not), within 1e-6
+// relative.
 func TestCellAreaAgainstPyproj(t *testing.T) {
 	py := reftest.Python(t, "pyproj")
 	type cell struct {
@@ -72,8 +72,8 @@ func TestCellAreaAgainstPyproj(t *testing.T) {
 
 // The whole WGS84 ellipsoid: 5.10065621724e8 km^2 (NIMA TR8350.2, 3rd ed.,
 // 2000, table 3.5 "surface area"; from memory of the table, agreeing with
-// DESIGN.md's 510,065,621.7 km^2). The issue asks for 1e-6; the exact
-// formula does far better, so 1e-9 is asserted.
+// the published 510,065,621.7 km^2). The exact formula does far better
+// than the 1e-6 asked of cell areas, so 1e-9 is asserted.
 const wgs84SurfaceKm2 = 5.10065621724e8
 
 func TestGlobalGridSumsToEarthSurface(t *testing.T) {

@@ -2,7 +2,7 @@ package grid
 
 import "math"
 
-// NoDataIndex is the no-data value of index rasters (DESIGN.md: -9999).
+// NoDataIndex is the no-data value of index rasters (index.tif: -9999).
 const NoDataIndex float32 = -9999
 
 // Float32 is a row-major raster of float32 values on a grid; cells equal to

@@ -9,7 +9,7 @@ func TestFloat32Raster(t *testing.T) {
 	s := specMust(t, 0, 0, 3, 2, 1) // 3 x 2
 	r := NewFloat32(s, NoDataIndex)
 	if NoDataIndex != -9999 {
-		t.Fatalf("NoDataIndex %v, DESIGN.md says -9999", NoDataIndex)
+		t.Fatalf("NoDataIndex %v, want -9999 (docs/design.md, index.tif)", NoDataIndex)
 	}
 	if len(r.Data) != 6 || r.NoData != -9999 {
 		t.Fatalf("len %d nodata %v", len(r.Data), r.NoData)
@@ -42,7 +42,7 @@ func TestUint8Raster(t *testing.T) {
 		t.Fatalf("len %d", len(r.Data))
 	}
 	if _, ok := r.At(1, 1); ok {
-		t.Error("code 0 is no data (DESIGN.md bands.tif)")
+		t.Error("code 0 is no data (band rasters, bands.tif)")
 	}
 	r.Data[s.Index(1, 1)] = 7
 	if v, ok := r.At(1, 1); !ok || v != 7 || r.Data[4] != 7 {

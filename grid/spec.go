@@ -1,6 +1,3 @@
-// Package grid holds the regular latitude-longitude grid that drygrid maps
-// onto: its spec, cell centres and edges, cell areas on the WGS84 ellipsoid,
-// and typed rasters. It imports no other package of the project.
 package grid
 
 import (

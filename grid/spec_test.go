@@ -5,8 +5,8 @@ import (
 	"testing"
 )
 
-// The expected grids below are worked by hand from the rule in the issue
-// and DESIGN.md: every edge snapped OUTWARD to a multiple of the resolution,
+// The expected grids below are worked by hand from the rule of NewSpec
+// (docs/design.md, gridding): every edge snapped OUTWARD to a multiple of the resolution,
 // west > east crossing the antimeridian (RFC 7946 section 5.2), 0-360
 // longitudes accepted, latitudes kept within the poles.
 func TestNewSpecTable(t *testing.T) {
@@ -113,7 +113,7 @@ func TestGlobal(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	// 360/0.1 by 180/0.1 cells: 6.48 M (DESIGN.md performance targets).
+	// 360/0.1 by 180/0.1 cells: 6.48 M (the grid of the performance targets, docs/design.md).
 	if s.Cols != 3600 || s.Rows != 1800 || s.West != -180 || s.North != 90 || s.Len() != 6_480_000 {
 		t.Fatalf("Global(0.1) = %+v", s)
 	}

@@ -155,7 +155,7 @@ func regionAreaKm2(s grid.Spec, g orb.MultiPolygon) float64 {
 // TestRegionAreaVsPyproj: region areas (ellipsoidal cell area x planar share)
 // against pyproj 3.4's geodesic polygon area on WGS84 (Karney 2013), edges
 // densified along lon-lat lines (testdata/regions_ref.py "area"); within
-// 0.1 % for regions of 100+ cells (issue 5).
+// 0.1 % for regions of 100+ cells.
 func TestRegionAreaVsPyproj(t *testing.T) {
 	py := reftest.Python(t, "pyproj", "shapely")
 	s, err := grid.Global(0.1)
@@ -322,7 +322,7 @@ func TestZonalMeanZ(t *testing.T) {
 }
 
 // BenchmarkZonalGlobal3000: 3,000 jittered regions (60 x 50, 32 vertices
-// each) tiling the globe, over the global 0.1 deg band raster (issue 5).
+// each) tiling the globe, over the global 0.1 deg band raster.
 func BenchmarkZonalGlobal3000(b *testing.B) {
 	s, _ := grid.Global(0.1)
 	rng := rand.New(rand.NewPCG(3, 3000))
@@ -346,8 +346,8 @@ func BenchmarkZonalGlobal3000(b *testing.B) {
 	}
 }
 
-// TestZonalCoreCount: results are bit-identical for any GOMAXPROCS (team
-// brief: deterministic outputs).
+// TestZonalCoreCount: results are bit-identical for any GOMAXPROCS (output
+// never depends on the core count).
 func TestZonalCoreCount(t *testing.T) {
 	s, _ := grid.NewSpec(-20, -15, 25, 18, 0.25)
 	rs, err := jitterTiling(rand.New(rand.NewPCG(9, 9)), s.West, s.South(), s.East(), s.North, 9, 7, 5)

@@ -26,7 +26,7 @@ func poly(rings ...string) string {
 }
 
 // TestParseRegionsErrors: every bad input is refused with a message naming
-// the file, the feature's index and key (team brief: errors carry context).
+// the file, the feature's index and key (errors carry their context).
 func TestParseRegionsErrors(t *testing.T) {
 	ok := feat(`"a"`, `{}`, poly(sqCCW))
 	cases := []struct{ name, in, want string }{

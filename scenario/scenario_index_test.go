@@ -8,7 +8,7 @@ import (
 )
 
 // The demo's path: scenario totals -> index table -> grid reader. The table
-// written by the index step must read as it is (issue 4), the stations
+// written by the index step must read as it is, the stations
 // without enough data become "no value" rows, and the index SPI recovers the
 // imposed anomaly (SPI of a gamma fitted to 64 years is close to the z that
 // made the total; McKee et al. 1993 define SPI as that z).

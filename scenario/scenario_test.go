@@ -49,12 +49,12 @@ func TestScenarioDeterministic(t *testing.T) {
 func TestScenarioLayout(t *testing.T) {
 	s := DemoScenario()
 	if n := len(s.Sites); n < 150 || n > 300 {
-		t.Fatalf("%d stations, want 150-300 (issue 2 item 8)", n)
+		t.Fatalf("%d stations, want 150-300", n)
 	}
 	if len(s.Islands) < 3 || len(s.Islands) > 5 {
 		t.Fatalf("%d islands", len(s.Islands))
 	}
-	// The box of the brief: open ocean, roughly 38-45 S, 128-116 W.
+	// The demo's box: open ocean, roughly 38-45 S, 128-116 W.
 	if s.BBox[0] < -128 || s.BBox[1] < -45 || s.BBox[2] > -116 || s.BBox[3] > -38 || s.BBox[0] >= s.BBox[2] || s.BBox[1] >= s.BBox[3] {
 		t.Fatalf("bbox %v outside the open-ocean box 128-116 W, 45-38 S", s.BBox)
 	}
@@ -317,7 +317,7 @@ func TestScenarioAnomaly(t *testing.T) {
 }
 
 // The target-year totals carry the imposed anomaly: SciPy's gamma CDF of each
-// total (with the zero mass of DESIGN.md) gives back Phi(z) up to the 0.1 mm
+// total (with the zero mass at q / 2, Stagge et al. 2015) gives back Phi(z) up to the 0.1 mm
 // rounding of the total (scipy.stats.gamma.cdf/pdf, norm.ppf; SciPy 1.10).
 func TestScenarioTargetYearAgainstSciPy(t *testing.T) {
 	py := reftest.Python(t, "scipy.stats")

@@ -6,7 +6,7 @@ import (
 	"gonum.org/v1/gonum/stat/distuv"
 )
 
-// Percentile clamp (DESIGN.md): percentiles are limited to [0.1, 99.9]
+// Percentile clamp: percentiles are limited to [0.1, 99.9]
 // before conversion so that 0 and 100 map to finite z.
 const (
 	MinPercentile = 0.1

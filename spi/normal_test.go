@@ -101,7 +101,7 @@ func TestNormalAgainstSciPy(t *testing.T) {
 	t.Logf("%d quantiles, worst |z - scipy| %.2g", len(ps), worst)
 }
 
-// DESIGN.md: percentiles are clamped to [0.1, 99.9] before z = Phi^-1(p/100).
+// Percentiles are clamped to [0.1, 99.9] before z = Phi^-1(p/100).
 func TestPercentileClamp(t *testing.T) {
 	lo, hi := PercentileToZ(0.1), PercentileToZ(99.9)
 	// Phi^-1(0.999) = 3.090232 (A&S, as above).

@@ -11,7 +11,7 @@ type pctCase struct {
 }
 
 // SciPy 1.10: scipy.stats.percentileofscore(sample, x, kind="mean") is the
-// mid-rank percentile of DESIGN.md. Cases: ties, zeros, x below, above and
+// mid-rank percentile of MidRankPercentile. Cases: ties, zeros, x below, above and
 // between the sample, a one-value sample.
 func TestMidRankPercentileSciPy(t *testing.T) {
 	cases := []pctCase{

@@ -13,7 +13,7 @@ type spiCase struct {
 }
 
 // SciPy 1.10: H = q + (1 - q) gamma.cdf(x) (x > 0), q / 2 (x = 0), then
-// norm.ppf(H) (DESIGN.md; Stagge et al. 2015 for the zero mass).
+// norm.ppf(H) (McKee et al. 1993; Stagge et al. 2015 for the zero mass).
 func TestSPISciPy(t *testing.T) {
 	cases := []spiCase{
 		{10, 2, 10, 0}, {20, 2, 10, 0}, {60, 2, 10, 0}, {0.5, 2, 10, 0},

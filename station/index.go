@@ -107,8 +107,8 @@ type IndexResult struct {
 }
 
 // ComputeIndex reads the station table and the window-totals table and
-// computes each station's percentile and SPI for the target year
-// (DESIGN.md, `index`).
+// computes each station's percentile and SPI for the target year (the
+// index step of the package doc).
 func ComputeIndex(stationsPath, totalsPath string, opt IndexOptions) (*IndexResult, error) {
 	st, err := OpenTable(stationsPath)
 	if err != nil {

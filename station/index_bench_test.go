@@ -8,7 +8,7 @@ import (
 	"testing"
 )
 
-// idxBenchSeries builds 100,000 stations x 100 years (DESIGN.md performance
+// idxBenchSeries builds 100,000 stations x 100 years (the performance
 // target "SPI for 100,000 stations x 100 years <= 1 s"). To keep memory
 // small on a shared machine, 1,000 distinct invented series (gamma shapes
 // 0.5-8.5, about 5 % zeros) are shared round-robin; the work per station

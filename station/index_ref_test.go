@@ -30,8 +30,8 @@ type idxRefRow struct {
 	SPI         *float64 `json:"spi"`
 }
 
-// The whole index against an independent SciPy implementation of the
-// DESIGN.md rules (testdata/spi_ref.py: gamma.fit(floc=0), gamma.cdf,
+// The whole index against an independent SciPy implementation of its
+// rules (the package doc; testdata/spi_ref.py: gamma.fit(floc=0), gamma.cdf,
 // norm.ppf, percentileofscore(kind="mean"), numpy.median, A^2 after
 // Stephens 1974) on the invented fixtures: zeros (ST02, ST06), ties (ST05,
 // 0.1 mm rounding), a short record (ST03), a missing target (ST04), missing
@@ -97,7 +97,7 @@ func idxCheck(t *testing.T, what string, got float64, want *float64, tol float64
 	}
 }
 
-// The fixture's known outcomes, by the rules of DESIGN.md and issue 4.
+// The fixture's known outcomes, by the rules of the index step.
 func TestIndexFixtureOutcomes(t *testing.T) {
 	res, err := ComputeIndex(idxFixStations, idxFixTotals, IndexOptions{})
 	if err != nil {

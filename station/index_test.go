@@ -9,8 +9,7 @@ import (
 )
 
 // The same totals as TSV, gzip-compressed, with CRLF line ends, give the
-// same table (the tables are CSV or TSV, optionally gzip-compressed:
-// DESIGN.md).
+// same table (the tables are CSV or TSV, optionally gzip-compressed).
 func TestIndexTSVGzipSameResult(t *testing.T) {
 	st, _ := os.ReadFile(idxFixStations)
 	tot, _ := os.ReadFile(idxFixTotals)

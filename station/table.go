@@ -1,6 +1,3 @@
-// Package station reads station tables (values, window totals, station
-// lists), validates them and computes per-station percentile and SPI. It
-// also holds drygrid's invented demo scenario.
 package station
 
 import (

@@ -9,7 +9,7 @@ import (
 	"strconv"
 )
 
-// Column aliases of the window-totals table (DESIGN.md, issue 4).
+// Column aliases of the window-totals table.
 var (
 	TotalAliases = []string{"total", "total_mm", "precip", "value"}
 	YearAliases  = []string{"year"}

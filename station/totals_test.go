@@ -10,7 +10,7 @@ import (
 const idxTestStations = "station,lat,lon,name,elevation\nA,10,20,Invented A,100\nB,-5,350,Invented B,\n"
 
 // Bad input: each case's exact message names the file, line and column
-// (team brief; DESIGN.md "Errors name the file, line and column").
+// (errors name the file, line and column).
 func TestIndexBadInput(t *testing.T) {
 	cases := []struct {
 		name, stations, totals string

@@ -11,7 +11,7 @@ import (
 // Kind names what a station value table holds.
 type Kind string
 
-// Value kinds (DESIGN.md, --kind).
+// Value kinds (the --kind flag).
 const (
 	KindSPI        Kind = "spi"
 	KindPercentile Kind = "percentile"
@@ -26,7 +26,7 @@ func ParseKind(s string) (Kind, error) {
 	return "", fmt.Errorf("unknown kind %q (want spi or percentile)", s)
 }
 
-// Column aliases (DESIGN.md: columns are found by name, case-insensitive).
+// Column aliases: columns are found by name, case-insensitively.
 var (
 	IDAliases         = []string{"station", "id", "station_id", "site"}
 	LatAliases        = []string{"latitude", "lat"}
@@ -35,8 +35,8 @@ var (
 	PercentileAliases = []string{"percentile", "pct", "percent"}
 )
 
-// SPILimit is the largest |SPI| accepted; beyond it a value is implausible
-// (issue 2: "an SPI beyond +/-5 rejected as implausible").
+// SPILimit is the largest |SPI| accepted: a value table's SPI beyond +/-5 is
+// rejected as implausible, and the index step holds its SPI at +/-5.
 const SPILimit = 5
 
 // ReasonNoValue is the rejection reason of a row whose value cell is empty or NA.

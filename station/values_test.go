@@ -16,7 +16,7 @@ func parseV(t *testing.T, data string, opt ValueOptions) (*Values, error) {
 	return ParseValues("v.csv", strings.NewReader(data), opt)
 }
 
-// Every validation rule of issue 2 item 2 with the message it gives; each
+// Every validation rule of value tables with the message it gives; each
 // message names file, line, column number and header name.
 func TestValuesValidationErrors(t *testing.T) {
 	const h = "station,lat,lon,spi\n"
@@ -106,7 +106,7 @@ func TestValuesColumnsAndKinds(t *testing.T) {
 		lat, lon float64
 		value, z float64
 	}{
-		// Header names in any case and with aliases (DESIGN.md).
+		// Header names in any case and with aliases.
 		{"aliases and case", "Station_ID;LAT;Lng;SPI\nK1;-40;-120;-1,5\n", ValueOptions{}, KindSPI, "SPI", "K1", -40, -120, -1.5, -1.5},
 		{"site/latitude/long", "site\tlatitude\tlong\tspi\nK1\t-40\t240\t0.25\n", ValueOptions{}, KindSPI, "spi", "K1", -40, -120, 0.25, 0.25},
 		// Percentile 97.5 -> z = 1.959964 (Abramowitz and Stegun 1964, table 26.1,
@@ -114,7 +114,7 @@ func TestValuesColumnsAndKinds(t *testing.T) {
 		{"percentile", "id,lat,lon,percentile\nK1,1,2,97.5\n", ValueOptions{Kind: KindPercentile}, KindPercentile, "percentile", "K1", 1, 2, 97.5, 1.959964},
 		// Phi(1) = 0.8413447 (A&S 1964 table 26.1, from memory): percentile 84.13447 -> z 1.
 		{"percent alias", "id,lat,lon,Percent\nK1,1,2,84.13447\n", ValueOptions{Kind: KindPercentile}, KindPercentile, "Percent", "K1", 1, 2, 84.13447, 1.0},
-		// Clamp to 99.9 (DESIGN.md): Phi^-1(0.999) = 3.090232 (A&S 1964 table 26.5, from memory).
+		// Clamp to 99.9: Phi^-1(0.999) = 3.090232 (A&S 1964 table 26.5, from memory).
 		{"percentile 100 clamped", "id,lat,lon,pct\nK1,1,2,100\n", ValueOptions{Kind: KindPercentile}, KindPercentile, "pct", "K1", 1, 2, 100, 3.090232},
 		{"percentile 0 clamped", "id,lat,lon,pct\nK1,1,2,0\n", ValueOptions{Kind: KindPercentile}, KindPercentile, "pct", "K1", 1, 2, 0, -3.090232},
 		{"kind inferred from a percentile column", "id,lat,lon,percentile\nK1,1,2,50\n", ValueOptions{}, KindPercentile, "percentile", "K1", 1, 2, 50, 0},
@@ -139,7 +139,7 @@ func TestValuesColumnsAndKinds(t *testing.T) {
 	}
 }
 
-// The table written by `drygrid index` (issue 4) has empty spi/percentile and
+// The table written by `drygrid index` has empty spi/percentile and
 // a note for stations without enough data; it must read as it is.
 func TestValuesIndexOutputNoValue(t *testing.T) {
 	data := "station,latitude,longitude,year,total,years,zeros,percentile,spi,pct_of_median,gamma_shape,gamma_scale,fit_ok,note\n" +
@@ -213,7 +213,7 @@ func TestValuesDuplicatesAndColocated(t *testing.T) {
 }
 
 // Percentile sites at one point average their z, not their percentiles
-// (DESIGN.md: percentiles are interpolated as z).
+// (percentiles are interpolated as z).
 func TestValuesColocatedPercentileMeanZ(t *testing.T) {
 	v, err := parseV(t, "id,lat,lon,percentile\nA,0,0,97.5\nB,0,0,50\n", ValueOptions{Kind: KindPercentile})
 	if err != nil {
@@ -345,7 +345,7 @@ func TestParseKind(t *testing.T) {
 }
 
 // BenchmarkParseValues20k reads a 20,000-station SPI table (the size of the
-// DESIGN.md gridding benchmark).
+// gridding benchmark of docs/design.md).
 func BenchmarkParseValues20k(b *testing.B) {
 	var buf strings.Builder
 	buf.WriteString("station,latitude,longitude,spi\n")

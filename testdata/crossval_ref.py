@@ -14,7 +14,7 @@ and prints one JSON object:
                   "n_counted": .., "rmse": .., "mae": .., "bias": .., "band_agreement": ..}
   cells:         {"pred": [...|null], "n": [...], "chosen": [[input indices], ...]}
 
-Method (DESIGN.md IDW, issue 9), by brute force with NumPy, no spatial index:
+Method (docs/design.md, IDW), by brute force with NumPy, no spatial index:
   * great-circle distance by the haversine formula on a sphere of radius
     R = 6371.0088 km (IUGG mean radius, Moritz 2000);
   * the stations within r km (for leave-one-out: the OTHER stations); fewer

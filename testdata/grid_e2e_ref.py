@@ -2,7 +2,7 @@
 """End-to-end reference for `drygrid grid`: read index.tif with GDAL, rebuild
 every cell centre from GDAL's geotransform, convert the stations' values to z
 independently (SciPy's norm.ppf for percentiles, clamped to [0.1, 99.9] as
-DESIGN.md says), interpolate by brute force with the NumPy IDW of
+docs/design.md says), interpolate by brute force with the NumPy IDW of
 idw_ref.py (Shepard 1968, haversine on R = 6371.0088 km) and compare.
 
 usage: grid_e2e_ref.py INDEX.tif STATIONS.csv KIND POWER K RADIUS_KM MIN

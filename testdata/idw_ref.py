@@ -7,7 +7,7 @@ Reads one JSON object on stdin:
 and prints one line per cell: the estimate (repr of a float) or "nan" when
 the cell is masked.
 
-Method, as DESIGN.md states it, computed by brute force over every station
+Method, as docs/design.md states it, computed by brute force over every station
 with NumPy (no spatial index):
   * great-circle distance by the haversine formula on a sphere of radius
     R = 6371.0088 km (IUGG mean radius, Moritz 2000, GRS 1980);

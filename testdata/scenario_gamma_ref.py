@@ -1,9 +1,9 @@
 #!/usr/bin/env python3
 """Reference for the demo scenario's target-year totals, from SciPy.
 
-Used by station/scenario_test.go. Reads lines "total shape scale q" on stdin
+Used by scenario/scenario_test.go. Reads lines "total shape scale q" on stdin
 and prints, per line, H = q + (1 - q) * G(total; shape, scale) for total > 0
-and q / 2 for total == 0 (the zero-mass rule of DESIGN.md, Stagge et al. 2015),
+and q / 2 for total == 0 (the zero-mass rule of package spi, Stagge et al. 2015),
 then z = Phi^-1(H) and the density of H, (1 - q) * g(total), with
 scipy.stats.gamma.cdf, .pdf and scipy.stats.norm.ppf (%.17g). The Go test
 compares H with Phi of the anomaly it imposed; the density bounds the effect

@@ -1,8 +1,8 @@
 #!/usr/bin/env python3
 """SciPy reference for drygrid's `index` (station/index_ref_test.go).
 
-Independent of drygrid's Go code: it reimplements the rules of DESIGN.md
-(`index`) with SciPy 1.10 and NumPy primitives:
+Independent of drygrid's Go code: it reimplements the rules of the index
+step (docs/design.md, package spi) with SciPy 1.10 and NumPy primitives:
   gamma MLE          scipy.stats.gamma.fit(x, floc=0)
   gamma CDF          scipy.stats.gamma.cdf / .sf
   normal quantile    scipy.stats.norm.ppf / .isf

@@ -1,7 +1,3 @@
-// Package reftest finds the outside reference tools that drygrid's tests
-// check against (GDAL, SciPy, pyproj, shapely). Where one is missing the test
-// is skipped with a visible message, or fails when DRYGRID_REQUIRE_REFS=1 (CI).
-// It is test support only: no library package imports it.
 package reftest
 
 import (

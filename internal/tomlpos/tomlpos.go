@@ -1,8 +1,3 @@
-// Package tomlpos finds where keys sit in a TOML document, so that errors
-// about a decoded value (a bad colour, an unknown key, a resolution out of
-// range) can name its line and column. BurntSushi/toml keeps key positions
-// to itself; this is a line scanner that serves messages only: a key it
-// cannot place is reported without a position, never misplaced silently.
 package tomlpos
 
 import (

@@ -1,7 +1,7 @@
 #!/usr/bin/env python3
 """Reference standard-normal quantiles and CDF from SciPy (scipy.stats.norm).
 
-Used by classes/normal_test.go. Reads lines "ppf P" or "cdf Z" on stdin and
+Used by spi/normal_test.go. Reads lines "ppf P" or "cdf Z" on stdin and
 prints norm.ppf(P) or norm.cdf(Z), one per line, as %.17g.
 """
 import sys
