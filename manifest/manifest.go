@@ -47,8 +47,8 @@ type Manifest struct {
 	Command    string             `json:"command"`
 	Caution    string             `json:"caution"`
 	Parameters map[string]any     `json:"parameters"`
-	Inputs     []File     `json:"inputs"`
-	Outputs    []File     `json:"outputs"`
+	Inputs     []File             `json:"inputs"`
+	Outputs    []File             `json:"outputs"`
 	Counts     map[string]any     `json:"counts"`
 	Grid       map[string]any     `json:"grid"`
 	Timings    map[string]float64 `json:"timings"`
