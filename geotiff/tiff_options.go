@@ -36,13 +36,6 @@ type Options struct {
 	// The whole-raster encoders ignore it. The output bytes do not depend
 	// on it.
 	SpillDir string
-	// OnBandRows, when not nil, is called by EncodeIndexBandsRows and
-	// WriteIndexBandsRows with the band codes of each block of rows
-	// (row0, n rows, n * Cols codes, 0 = no data) as soon as they are
-	// classified, one call at a time in row order, so that a caller can
-	// tally band areas without holding the band raster. It needs a scheme
-	// but not a band output. codes is reused after the call returns.
-	OnBandRows func(row0, n int, codes []uint8)
 	// Metadata items are written to the GDAL_METADATA tag (42112), in key
 	// order, where gdalinfo lists them (for example a caution line).
 	Metadata map[string]string

@@ -15,13 +15,15 @@ import (
 	"drygrid/publish"
 )
 
-// RowFunc fills dst, which holds n rows of the grid (n * Cols values,
+// RowFunc fills index, which holds n rows of the grid (n * Cols values,
 // row-major, row 0 = north), with rows row0 .. row0+n-1 of the index
-// raster. The row encoders call it one call at a time, with row0
-// increasing from 0 in steps of the tile size; n is the tile size except
-// for the last block. It may use all cores inside the call. A returned
-// error stops the encoding and is passed back, wrapped.
-type RowFunc func(row0, n int, dst []float32) error
+// raster and, when codes is not nil (a band file is written), codes with
+// the band codes of the same cells (0 = no data). The row encoders call it
+// one call at a time, with row0 increasing from 0 in steps of the tile
+// size; n is the tile size except for the last block. It may use all
+// cores inside the call. A returned error stops the encoding and is passed
+// back, wrapped.
+type RowFunc func(row0, n int, index []float32, codes []uint8) error
 
 // EncodeIndexRows writes the same bytes as EncodeIndex on the
 // raster whose rows produce gives, without holding that raster: rows come
@@ -34,13 +36,12 @@ func EncodeIndexRows(w io.Writer, spec grid.Spec, nodata float32, produce RowFun
 }
 
 // EncodeIndexBandsRows makes the index GeoTIFF and the band GeoTIFF from
-// one pass over the rows produce gives (see EncodeIndexRows): the band
-// code of a cell is s.Classify(v) for a value v other than nodata and 0 (no
-// data) for nodata. index gets the bytes EncodeIndex writes for the
-// raster, bands those EncodeBands writes for its classification with
-// s and no data 0. Either writer may be nil to skip that file; s may be nil
-// only when bands and opt.OnBandRows are. Both files are written after
-// the last row is produced, index first.
+// one pass over the rows produce gives (see EncodeIndexRows). index gets
+// the bytes EncodeIndex writes for the index raster, bands those
+// EncodeBands writes for the band raster of the codes, with s's colours
+// and no data 0. Either writer may be nil to skip that file; s may be nil
+// only when bands is. Both files are written after the last row is
+// produced, index first.
 func EncodeIndexBandsRows(index, bands io.Writer, spec grid.Spec, nodata float32, s *bands.Scheme, produce RowFunc, opt Options) error {
 	if produce == nil {
 		return errors.New("geotiff: nil row function")
@@ -48,8 +49,8 @@ func EncodeIndexBandsRows(index, bands io.Writer, spec grid.Spec, nodata float32
 	if index == nil && bands == nil {
 		return errors.New("geotiff: no output for the rows")
 	}
-	if (bands != nil || opt.OnBandRows != nil) && s == nil {
-		return errors.New("geotiff: band codes asked for without a scheme")
+	if bands != nil && s == nil {
+		return errors.New("geotiff: a band file asked for without a scheme")
 	}
 	if err := tiffCheckSpec(spec, spec.Cols*spec.Rows); err != nil {
 		return err
@@ -95,8 +96,8 @@ func WriteIndexBandsRows(indexPath, bandsPath string, spec grid.Spec, nodata flo
 	if indexPath == "" && bandsPath == "" {
 		return errors.New("geotiff: no output path for the rows")
 	}
-	if (bandsPath != "" || opt.OnBandRows != nil) && s == nil {
-		return errors.New("geotiff: band codes asked for without a scheme")
+	if bandsPath != "" && s == nil {
+		return errors.New("geotiff: a band file asked for without a scheme")
 	}
 	if err := tiffCheckSpec(spec, spec.Cols*spec.Rows); err != nil {
 		return err
@@ -160,14 +161,12 @@ func tiffBandsImage(spec grid.Spec, nodata uint8, s *bands.Scheme, opt Options) 
 // tiffRowState is the streaming encoder's state: the images being built,
 // the overview accumulators and the tile rows of each level not yet full.
 type tiffRowState struct {
-	spec     grid.Spec
-	t        int
-	nodata   float32
-	opt      Options
-	fimg     *tiffImage // nil when the index is not wanted
-	bimg     *tiffImage // nil when the bands are not wanted
-	classed  tiffClassifier
-	classify bool // band codes are needed (bands wanted or OnBandRows)
+	spec   grid.Spec
+	t      int
+	nodata float32
+	opt    Options
+	fimg   *tiffImage // nil when the index is not wanted
+	bimg   *tiffImage // nil when the bands are not wanted
 	// Per overview level k (factor 2<<k): the mean and mode accumulators of
 	// the overview row being built and the tile row being filled.
 	fov      []*tiffMeanAcc
@@ -211,9 +210,6 @@ func newTiffRowState(spec grid.Spec, nodata float32, s *bands.Scheme, wantIndex,
 		for _, sz := range sizes {
 			st.fov = append(st.fov, newTiffMeanAcc(sz[0], st.t, nodata))
 		}
-	}
-	if s != nil && (wantBands || opt.OnBandRows != nil) {
-		st.classed, st.classify = newTiffClassifier(s), true
 	}
 	if wantBands {
 		st.bimg = tiffBandsImage(spec, 0, s, opt)
@@ -285,33 +281,40 @@ func (st *tiffRowState) openSpill() error {
 type tiffBlock struct {
 	row0, n int
 	f32     []float32
+	u8      []uint8 // nil when no band file is written
 	err     error
 }
 
 // run drives produce one block ahead of the encoder: while block i is
-// classified, folded into the overviews and compressed, block i+1 is being
-// produced. produce is still called one call at a time, in row order.
+// folded into the overviews and compressed, block i+1 is being produced.
+// produce is still called one call at a time, in row order.
 func (st *tiffRowState) run(produce RowFunc) error {
 	t, cols, rows := st.t, st.spec.Cols, st.spec.Rows
-	free := make(chan []float32, 2)
+	free := make(chan tiffBlock, 2)
 	for range 2 {
-		free <- make([]float32, t*cols)
+		b := tiffBlock{f32: make([]float32, t*cols)}
+		if st.bimg != nil {
+			b.u8 = make([]uint8, t*cols)
+		}
+		free <- b
 	}
 	full := make(chan tiffBlock, 1)
 	stop := make(chan struct{})
 	go func() {
 		defer close(full)
 		for row0 := 0; row0 < rows; row0 += t {
-			var buf []float32
+			var b tiffBlock
 			select {
-			case buf = <-free:
+			case b = <-free:
 			case <-stop:
 				return
 			}
 			n := min(t, rows-row0)
-			buf = buf[:n*cols]
-			b := tiffBlock{row0: row0, n: n, f32: buf}
-			if err := produce(row0, n, buf); err != nil {
+			b.row0, b.n, b.f32 = row0, n, b.f32[:n*cols]
+			if b.u8 != nil {
+				b.u8 = b.u8[:n*cols]
+			}
+			if err := produce(row0, n, b.f32, b.u8); err != nil {
 				b.err = fmt.Errorf("geotiff: rows %d-%d: %w", row0, row0+n-1, err)
 			}
 			select {
@@ -324,17 +327,13 @@ func (st *tiffRowState) run(produce RowFunc) error {
 			}
 		}
 	}()
-	var u8 []uint8
-	if st.classify {
-		u8 = make([]uint8, t*cols)
-	}
 	var err error
 	for b := range full {
 		if err == nil {
 			err = b.err
 		}
 		if err == nil {
-			err = st.block(b, u8)
+			err = st.block(b)
 		}
 		if err != nil {
 			close(stop)
@@ -342,7 +341,7 @@ func (st *tiffRowState) run(produce RowFunc) error {
 			}
 			return err
 		}
-		free <- b.f32[:cap(b.f32)]
+		free <- b
 	}
 	if st.spill != nil {
 		if err := st.spillW.Flush(); err != nil {
@@ -352,18 +351,15 @@ func (st *tiffRowState) run(produce RowFunc) error {
 	return nil
 }
 
-// block classifies a block of rows (into u8, when codes are needed),
-// folds it into the overview accumulators and compresses the tiles that
-// are complete.
-func (st *tiffRowState) block(b tiffBlock, u8 []uint8) error {
+// block folds a block of rows into the overview accumulators and
+// compresses the tiles that are complete.
+func (st *tiffRowState) block(b tiffBlock) error {
 	cols, ty := st.spec.Cols, b.row0/st.t
-	if st.classify {
-		u8 = u8[:b.n*cols]
-	}
+	u8 := b.u8
 	st.list = st.list[:0]
 	last := b.row0+b.n == st.spec.Rows
 	// The index's full-resolution tiles are compressed while this
-	// goroutine folds the block into the overviews and classifies it (at
+	// goroutine folds the block into the overviews (at
 	// the end of the raster nothing else would keep the other cores busy).
 	full := make(chan error, 1)
 	nFull := 0 // jobs at the head of st.list that the goroutine compresses
@@ -376,12 +372,6 @@ func (st *tiffRowState) block(b tiffBlock, u8 []uint8) error {
 		go func() { full <- tiffCompressJobs(jobs, st.opt, &st.compFull) }()
 		for y := range b.n {
 			st.foldMeans(b.f32[y*cols:(y+1)*cols], last && y == b.n-1)
-		}
-	}
-	if st.classify {
-		st.classed.classify(b.f32, st.nodata, u8)
-		if st.opt.OnBandRows != nil {
-			st.opt.OnBandRows(b.row0, b.n, u8)
 		}
 	}
 	if st.bimg != nil {

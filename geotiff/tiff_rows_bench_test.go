@@ -15,8 +15,10 @@ func BenchmarkEncodeIndexBandsTIFFRowsGlobal(b *testing.B) {
 	s := bands.Default()
 	opt := DefaultOptions()
 	cols := r.Spec.Cols
-	produce := func(row0, n int, dst []float32) error {
+	c := bands.NewClassifier(s)
+	produce := func(row0, n int, dst []float32, codes []uint8) error {
 		copy(dst, r.Data[row0*cols:(row0+n)*cols])
+		c.Row(codes, dst, r.NoData)
 		return nil
 	}
 	b.Run("rows", func(b *testing.B) {

@@ -3,12 +3,9 @@ package geotiff
 import (
 	"bytes"
 	"errors"
-	"io"
 	"math"
-	"math/rand/v2"
 	"os"
 	"path/filepath"
-	"slices"
 	"strings"
 	"testing"
 
@@ -16,16 +13,23 @@ import (
 	"drygrid/grid"
 )
 
-// tiffRowsFrom serves the rows of r as a RowFunc and checks the call
-// contract (row order, block size).
+// tiffRowsFrom serves the rows of r, and their codes in the default
+// scheme (tiffTestBands, Scheme.Classify cell by cell), as a RowFunc and
+// checks the call contract (row order, block size).
 func tiffRowsFrom(t *testing.T, r *grid.Float32, tile int) RowFunc {
 	next := 0
-	return func(row0, n int, dst []float32) error {
-		if row0 != next || n <= 0 || (n != tile && row0+n != r.Spec.Rows) || len(dst) != n*r.Spec.Cols {
-			t.Errorf("produce(%d, %d, %d values): want rows from %d in blocks of %d", row0, n, len(dst), next, tile)
+	codes := tiffTestBands(r, bands.Default())
+	return func(row0, n int, dst []float32, u8 []uint8) error {
+		if row0 != next || n <= 0 || (n != tile && row0+n != r.Spec.Rows) || len(dst) != n*r.Spec.Cols ||
+			(u8 != nil && len(u8) != len(dst)) {
+			t.Errorf("produce(%d, %d, %d values, %d codes): want rows from %d in blocks of %d", row0, n, len(dst), len(u8), next, tile)
 		}
 		next = row0 + n
-		copy(dst, r.Data[row0*r.Spec.Cols:(row0+n)*r.Spec.Cols])
+		lo, hi := row0*r.Spec.Cols, (row0+n)*r.Spec.Cols
+		copy(dst, r.Data[lo:hi])
+		if u8 != nil {
+			copy(u8, codes.Data[lo:hi])
+		}
 		return nil
 	}
 }
@@ -89,11 +93,11 @@ func TestTIFFRowsSameBytes(t *testing.T) {
 			gotI.Reset()
 			gotB.Reset()
 			rows, spilled := tiffRowsFrom(t, r, c.tile), false
-			watch := func(row0, n int, dst []float32) error {
+			watch := func(row0, n int, dst []float32, u8 []uint8) error {
 				if left, _ := os.ReadDir(spill); len(left) != 0 {
 					spilled = true
 				}
-				return rows(row0, n, dst)
+				return rows(row0, n, dst, u8)
 			}
 			if err := EncodeIndexBandsRows(&gotI, &gotB, spec, r.NoData, s, watch, opt); err != nil {
 				t.Fatal(err)
@@ -161,7 +165,7 @@ func TestTIFFRowsErrors(t *testing.T) {
 	boom := errors.New("boom")
 	calls := 0
 	err := EncodeIndexBandsRows(&bytes.Buffer{}, &bytes.Buffer{}, spec, -9999, bands.Default(),
-		func(row0, n int, dst []float32) error {
+		func(row0, n int, dst []float32, _ []uint8) error {
 			calls++
 			if row0 >= 512 {
 				return boom
@@ -174,7 +178,7 @@ func TestTIFFRowsErrors(t *testing.T) {
 	if calls != 3 {
 		t.Errorf("producer called %d times after its error at the third block, want 3", calls)
 	}
-	ok := func(int, int, []float32) error { return nil }
+	ok := func(int, int, []float32, []uint8) error { return nil }
 	bad := []error{
 		EncodeIndexBandsRows(nil, nil, spec, -9999, nil, ok, DefaultOptions()),
 		EncodeIndexBandsRows(nil, &bytes.Buffer{}, spec, -9999, nil, ok, DefaultOptions()),
@@ -182,96 +186,10 @@ func TestTIFFRowsErrors(t *testing.T) {
 		EncodeIndexRows(&bytes.Buffer{}, grid.Spec{Res: 1}, -9999, ok, DefaultOptions()),
 		EncodeIndexRows(&bytes.Buffer{}, spec, -9999, ok, Options{TileSize: 17}),
 		WriteIndexBandsRows("", "", spec, -9999, nil, ok, DefaultOptions()),
-		EncodeIndexBandsRows(&bytes.Buffer{}, nil, spec, -9999, nil, ok, Options{OnBandRows: func(int, int, []uint8) {}}),
-		WriteIndexBandsRows(filepath.Join(t.TempDir(), "i.tif"), "", spec, -9999, nil, ok, Options{OnBandRows: func(int, int, []uint8) {}}),
 	}
 	for i, err := range bad {
 		if err == nil {
 			t.Errorf("bad call %d: no error", i)
-		}
-	}
-}
-
-// TestTIFFClassifier: the classifier of the row encoders gives
-// bands.Scheme.Classify's code for the cut points, their float64
-// neighbours, infinities, NaN and random values, on the default scheme and
-// on one with the other inclusivity at each cut.
-func TestTIFFClassifier(t *testing.T) {
-	inf := math.Inf(1)
-	other := &bands.Scheme{Name: "other", Bands: []bands.Band{
-		{Code: 3, Key: "a", Min: -inf, Max: -1, MaxInclusive: false, Color: "#000000"},
-		{Code: 1, Key: "b", Min: -1, Max: 0.25, MinInclusive: true, MaxInclusive: true, Color: "#000000"},
-		{Code: 7, Key: "c", Min: 0.25, Max: inf, Color: "#000000"},
-	}}
-	r := rand.New(rand.NewPCG(4, 4))
-	for _, s := range []*bands.Scheme{bands.Default(), other} {
-		zs := []float64{math.NaN(), inf, -inf, 0, math.Copysign(0, -1)}
-		for _, b := range s.Bands {
-			for _, x := range []float64{b.Min, b.Max} {
-				zs = append(zs, x, math.Nextafter(x, inf), math.Nextafter(x, -inf),
-					float64(math.Nextafter32(float32(x), float32(inf))), float64(math.Nextafter32(float32(x), -float32(inf))))
-			}
-		}
-		for range 10000 {
-			zs = append(zs, r.NormFloat64()*2)
-		}
-		c := newTiffClassifier(s)
-		for _, z := range zs {
-			if got, want := c.of(z), s.Classify(z); got != want {
-				t.Errorf("%s: z = %v: code %d, Classify gives %d", s.Name, z, got, want)
-			}
-		}
-		// classify, which tries the previous value's band first, on the
-		// float32 values in the order given and sorted.
-		f := make([]float32, 0, len(zs))
-		for _, z := range zs {
-			f = append(f, float32(z))
-		}
-		sorted := slices.Clone(f)
-		slices.Sort(sorted)
-		for _, src := range [][]float32{f, sorted} {
-			got := make([]uint8, len(src))
-			c.classify(src, -9999, got)
-			for i, v := range src {
-				want := s.Classify(float64(v))
-				if v == -9999 {
-					want = 0
-				}
-				if got[i] != want {
-					t.Errorf("%s: classify %v: code %d, Classify gives %d", s.Name, v, got[i], want)
-				}
-			}
-		}
-	}
-}
-
-// TestTIFFRowsOnBandRows: the band codes handed to OnBandRows, block by
-// block in row order, are the classification of the raster (as
-// bands.Scheme.Classify gives it), also when only the index is written.
-func TestTIFFRowsOnBandRows(t *testing.T) {
-	s := bands.Default()
-	spec := grid.Spec{West: 0, North: 50, Res: 0.1, Cols: 333, Rows: 300}
-	r := tiffTestField(spec)
-	want := tiffTestBands(r, s)
-	for _, withBands := range []bool{false, true} {
-		var got []uint8
-		opt := DefaultOptions()
-		opt.TileSize = 64
-		opt.OnBandRows = func(row0, n int, codes []uint8) {
-			if row0*spec.Cols != len(got) || len(codes) != n*spec.Cols {
-				t.Errorf("OnBandRows(%d, %d, %d codes) out of order", row0, n, len(codes))
-			}
-			got = append(got, codes...)
-		}
-		var bands io.Writer
-		if withBands {
-			bands = &bytes.Buffer{}
-		}
-		if err := EncodeIndexBandsRows(&bytes.Buffer{}, bands, spec, r.NoData, s, tiffRowsFrom(t, r, 64), opt); err != nil {
-			t.Fatal(err)
-		}
-		if !bytes.Equal(got, want.Data) {
-			t.Errorf("bands written %v: codes from OnBandRows differ from the classification", withBands)
 		}
 	}
 }

@@ -13,7 +13,8 @@ import (
 )
 
 func histStats(key string, drought, covered float64) region.ZonalStats {
-	z := region.ZonalStats{Key: key, AreaKm2: 100, CoveredKm2: covered, CodeKm2: make([]float64, 256)}
+	z := region.ZonalStats{Key: key}
+	z.AreaKm2, z.CoveredKm2 = 100, covered
 	z.CodeKm2[1] = drought
 	z.CodeKm2[5] = covered - drought
 	return z

@@ -1,6 +1,7 @@
 package region
 
 import (
+	"drygrid/bands"
 	"drygrid/grid"
 	"fmt"
 	"math"
@@ -13,12 +14,12 @@ import (
 // ZonalStats are one region's areas on a band raster, all in km^2 on the
 // WGS84 ellipsoid, each cell weighted by the share of it inside the region.
 type ZonalStats struct {
-	Key        string    // the region's name
-	AreaKm2    float64   // area of the region inside the grid
-	CoveredKm2 float64   // of which cells hold a band code (not no data)
-	CodeKm2    []float64 // area by band code, indexed by code (256 entries)
-	MeanZ      float64   // area-weighted mean of the index over cells holding one
-	HasMeanZ   bool      // false without an index raster or with no index cell
+	Key string // the region's name
+	// Shares: the region's area inside the grid, of which covered (cells
+	// holding a band code, not no data), and the area by band code.
+	bands.Shares
+	MeanZ    float64 // area-weighted mean of the index over cells holding one
+	HasMeanZ bool    // false without an index raster or with no index cell
 }
 
 // MaskedKm2 is the region's area inside the grid where the band raster holds
@@ -90,7 +91,7 @@ func SameGrid(bands *grid.Uint8, index *grid.Float32) error {
 }
 
 func zonalOne(bands *grid.Uint8, index *grid.Float32, r Region, reach bool, rowArea []float64, cov *covWork, buf []CellWeight) (ZonalStats, []CellWeight) {
-	z := ZonalStats{Key: r.Key, CodeKm2: make([]float64, 256)}
+	z := ZonalStats{Key: r.Key}
 	if !reach {
 		return z, buf
 	}

@@ -22,21 +22,20 @@ func scaleWrite(ip *interp.Interpolator, spec grid.Spec, out string) (valid int,
 	bandsPath := strings.TrimSuffix(out, ".tif") + ".bands.tif"
 	if os.Getenv("DRYGRID_BENCH_WHOLE") == "1" {
 		idx := ip.Grid(spec, nil)
-		bands := grid.NewUint8(spec, 0)
-		for i, v := range idx.Data {
+		codes := bands.NewClassifier(s).Raster(idx)
+		for _, v := range idx.Data {
 			if v != idx.NoData {
-				bands.Data[i] = s.Classify(float64(v))
 				valid++
 			}
 		}
 		if err := geotiff.WriteIndex(out, idx, opt); err != nil {
 			return 0, err
 		}
-		return valid, geotiff.WriteBands(bandsPath, bands, s, opt)
+		return valid, geotiff.WriteBands(bandsPath, codes, s, opt)
 	}
-	rows := rowsOf(ip, spec)
-	count := func(row0, n int, dst []float32) error {
-		if err := rows(row0, n, dst); err != nil {
+	rows := rowsOf(ip, spec, s)
+	count := func(row0, n int, dst []float32, codes []uint8) error {
+		if err := rows(row0, n, dst, codes); err != nil {
 			return err
 		}
 		for _, v := range dst {

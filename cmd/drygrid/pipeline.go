@@ -14,7 +14,6 @@ import (
 	"unicode/utf8"
 
 	"drygrid/bands"
-	"drygrid/geotiff"
 	"drygrid/grid"
 	"drygrid/interp"
 	"drygrid/manifest"
@@ -72,8 +71,8 @@ type gridResult struct {
 	Elapsed time.Duration
 	// Rows, when not nil, streams the index rows into the GeoTIFF writers
 	// (Index and Bands are then nil). Tally holds the band areas either way.
-	Rows  geotiff.RowFunc
-	Tally *bandTally
+	Rows  func(row0, n int, dst []float32) error
+	Tally *bands.Tally
 
 	timings  map[string]float64     // seconds by step, for the manifest
 	crossval *interp.CrossValResult // with job.CrossVal
@@ -143,9 +142,9 @@ func runGrid(job gridJob, stderr io.Writer) (*gridResult, error) {
 	} else {
 		index := ip.Grid(spec, bar.set)
 		bar.done()
-		res.Index, res.Bands = index, classify(index, scheme)
-		res.Tally = newBandTally(spec)
-		res.Tally.add(0, spec.Rows, res.Bands.Data)
+		res.Index, res.Bands = index, bands.NewClassifier(scheme).Raster(index)
+		res.Tally = bands.NewTally(spec)
+		res.Tally.Add(0, spec.Rows, res.Bands.Data)
 		if len(regions) > 0 {
 			res.Regions = region.Zonal(res.Bands, index, regions)
 		}
@@ -211,17 +210,6 @@ func points(v *station.Values) []interp.Point {
 		pts[i] = interp.Point{Lon: s.Lon, Lat: s.Lat, Z: s.Z}
 	}
 	return pts
-}
-
-// classify turns the index raster into band codes (0 = no data).
-func classify(index *grid.Float32, scheme *bands.Scheme) *grid.Uint8 {
-	bands := grid.NewUint8(index.Spec, 0)
-	for i, v := range index.Data {
-		if v != index.NoData {
-			bands.Data[i] = scheme.Classify(float64(v))
-		}
-	}
-	return bands
 }
 
 // writeLayers writes the chosen layers, the extra files and the manifest

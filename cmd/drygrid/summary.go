@@ -20,18 +20,18 @@ func printSummary(w io.Writer, job gridJob, r *gridResult) {
 		fmt.Fprintf(w, ", rejected: %s", strings.Join(parts, ", "))
 	}
 	fmt.Fprintln(w)
-	covered, bands := r.Tally.shares()
-	fmt.Fprintf(w, "grid: %s, %d cells, %.1f%% of the area covered\n", r.Spec, r.Spec.Len(), covered)
+	sh := &r.Tally.Shares
+	fmt.Fprintf(w, "grid: %s, %d cells, %.1f%% of the area covered\n", r.Spec, r.Spec.Len(), sh.CoveredPct())
 	fmt.Fprintf(w, "bands (share of covered area):\n")
-	inDrought := 0.0
 	for _, b := range r.Scheme.Bands {
 		flag := ""
 		if b.Drought {
 			flag = "  in drought"
-			inDrought += bands[b.Code]
 		}
-		fmt.Fprintf(w, "  %-12s %-18s %5.1f%%%s\n", b.Label, b.Range(), bands[b.Code], flag)
+		pct, _ := sh.BandPct(b.Code)
+		fmt.Fprintf(w, "  %-12s %-18s %5.1f%%%s\n", b.Label, b.Range(), pct, flag)
 	}
+	inDrought, _ := sh.InDroughtPct(r.Scheme)
 	fmt.Fprintf(w, "in drought: %.1f%% of the covered area\n", inDrought)
 	if len(r.Files) > 0 {
 		fmt.Fprintf(w, "wrote %s in %s (%.1fs)\n", strings.Join(r.Files, ", "), job.Out, r.Elapsed.Seconds())

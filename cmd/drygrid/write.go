@@ -181,7 +181,7 @@ func buildManifest(job gridJob, res *gridResult, dir string, start time.Time) (*
 	for reason, n := range res.Values.RejectedByReason() {
 		rejected[reason] = n
 	}
-	covered := res.Tally.cells
+	covered := res.Tally.Cells
 	counts := map[string]any{
 		"stations_read": res.Values.Read, "stations_used": len(res.Values.Stations),
 		"stations_rejected": rejected, "station_warnings": len(res.Values.Warnings),

@@ -87,20 +87,15 @@ func pageRows(stats []region.ZonalStats, w *layerWriter) []page.RegionRow {
 	rows := make([]page.RegionRow, 0, len(stats))
 	for _, z := range stats {
 		r := page.RegionRow{Name: z.Key, AreaKm2: z.AreaKm2, SharePct: map[string]float64{}, MeanZ: math.NaN()}
-		if z.AreaKm2 > 0 {
-			r.CoveredPct = 100 * z.CoveredKm2 / z.AreaKm2
-		}
+		r.CoveredPct = z.CoveredPct()
 		if z.HasMeanZ {
 			r.MeanZ = z.MeanZ
 		}
 		if z.CoveredKm2 > 0 {
 			for _, b := range w.res.Scheme.Bands {
-				share := 100 * z.CodeKm2[b.Code] / z.CoveredKm2
-				r.SharePct[b.Key] = share
-				if b.Drought {
-					r.InDroughtPct += share
-				}
+				r.SharePct[b.Key], _ = z.BandPct(b.Code)
 			}
+			r.InDroughtPct, _ = z.InDroughtPct(w.res.Scheme)
 		}
 		rows = append(rows, r)
 	}

@@ -1,8 +1,10 @@
 package main
 
 import (
+	"drygrid/bands"
 	"drygrid/geotiff"
 	"drygrid/grid"
+	"slices"
 )
 
 // writeStreamed writes index.tif and bands.tif, those of the two the run
@@ -19,65 +21,25 @@ func (w *layerWriter) writeStreamed(name string, opt geotiff.Options) error {
 	if w.job.Layers["bands"] {
 		bnd = w.path("bands.tif")
 	}
-	t := newBandTally(w.res.Spec)
-	opt.OnBandRows = t.add
+	t := bands.NewTally(w.res.Spec)
+	c := bands.NewClassifier(w.res.Scheme)
+	var scratch []uint8
+	rows := func(row0, n int, index []float32, codes []uint8) error {
+		if err := w.res.Rows(row0, n, index); err != nil {
+			return err
+		}
+		if codes == nil { // only the index is written: codes for the tally alone
+			scratch = slices.Grow(scratch[:0], len(index))[:len(index)]
+			codes = scratch
+		}
+		c.Row(codes, index, grid.NoDataIndex)
+		t.Add(row0, n, codes)
+		return nil
+	}
 	opt.SpillDir = w.dir
-	if err := geotiff.WriteIndexBandsRows(idx, bnd, w.res.Spec, grid.NoDataIndex, w.res.Scheme, w.res.Rows, opt); err != nil {
+	if err := geotiff.WriteIndexBandsRows(idx, bnd, w.res.Spec, grid.NoDataIndex, w.res.Scheme, rows, opt); err != nil {
 		return err
 	}
 	w.res.Tally = t
 	return nil
-}
-
-// bandTally sums the band areas from band codes row by row (code 0 is no
-// data), cells weighted by their ellipsoidal area, for the summary and the
-// manifest: the same sums in the same order whether the rows come streamed
-// or from a band raster in memory. The cells of a row have one area, so a
-// row adds its count of each code times that area.
-type bandTally struct {
-	areas          []float64
-	cols           int
-	total, covered float64
-	byCode         [256]float64 // area by band code
-	seen           [256]bool
-	cells          int
-}
-
-func newBandTally(s grid.Spec) *bandTally {
-	return &bandTally{areas: s.RowAreasKm2(), cols: s.Cols}
-}
-
-func (t *bandTally) add(row0, n int, codes []uint8) {
-	var count [256]int
-	for r := range n {
-		count = [256]int{}
-		for _, c := range codes[r*t.cols : (r+1)*t.cols] {
-			count[c]++
-		}
-		a := t.areas[row0+r]
-		t.total += a * float64(t.cols)
-		t.covered += a * float64(t.cols-count[0])
-		t.cells += t.cols - count[0]
-		for c := 1; c < len(count); c++ {
-			if count[c] > 0 {
-				t.byCode[c] += a * float64(count[c])
-				t.seen[c] = true
-			}
-		}
-	}
-}
-
-// shares gives the covered share of the tallied area and each band's share
-// of the covered area, both in percent.
-func (t *bandTally) shares() (coveredPct float64, bandPct map[uint8]float64) {
-	bandPct = map[uint8]float64{}
-	for c, a := range t.byCode {
-		if t.seen[c] {
-			bandPct[uint8(c)] = 100 * a / t.covered
-		}
-	}
-	if t.total > 0 {
-		coveredPct = 100 * t.covered / t.total
-	}
-	return coveredPct, bandPct
 }

@@ -39,25 +39,19 @@ type regRow struct {
 func regValues(z region.ZonalStats, s *bands.Scheme) regRow {
 	r := regRow{area: z.AreaKm2, covered: z.CoveredKm2, coveredPct: math.NaN(), droughtPct: math.NaN(), meanZ: math.NaN()}
 	if z.AreaKm2 > 0 {
-		r.coveredPct = 100 * z.CoveredKm2 / z.AreaKm2
+		r.coveredPct = z.CoveredPct()
 	}
 	for _, b := range s.Bands {
-		km2 := 0.0
-		if int(b.Code) < len(z.CodeKm2) {
-			km2 = z.CodeKm2[b.Code]
+		pct, ok := z.BandPct(b.Code)
+		if !ok {
+			pct = math.NaN()
 		}
-		pct := math.NaN()
-		if z.CoveredKm2 > 0 {
-			pct = 100 * km2 / z.CoveredKm2
-		}
-		r.bandKm2 = append(r.bandKm2, km2)
+		r.bandKm2 = append(r.bandKm2, z.CodeKm2[b.Code])
 		r.bandPct = append(r.bandPct, pct)
-		if b.Drought {
-			r.droughtKm2 += km2
-		}
 	}
-	if z.CoveredKm2 > 0 {
-		r.droughtPct = 100 * r.droughtKm2 / z.CoveredKm2
+	r.droughtKm2 = z.InDroughtKm2(s)
+	if pct, ok := z.InDroughtPct(s); ok {
+		r.droughtPct = pct
 	}
 	if z.HasMeanZ {
 		r.meanZ = z.MeanZ

@@ -1,15 +1,17 @@
-package geotiff
+package bands
 
 import (
 	"math"
 
-	"drygrid/bands"
+	"drygrid/grid"
 )
 
-// tiffClassifier gives the same codes as bands.Scheme.Classify, band by
-// band in scheme order with the same tests as bands.Band.Contains, from
-// plain arrays (Classify copies each Band, strings included, per test).
-type tiffClassifier struct {
+// Classifier gives the codes of a scheme from plain arrays: the same code
+// as Scheme.Classify, band by band in scheme order with the same tests as
+// Band.Contains, without copying a Band per test. It is the one
+// classification of index values into band codes; Row classifies a row
+// of an index raster, Raster a whole one.
+type Classifier struct {
 	lo, hi       []float64
 	loInc, hiInc []bool
 	code         []uint8
@@ -18,11 +20,9 @@ type tiffClassifier struct {
 	disjoint bool
 }
 
-func newTiffClassifier(s *bands.Scheme) tiffClassifier {
-	var c tiffClassifier
-	if s == nil {
-		return c
-	}
+// NewClassifier prepares the classification of s.
+func NewClassifier(s *Scheme) *Classifier {
+	c := &Classifier{}
 	for _, b := range s.Bands {
 		c.lo = append(c.lo, b.Min)
 		c.hi = append(c.hi, b.Max)
@@ -37,13 +37,13 @@ func newTiffClassifier(s *bands.Scheme) tiffClassifier {
 }
 
 // in reports whether z (not NaN) is in band i, as Band.Contains does.
-func (c *tiffClassifier) in(i int, z float64) bool {
+func (c *Classifier) in(i int, z float64) bool {
 	lo, hi := c.lo[i], c.hi[i]
 	return (z > lo || (z == lo && c.loInc[i])) && (z < hi || (z == hi && c.hiInc[i]))
 }
 
 // band is the index of the first band holding z, or -1 (NaN, or no band).
-func (c *tiffClassifier) band(z float64) int {
+func (c *Classifier) band(z float64) int {
 	if z != z {
 		return -1
 	}
@@ -55,19 +55,19 @@ func (c *tiffClassifier) band(z float64) int {
 	return -1
 }
 
-// of is the code of z: Scheme.Classify(z).
-func (c *tiffClassifier) of(z float64) uint8 {
+// Code is the code of z: Scheme.Classify(z).
+func (c *Classifier) Code(z float64) uint8 {
 	if i := c.band(z); i >= 0 {
 		return c.code[i]
 	}
 	return 0
 }
 
-// classify writes the code of each value of src to dst: 0 for nodata,
-// else of(v). With disjoint bands the previous value's band is tried
-// first (neighbouring cells mostly share a band); the band holding a value
-// is then the only one, so the code is the same.
-func (c *tiffClassifier) classify(src []float32, nodata float32, dst []uint8) {
+// Row writes the code of each value of src to dst (len(dst) >= len(src)):
+// 0 (no data) for nodata, else Code(v). With disjoint bands the previous
+// value's band is tried first (neighbouring cells mostly share a band);
+// the band holding a value is then the only one, so the code is the same.
+func (c *Classifier) Row(dst []uint8, src []float32, nodata float32) {
 	last := -1
 	for i, v := range src {
 		if v == nodata {
@@ -89,4 +89,12 @@ func (c *tiffClassifier) classify(src []float32, nodata float32, dst []uint8) {
 			last = b
 		}
 	}
+}
+
+// Raster classifies an index raster: a band raster on the same grid with
+// 0 (no data) where index holds its no-data value.
+func (c *Classifier) Raster(index *grid.Float32) *grid.Uint8 {
+	out := grid.NewUint8(index.Spec, 0)
+	c.Row(out.Data, index.Data, index.NoData)
+	return out
 }
