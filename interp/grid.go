@@ -137,7 +137,7 @@ func (ip *Interpolator) newRowWork() *rowWork {
 }
 
 // rowCandidates collects the ranks of the stations whose latitude is within
-// the search radius of lat (lo <= latitude <= hi, the stations an rtree
+// the search radius of lat (lo <= latitude <= hi, the stations an R-tree
 // query of that band returns), in ascending rank (that is longitude)
 // order: a range of the stations sorted by latitude, put in rank order
 // through a bit set.
@@ -162,9 +162,9 @@ func (ip *Interpolator) rowCandidates(w *rowWork, lat float64) []int32 {
 
 // rowStations gathers the candidate stations of a row at latitude lat into
 // w.lon and w.st, with copies shifted by -360 and +360 unless the search
-// circle spans every longitude, and returns the cursor of the cells'
-// spans over them; ok is false when the row has fewer
-// candidates than MinStations, so every cell of it is no data.
+// circle covers every longitude, and returns the cursor of the cells' spans
+// over them; ok is false when the row has fewer candidates than
+// MinStations, so every cell of it is no data.
 func (ip *Interpolator) rowStations(w *rowWork, lat float64) (span lonSpan, ok bool) {
 	ranks := ip.rowCandidates(w, lat)
 	if len(ranks) < ip.p.MinStations {
@@ -229,28 +229,28 @@ type lonSpan struct {
 // none from one cell to the next, most of the time: one step without a
 // branch, then a loop that is seldom entered. lons[len(lons)] is the
 // sentinel.
-func (w *lonSpan) move(l float64) {
-	if w.full {
+func (s *lonSpan) move(l float64) {
+	if s.full {
 		return
 	}
-	a, b := l-w.dl-lonEps, l+w.dl+lonEps
-	lons := w.lons
-	west := l < w.prev
-	w.prev = l
+	a, b := l-s.dl-lonEps, l+s.dl+lonEps
+	lons := s.lons
+	west := l < s.prev
+	s.prev = l
 	if west {
-		w.lo = sort.SearchFloat64s(lons, a)
-		w.hi = w.lo + sort.Search(len(lons)-w.lo, func(i int) bool { return lons[w.lo+i] > b })
+		s.lo = sort.SearchFloat64s(lons, a)
+		s.hi = s.lo + sort.Search(len(lons)-s.lo, func(i int) bool { return lons[s.lo+i] > b })
 		return
 	}
 	sl := lons[:len(lons)+1]
-	lo, hi := w.lo+b2i(sl[w.lo] < a), w.hi+b2i(sl[w.hi] <= b)
+	lo, hi := s.lo+b2i(sl[s.lo] < a), s.hi+b2i(sl[s.hi] <= b)
 	for sl[lo] < a {
 		lo++
 	}
 	for sl[hi] <= b {
 		hi++
 	}
-	w.lo, w.hi = lo, hi
+	s.lo, s.hi = lo, hi
 }
 
 // columns puts the spans of the cells at longitudes lons (the row's
@@ -258,22 +258,22 @@ func (w *lonSpan) move(l float64) {
 // lom1[c]+1 .. him1[c]), as move would, and repeats the last into the
 // entries past len(lons). Where a column lies west of the one before it
 // calls move; spanRun steps along the columns in between.
-func (w *lonSpan) columns(lons []float64, lom1, him1 []int64) {
-	if w.full {
+func (s *lonSpan) columns(lons []float64, lom1, him1 []int64) {
+	if s.full {
 		for c := range lom1 {
-			lom1[c], him1[c] = -1, int64(len(w.lons)-1)
+			lom1[c], him1[c] = -1, int64(len(s.lons)-1)
 		}
 		return
 	}
-	sl := w.lons[:len(w.lons)+2] // the sentinels
+	sl := s.lons[:len(s.lons)+2] // the sentinels
 	for c := 0; c < len(lons); {
-		if lons[c] < w.prev {
-			w.move(lons[c])
-			lom1[c], him1[c] = int64(w.lo-1), int64(w.hi-1)
+		if lons[c] < s.prev {
+			s.move(lons[c])
+			lom1[c], him1[c] = int64(s.lo-1), int64(s.hi-1)
 			c++
 			continue
 		}
-		c += spanRun(sl, lons[c:], lom1[c:len(lons)], him1[c:len(lons)], w)
+		c += spanRun(sl, lons[c:], lom1[c:len(lons)], him1[c:len(lons)], s)
 	}
 	for c := len(lons); c < len(lom1); c++ {
 		lom1[c], him1[c] = lom1[c-1], him1[c-1]
@@ -285,8 +285,8 @@ func (w *lonSpan) columns(lons []float64, lom1, him1 []int64) {
 // how many columns it took. sl are the row's longitudes with two +Inf
 // sentinels. A leaf function, so that its loop keeps everything in
 // registers.
-func spanRun(sl, lons []float64, lom1, him1 []int64, w *lonSpan) int {
-	lo, hi, prev, dl := w.lo, w.hi, w.prev, w.dl
+func spanRun(sl, lons []float64, lom1, him1 []int64, s *lonSpan) int {
+	lo, hi, prev, dl := s.lo, s.hi, s.prev, s.dl
 	c := 0
 	for ; c < len(lons) && c < len(lom1) && c < len(him1); c++ {
 		l := lons[c]
@@ -311,7 +311,7 @@ func spanRun(sl, lons []float64, lom1, him1 []int64, w *lonSpan) int {
 		}
 		lom1[c], him1[c] = int64(lo-1), int64(hi-1)
 	}
-	w.lo, w.hi, w.prev = lo, hi, prev
+	s.lo, s.hi, s.prev = lo, hi, prev
 	return c
 }
 
@@ -362,9 +362,9 @@ func (ip *Interpolator) gridRowLanes(w *rowWork, lat, colStep float64, colLon, c
 	// square root plus i delta (delta: the chord between neighbouring cell
 	// centres; the triangle inequality): the kernel's first pass then
 	// counts only the stations within that limit, among which are the k
-	// nearest, and lanes.KthChord looks only at the chords within the bound from
-	// the cell before. prevTau is the previous cell's k-th chord squared,
-	// -1 when it had fewer than k stations within the radius.
+	// nearest, and lanes.KthChord looks only at the chords within the
+	// bound from the cell before. prevTau is the previous cell's k-th chord
+	// squared, -1 when it had fewer than k stations within the radius.
 	delta := neighbourChord(cp, colStep)
 	g.Delta = delta
 	prevTau := -1.0

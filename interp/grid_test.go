@@ -56,9 +56,10 @@ func TestLanePathMatchesCandidates(t *testing.T) {
 // TestGridAntimeridianFewStations: a row with few stations near the
 // antimeridian holds copies of some of them shifted by 360 degrees right
 // after the others, so the union of a group's spans can hold a station and
-// its copy; each cell must count only its own span. Grid agrees with At (rtree boxes,
-// no copies) on 300 random sets of 40 stations across the antimeridian
-// (a case the end-to-end NumPy test met with one of its random seeds).
+// its copy; each cell must count only its own span. Grid agrees with At
+// (R-tree boxes, no copies) on 300 random sets of 40 stations across the
+// antimeridian (a case the end-to-end NumPy test met with one of its random
+// seeds).
 func TestGridAntimeridianFewStations(t *testing.T) {
 	spec, _ := grid.NewSpec(174, -25, -174, -15, 0.25)
 	p := Params{Power: 2, Neighbors: 8, RadiusKm: 250, MinStations: 3}

@@ -90,13 +90,13 @@ func New(pts []Point, p Params) (*Interpolator, error) {
 		}
 	}
 	n := len(pts)
-	byLon := make([]keyIndex, n)
+	byLon := make([]sortKey, n)
 	nl := make([]float64, n)
 	for i := range pts {
 		nl[i] = normLon(pts[i].Lon)
-		byLon[i] = keyIndex{nl[i], int32(i)}
+		byLon[i] = sortKey{nl[i], int32(i)}
 	}
-	sortKeyIndex(byLon)
+	sortKeys(byLon)
 	order := make([]int32, n)
 	for r, k := range byLon {
 		order[r] = k.i
@@ -126,9 +126,9 @@ func New(pts []Point, p Params) (*Interpolator, error) {
 	}
 	byLat := byLon // reused: (latitude, rank)
 	for r := range byLat {
-		byLat[r] = keyIndex{ip.pts[r][1], int32(r)}
+		byLat[r] = sortKey{ip.pts[r][1], int32(r)}
 	}
-	sortKeyIndex(byLat)
+	sortKeys(byLat)
 	ip.latRank, ip.latVal = make([]int32, n), make([]float64, n)
 	for i, k := range byLat {
 		ip.latRank[i], ip.latVal[i] = k.i, k.key

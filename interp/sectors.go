@@ -75,7 +75,7 @@ func sectorOf(e, n float64, s int) int {
 // sectorPick moves to the front of cs the stations the sector rule keeps for
 // the cell at longitude lon (degrees, in [-180, 180)) whose latitude has
 // sine sp and cosine cp, and returns their number. The chosen ones come
-// nearest first (by chord, then input index).
+// nearest first (by chord, then position in the input).
 func (ip *Interpolator) sectorPick(cs []cand, lon, sp, cp float64) int {
 	ip.sortCands(cs)
 	s := ip.p.Sectors
@@ -100,8 +100,8 @@ func (ip *Interpolator) sectorPick(cs []cand, lon, sp, cp float64) int {
 	return w
 }
 
-// sortCands orders candidates by chord squared, then input index: an
-// insertion sort for the few of a cell, a library sort beyond.
+// sortCands orders candidates by chord squared, then position in the
+// input: an insertion sort for the few of a cell, a library sort beyond.
 func (ip *Interpolator) sortCands(cs []cand) {
 	if len(cs) > 32 {
 		slices.SortFunc(cs, func(a, b cand) int {
