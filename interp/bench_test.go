@@ -24,8 +24,9 @@ func uniformSphere(n int, seed uint64) []Point {
 	return pts
 }
 
-// BenchmarkGridGlobal is the DESIGN.md target: 20,000 stations onto a
-// global 0.1 degree grid (3600 x 1800 = 6.48 M cells), k = 12, 300 km.
+// BenchmarkGridGlobal is the project's target workload: 20,000 stations
+// onto a global 0.1 degree grid (3600 x 1800 = 6.48 M cells), k = 12,
+// 300 km.
 func BenchmarkGridGlobal(b *testing.B) { benchGridGlobal(b, DefaultParams()) }
 
 // benchGridGlobal grids uniformSphere(20000, 1) onto the global 0.1 degree
@@ -46,7 +47,8 @@ func benchGridGlobal(b *testing.B, p Params) {
 	b.ReportMetric(float64(spec.Len())*float64(b.N)/b.Elapsed().Seconds(), "cells/s")
 }
 
-// BenchmarkNew is building the index of 20,000 stations.
+// BenchmarkNew is New on 20,000 stations: the checks and the two sorts (by
+// longitude and by latitude).
 func BenchmarkNew(b *testing.B) {
 	pts := uniformSphere(20000, 1)
 	b.ReportAllocs()

@@ -125,7 +125,7 @@ func TestCrossValidateAgainstNumPy(t *testing.T) {
 }
 
 // TestCrossValidateDeterministic: the result is the same for any number of
-// workers (DESIGN.md: output never depends on the core count).
+// workers (the output never depends on the core count).
 func TestCrossValidateDeterministic(t *testing.T) {
 	pts := uniformSphere(3000, 7)
 	var first CrossValResult
@@ -183,8 +183,8 @@ func TestCrossValidateConstantField(t *testing.T) {
 }
 
 // TestCrossValidateCoverage: a station with fewer than MinStations OTHER
-// stations within the radius is not counted (issue 9), and the figures are
-// over the counted ones. Worked by hand: three stations 0.5 deg apart on the
+// stations within the radius is not counted (the coverage rule, applied to
+// the others), and the figures are over the counted ones. Worked by hand: three stations 0.5 deg apart on the
 // equator (55.6 km) and one 20 deg away; radius 100 km, min-stations 1.
 // The middle one (z = 0) is predicted from its two neighbours at equal
 // distance: (1 + 3) / 2 = 2, residual +2. Each end one is predicted from

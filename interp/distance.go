@@ -50,8 +50,9 @@ func unitVector(lon, lat float64) (x, y, z float64) {
 // chordSq is the chord squared dx^2 + dy^2 + dz^2 between two unit vectors
 // whose difference is (dx, dy, dz), rounded after every operation (the
 // conversions keep the compiler from fusing them): every path of the
-// grid, and the window kernel's assembly, computes it so, to the same
-// bits, and so agrees on ties at the k-th distance.
+// grid, and the lane kernel (package lanes, in Go and in assembly),
+// computes it so, to the same bits, and so agrees on ties at the k-th
+// distance.
 func chordSq(dx, dy, dz float64) float64 {
 	return float64(dx*dx) + float64(dy*dy) + float64(dz*dz)
 }

@@ -38,13 +38,14 @@ func idwWeights(distKm []float64, p float64) []float64 {
 	return w
 }
 
-// kBest keeps the k smallest (chord squared, input index) pairs offered, in
-// ascending order: distance ties go to the station that came first in the
-// input, so the choice does not depend on the order of the offers.
+// kBest keeps the k smallest (chord squared, position in the input) pairs
+// offered, in ascending order: distance ties go to the station that came
+// first in the input, so the choice does not depend on the order of the
+// offers.
 type kBest struct {
 	k, n int
 	d2   []float64
-	id   []int32 // input index (tie-break)
+	id   []int32 // position in the input (tie-break)
 	rk   []int32 // rank in the interpolator's arrays
 }
 

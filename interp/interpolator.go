@@ -1,13 +1,3 @@
-// Package interp grids station values by inverse-distance weighting on the
-// sphere (Shepard 1968), exactly as DESIGN.md states: great-circle distance
-// on a sphere of radius EarthRadiusKm; the Neighbors nearest stations within
-// RadiusKm, ties broken by input order; weight d^-power; a cell with fewer
-// than MinStations stations within the radius is no data (this coverage rule
-// comes first); otherwise a cell closer than 1 m to a station takes that
-// station's value. Neighbours of a point are found through a tidwall/rtree
-// index; the grid gathers a row's stations from the stations sorted by
-// latitude (the same set the rtree gives for the row's latitude band).
-// Output never depends on the number of workers.
 package interp
 
 import (
@@ -17,6 +7,8 @@ import (
 	"sync"
 
 	"github.com/tidwall/rtree"
+
+	"drygrid/interp/internal/lanes"
 )
 
 // Point is one station: longitude in degrees (any form: -180..180 or
@@ -28,12 +20,14 @@ type Point struct {
 // exactKm is the distance below which a cell takes a station's value (1 m).
 const exactKm = 0.001
 
-// lonEps widens longitude and latitude search windows (degrees) so that
-// rounding in the bounds never drops a station; the chord test decides.
+// lonEps widens the longitude and latitude bounds of a search (degrees) so
+// that rounding in the bounds never drops a station; the chord test
+// decides.
 const lonEps = 1e-9
 
-// Interpolator holds the stations, ordered by longitude, and their rtree
-// index. It is built once by New and is safe for concurrent use.
+// Interpolator holds the stations, ordered by longitude and by latitude,
+// and an R-tree of them. It is built once by New and is safe for concurrent
+// use.
 type Interpolator struct {
 	p        Params
 	theta    float64       // search radius as a central angle, radians
@@ -41,7 +35,7 @@ type Interpolator struct {
 	c2max    float64       // chord length squared of the search radius (unit sphere)
 	fast     bool          // power 2 and c2max <= 0.01: the series path of estimate
 	k        int           // Neighbors, at most the number of stations (sizes the buffers)
-	window   *windowConsts // the window kernel's constants (window.go)
+	lanes    *lanes.Consts // the lane kernel's constants (package lanes)
 	work     sync.Pool     // *rowWork kept between calls of Grid and Rows
 
 	// Stations in longitude order (rank r), ties by input order.
@@ -49,31 +43,32 @@ type Interpolator struct {
 	x, y, z []float64 // unit vectors
 	cosLat  []float64 // hypot(x, y): the cosine of the latitude, for sector bearings
 	val     []float64
-	id      []int32 // input index
+	id      []int32 // position in the input
 
 	// Ranks in latitude order and their latitudes, ascending: the stations
 	// of a latitude band are a range of them (rowCandidates).
 	latRank []int32
 	latVal  []float64
 
-	// The rtree of the (lon, lat) points -> rank, for At; built on first
+	// The R-tree of the (lon, lat) points -> rank, for At; built on first
 	// use (the grid does not need it).
 	treeOnce sync.Once
-	tree     rtree.RTreeG[int32]
+	rt       rtree.RTreeG[int32]
 	pts      [][2]float64 // the points in rank order, for the tree
 }
 
-// index is the rtree of the stations, built on the first call.
-func (ip *Interpolator) index() *rtree.RTreeG[int32] {
+// tree is the R-tree of the stations, built on the first call.
+func (ip *Interpolator) tree() *rtree.RTreeG[int32] {
 	ip.treeOnce.Do(func() {
 		for r, pt := range ip.pts {
-			ip.tree.Insert(pt, pt, int32(r))
+			ip.rt.Insert(pt, pt, int32(r))
 		}
 	})
-	return &ip.tree
+	return &ip.rt
 }
 
-// New validates the parameters and the points and builds the index.
+// New validates the parameters and the points and orders the stations by
+// longitude and by latitude.
 func New(pts []Point, p Params) (*Interpolator, error) {
 	if err := p.Validate(); err != nil {
 		return nil, err
@@ -95,13 +90,13 @@ func New(pts []Point, p Params) (*Interpolator, error) {
 		}
 	}
 	n := len(pts)
-	byLon := make([]keyIndex, n)
+	byLon := make([]sortKey, n)
 	nl := make([]float64, n)
 	for i := range pts {
 		nl[i] = normLon(pts[i].Lon)
-		byLon[i] = keyIndex{nl[i], int32(i)}
+		byLon[i] = sortKey{nl[i], int32(i)}
 	}
-	sortKeyIndex(byLon)
+	sortKeys(byLon)
 	order := make([]int32, n)
 	for r, k := range byLon {
 		order[r] = k.i
@@ -118,7 +113,7 @@ func New(pts []Point, p Params) (*Interpolator, error) {
 	}
 	ip.fast = p.Power == 2 && ip.c2max <= 0.01
 	ip.k = min(p.Neighbors, n)
-	ip.window = newWindowConsts(ip.c2max)
+	ip.lanes = lanes.NewConsts(ip.c2max)
 	for r, i := range order {
 		q := pts[i]
 		ip.lon[r] = nl[i]
@@ -131,9 +126,9 @@ func New(pts []Point, p Params) (*Interpolator, error) {
 	}
 	byLat := byLon // reused: (latitude, rank)
 	for r := range byLat {
-		byLat[r] = keyIndex{ip.pts[r][1], int32(r)}
+		byLat[r] = sortKey{ip.pts[r][1], int32(r)}
 	}
-	sortKeyIndex(byLat)
+	sortKeys(byLat)
 	ip.latRank, ip.latVal = make([]int32, n), make([]float64, n)
 	for i, k := range byLat {
 		ip.latRank[i], ip.latVal[i] = k.i, k.key
@@ -163,7 +158,7 @@ func (ip *Interpolator) At(lon, lat float64) (z float64, n int, ok bool) {
 }
 
 // selectAt puts in c the stations within the radius of lon, lat, found
-// through the rtree: the circle's bounding box, split in two where it
+// through the R-tree: the circle's bounding box, split in two where it
 // crosses the antimeridian, all longitudes where it holds a pole. It
 // returns their number.
 func (ip *Interpolator) selectAt(lon, lat float64, c *cands) int {
@@ -180,7 +175,7 @@ func (ip *Interpolator) selectAt(lon, lat float64, c *cands) int {
 	dl := lonHalfWidth(lat, ip.theta)
 	l := normLon(lon)
 	a, b := l-dl-lonEps, l+dl+lonEps
-	tree := ip.index()
+	tree := ip.tree()
 	switch {
 	case dl > 179:
 		tree.Search([2]float64{-181, lo}, [2]float64{181, hi}, offer)

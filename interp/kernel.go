@@ -26,15 +26,15 @@ func (c *cands) reset(n int) {
 	c.cs = c.cs[:n]
 }
 
-// before orders candidates by chord squared, then input index.
+// before orders candidates by chord squared, then position in the input.
 func (ip *Interpolator) before(a, b *cand) bool {
 	return a.d2 < b.d2 || (a.d2 == b.d2 && ip.id[a.rk] < ip.id[b.rk])
 }
 
 // selectK keeps in cs[:k] the k smallest candidates (by chord squared, then
-// input index), in an order that depends only on the input: it drops the
-// largest n-k times, or picks the smallest k times, whichever takes fewer
-// passes.
+// position in the input), in an order that depends only on the input: it
+// drops the largest n-k times, or picks the smallest k times, whichever
+// takes fewer passes.
 func (ip *Interpolator) selectK(cs []cand, k int) {
 	n := len(cs)
 	if n-k <= k {

@@ -13,7 +13,8 @@ const EarthRadiusKm = 6371.0088
 // halfCircumferenceKm is the longest great-circle distance on the sphere.
 const halfCircumferenceKm = math.Pi * EarthRadiusKm
 
-// Params are the inverse-distance-weighting settings (DESIGN.md, IDW).
+// Params are the inverse-distance-weighting settings (see the package doc
+// for the rules they set).
 type Params struct {
 	Power       float64 // exponent of the weight d^-power; default 2
 	Neighbors   int     // the k nearest stations within the radius are used; default 12
@@ -25,8 +26,8 @@ type Params struct {
 	Sectors int
 }
 
-// DefaultParams are the defaults of the command line (DESIGN.md): power 2,
-// 12 neighbours, 300 km, at least 3 stations, all cores.
+// DefaultParams are the defaults of the command line: power 2, 12
+// neighbours, 300 km, at least 3 stations, all cores, no sectors.
 func DefaultParams() Params {
 	return Params{Power: 2, Neighbors: 12, RadiusKm: 300, MinStations: 3}
 }

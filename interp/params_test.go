@@ -6,8 +6,8 @@ import (
 	"testing"
 )
 
-// TestDefaultParams: the command-line defaults of DESIGN.md (power 2,
-// 12 neighbours, 300 km, 3 stations).
+// TestDefaultParams: the command-line defaults (power 2, 12 neighbours,
+// 300 km, 3 stations, all cores).
 func TestDefaultParams(t *testing.T) {
 	p := DefaultParams()
 	if p.Power != 2 || p.Neighbors != 12 || p.RadiusKm != 300 || p.MinStations != 3 || p.Workers != 0 {

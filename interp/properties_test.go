@@ -159,8 +159,8 @@ func TestConstantField(t *testing.T) {
 }
 
 // TestStationOnCellCentre: a cell closer than 1 m to a station takes that
-// station's value (DESIGN.md); of two, the nearest; of two at the same
-// place, the first in the input.
+// station's value (the 1 m rule of the package doc); of two, the nearest;
+// of two at the same place, the first in the input.
 func TestStationOnCellCentre(t *testing.T) {
 	spec, _ := grid.NewSpec(0, 0, 2, 2, 0.5)
 	lon, lat := spec.Center(1, 2)             // 0.75, 0.75
@@ -214,7 +214,8 @@ func TestTiesByInputOrder(t *testing.T) {
 }
 
 // TestWorkersByteIdentical: the raster does not depend on the number of
-// workers (DESIGN.md); progress reaches every row once, in order.
+// workers (the output never depends on the core count); progress reaches
+// every row once, in order.
 func TestWorkersByteIdentical(t *testing.T) {
 	r := rand.New(rand.NewPCG(41, 42))
 	pts := append(randomStations(r, 3000, -180, -90, 180, 90), randomStations(r, 500, 170, -20, 190, 20)...)
@@ -353,8 +354,8 @@ func FuzzInterp(f *testing.F) {
 }
 
 // TestGridMatchesAtDense: where many more than k stations lie within the
-// radius, Grid (row windows, the previous cell's k-th distance as a bound)
-// chooses the same neighbours as At (rtree boxes, plain selection), which
+// radius, Grid (row spans, the previous cell's k-th distance as a bound)
+// chooses the same neighbours as At (R-tree boxes, plain selection), which
 // TestEstimateIsShepardMean checks against brute force.
 func TestGridMatchesAtDense(t *testing.T) {
 	r := rand.New(rand.NewPCG(81, 82))

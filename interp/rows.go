@@ -5,6 +5,7 @@ import (
 	"math"
 
 	"drygrid/grid"
+	"drygrid/interp/internal/lanes"
 )
 
 // Rows interpolates rows row0 .. row0+n-1 of spec into dst (n * spec.Cols
@@ -33,10 +34,10 @@ func (ip *Interpolator) Rows(spec grid.Spec, row0, n int, dst []float32) error {
 
 // rowsColumns computes the column longitudes of spec and their sines and
 // cosines (a few microseconds per block). Past their length, cos and sin
-// repeat the last column windowLanes-1 times, for the window kernel's
-// lanes beyond a row's end.
+// repeat the last column lanes.Width-1 times, for the lane kernel's lanes
+// beyond a row's end.
 func rowsColumns(spec grid.Spec) (lon, cos, sin []float64) {
-	n, pad := spec.Cols, windowLanes-1
+	n, pad := spec.Cols, lanes.Width-1
 	lon, cos, sin = make([]float64, n), make([]float64, n, n+pad), make([]float64, n, n+pad)
 	for i := range lon {
 		l, _ := spec.Center(i, 0)

@@ -75,7 +75,7 @@ func sectorOf(e, n float64, s int) int {
 // sectorPick moves to the front of cs the stations the sector rule keeps for
 // the cell at longitude lon (degrees, in [-180, 180)) whose latitude has
 // sine sp and cosine cp, and returns their number. The chosen ones come
-// nearest first (by chord, then input index).
+// nearest first (by chord, then position in the input).
 func (ip *Interpolator) sectorPick(cs []cand, lon, sp, cp float64) int {
 	ip.sortCands(cs)
 	s := ip.p.Sectors
@@ -100,8 +100,8 @@ func (ip *Interpolator) sectorPick(cs []cand, lon, sp, cp float64) int {
 	return w
 }
 
-// sortCands orders candidates by chord squared, then input index: an
-// insertion sort for the few of a cell, a library sort beyond.
+// sortCands orders candidates by chord squared, then position in the
+// input: an insertion sort for the few of a cell, a library sort beyond.
 func (ip *Interpolator) sortCands(cs []cand) {
 	if len(cs) > 32 {
 		slices.SortFunc(cs, func(a, b cand) int {
@@ -150,21 +150,21 @@ func (ip *Interpolator) estimateAt(c *cands, n int, lon, lat, cx, cy, cz float64
 }
 
 // gridRowSectors is gridRow under the sector rule: every cell scans its
-// longitude window out to the full radius (the k-th-nearest shortcut of
+// longitude span out to the full radius (the k-th-nearest shortcut of
 // gridRow does not hold when far stations in empty sectors are wanted).
 func (ip *Interpolator) gridRowSectors(w *rowWork, lat float64, colLon, colCos, colSin []float64, dst []float32) {
-	win, ok := ip.rowStations(w, lat)
+	span, ok := ip.rowStations(w, lat)
 	if !ok {
 		return // already no data
 	}
 	sp, cp := math.Sincos(lat * degToRad)
 	c := w.c
-	c.reset(len(win.lons) + 1)
+	c.reset(len(span.lons) + 1)
 	for col := range dst {
 		l := colLon[col]
-		win.move(l)
+		span.move(l)
 		cx, cy, cz := cp*colCos[col], cp*colSin[col], sp
-		n := scanWindow(w.st.window(win.lo, win.hi), c.cs, cx, cy, cz, ip.c2max)
+		n := scanSpan(w.st.slice(span.lo, span.hi), c.cs, cx, cy, cz, ip.c2max)
 		if n < ip.p.MinStations {
 			continue
 		}

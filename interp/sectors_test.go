@@ -10,7 +10,8 @@ import (
 )
 
 // TestValidateSectors: 0, 4 or 8 sectors, and at least one neighbour per
-// sector (issue 9).
+// sector (each sector keeps neighbors/sectors stations, rounded down, so
+// fewer neighbours than sectors would keep none).
 func TestValidateSectors(t *testing.T) {
 	cases := []struct {
 		sectors, neighbors int

@@ -2,25 +2,26 @@ package interp
 
 import "math"
 
-// keyIndex is a sort key and the index it belongs to.
-type keyIndex struct {
+// sortKey is a sort key and the position (in the slice being sorted) it
+// belongs to.
+type sortKey struct {
 	key float64
 	i   int32
 }
 
-// sortKeyIndex sorts ks, given in index order (ks[j].i == j), by key, then
-// index; keys are never NaN. It is a least-significant-digit radix sort of
+// sortKeys sorts ks, given in position order (ks[j].i == j), by key, then
+// position; keys are never NaN. It is a least-significant-digit radix sort of
 // the keys' bits made to order as the values do (the sign bit set for
 // positive numbers, every bit flipped for negative ones, -0 taken as +0):
-// stable, so equal keys keep index order. The keys come back as sorted,
+// stable, so equal keys keep position order. The keys come back as sorted,
 // with -0 as +0.
-func sortKeyIndex(ks []keyIndex) {
+func sortKeys(ks []sortKey) {
 	n := len(ks)
 	if n == 0 {
 		return
 	}
-	u, idx := make([]uint64, 2*n), make([]int32, 2*n)
-	src, dst, si, di := u[:n], u[n:], idx[:n], idx[n:]
+	u, pos := make([]uint64, 2*n), make([]int32, 2*n)
+	src, dst, si, di := u[:n], u[n:], pos[:n], pos[n:]
 	for j, k := range ks {
 		b := math.Float64bits(k.key)
 		if k.key == 0 {
@@ -57,6 +58,6 @@ func sortKeyIndex(ks []keyIndex) {
 		} else {
 			b = ^b
 		}
-		ks[j] = keyIndex{math.Float64frombits(b), si[j]}
+		ks[j] = sortKey{math.Float64frombits(b), si[j]}
 	}
 }

@@ -2,7 +2,7 @@
 
 #include "textflag.h"
 
-// go_asm.h gives the offsets of the Go structs: windowGroup_x and so on.
+// go_asm.h gives the offsets of the Go structs: Group_X and so on.
 #include "go_asm.h"
 
 // Go assembler order: the destination is the last operand, VSUBPD A, B, D
@@ -11,56 +11,56 @@
 // MAXPD(B, A) (B if B > A, else A), VFMADD231PD A, B, D is D = B*A + D,
 // VFMADD213PD A, B, D is D = B*D + A, VBLENDVPD M, A, B, D is D = M ? A : B.
 
-// limSlack, 1 + 1e-12 (window.go).
-DATA limSlack<>+0(SB)/8, $1.000000000001
-GLOBL limSlack<>(SB), RODATA|NOPTR, $8
+// slack, 1 + 1e-12 (Slack in kernel.go).
+DATA slack<>+0(SB)/8, $1.000000000001
+GLOBL slack<>(SB), RODATA|NOPTR, $8
 
-// func windowChordsAVX2(grp *windowGroup)
+// func chordsAVX2(grp *Group)
 //
-// windowChordsGo, the four cells in the four lanes, one station a step.
+// chordsGo, the four cells in the four lanes, one station a step.
 // Registers: Y12 the station's number in the row, j0+j, in every lane;
 // Y11 the counts (each lane subtracts its mask, -1 where the station
-// counts); Y10 .. Y7 the largest chords, largest first (windowTop = 4).
+// counts); Y10 .. Y7 the largest chords, largest first (Kept = 4).
 // Y15 the limits (lim); Y3, Y4, Y5 the cells' unit vectors. The cells'
-// windows (lom1 at DX, him1 at R10) are read from memory; the station and
-// window pointers start at j0 and c0.
-TEXT ·windowChordsAVX2(SB), NOSPLIT, $0-8
+// spans (Lom1 at DX, Him1 at R10) are read from memory; the station and
+// span pointers start at J0 and C0.
+TEXT ·chordsAVX2(SB), NOSPLIT, $0-8
 	MOVQ grp+0(FP), R12
-	MOVQ windowGroup_j0(R12), SI
-	MOVQ windowGroup_x(R12), AX
+	MOVQ Group_J0(R12), SI
+	MOVQ Group_X(R12), AX
 	LEAQ (AX)(SI*8), AX
-	MOVQ windowGroup_y(R12), BX
+	MOVQ Group_Y(R12), BX
 	LEAQ (BX)(SI*8), BX
-	MOVQ windowGroup_z(R12), CX
+	MOVQ Group_Z(R12), CX
 	LEAQ (CX)(SI*8), CX
-	MOVQ windowGroup_d2(R12), DI
-	MOVQ windowGroup_m(R12), R8
-	MOVQ windowGroup_k(R12), R9
-	MOVQ windowGroup_c0(R12), SI
-	MOVQ windowGroup_cos(R12), R13
-	MOVQ windowGroup_sin(R12), R11
+	MOVQ Group_D2(R12), DI
+	MOVQ Group_M(R12), R8
+	MOVQ Group_K(R12), R9
+	MOVQ Group_C0(R12), SI
+	MOVQ Group_Cos(R12), R13
+	MOVQ Group_Sin(R12), R11
 	// The cells: Y3 = cp cos, Y4 = cp sin (rounded products), Y5 = cz.
-	VBROADCASTSD windowGroup_cp(R12), Y6
+	VBROADCASTSD Group_Cp(R12), Y6
 	VMULPD (R13)(SI*8), Y6, Y3
 	VMULPD (R11)(SI*8), Y6, Y4
-	VMOVUPD windowGroup_cz(R12), Y5
-	MOVQ windowGroup_lom1(R12), DX
+	VMOVUPD Group_Cz(R12), Y5
+	MOVQ Group_Lom1(R12), DX
 	LEAQ (DX)(SI*8), DX
-	MOVQ windowGroup_him1(R12), R10
+	MOVQ Group_Him1(R12), R10
 	LEAQ (R10)(SI*8), R10
-	VPBROADCASTQ windowGroup_j0(R12), Y12
+	VPBROADCASTQ Group_J0(R12), Y12
 
 	// lim = MINPD((u0 + lanes delta)^2 slack, c2max), rounded as
-	// windowChordsGo rounds it.
-	VBROADCASTSD windowGroup_delta(R12), Y0
-	VMULPD windowConsts_lanes(R9), Y0, Y0
-	VBROADCASTSD windowGroup_u0(R12), Y1
+	// chordsGo rounds it.
+	VBROADCASTSD Group_Delta(R12), Y0
+	VMULPD Consts_lanes(R9), Y0, Y0
+	VBROADCASTSD Group_U0(R12), Y1
 	VADDPD Y0, Y1, Y1
 	VMULPD Y1, Y1, Y1
-	VBROADCASTSD limSlack<>(SB), Y0
+	VBROADCASTSD slack<>(SB), Y0
 	VMULPD Y0, Y1, Y1
-	VMINPD windowConsts_c2max(R9), Y1, Y15
-	VMOVUPD Y15, windowGroup_lim(R12)
+	VMINPD Consts_C2max(R9), Y1, Y15
+	VMOVUPD Y15, Group_Lim(R12)
 
 	VPXOR Y11, Y11, Y11
 	VXORPD Y10, Y10, Y10
@@ -94,11 +94,11 @@ chords:
 	VCMPPD $2, Y15, Y0, Y14
 	VANDPD Y14, Y2, Y2
 	VPSUBQ Y2, Y11, Y11
-	VPADDQ windowConsts_step(R9), Y12, Y12
+	VPADDQ Consts_step(R9), Y12, Y12
 
 	// d2 = in ? c2 : +Inf; Y1 = in ? c2 : +0.
 	VANDPD Y2, Y0, Y1
-	VANDNPD windowConsts_posInf(R9), Y2, Y14
+	VANDNPD Consts_posInf(R9), Y2, Y14
 	VORPD Y1, Y14, Y14
 	VMOVUPD Y14, (DI)
 
@@ -116,32 +116,32 @@ chords:
 	JMP chords
 
 chordsDone:
-	VMOVDQU Y11, windowGroup_n(R12)
-	VMOVUPD Y10, windowGroup_top+0(R12)
-	VMOVUPD Y9, windowGroup_top+32(R12)
-	VMOVUPD Y8, windowGroup_top+64(R12)
-	VMOVUPD Y7, windowGroup_top+96(R12)
+	VMOVDQU Y11, Group_N(R12)
+	VMOVUPD Y10, Group_Top+0(R12)
+	VMOVUPD Y9, Group_Top+32(R12)
+	VMOVUPD Y8, Group_Top+64(R12)
+	VMOVUPD Y7, Group_Top+96(R12)
 	VZEROUPPER
 	RET
 
-// func windowSumsAVX2(grp *windowGroup)
+// func sumsAVX2(grp *Group)
 //
-// windowSumsGo, the four cells in the four lanes, one station a step.
+// sumsGo, the four cells in the four lanes, one station a step.
 // Registers: Y15 tau, Y14 one; Y13 sw, Y12 swz, Y11 lo, Y10 hi, Y9 the
 // counts.
-TEXT ·windowSumsAVX2(SB), NOSPLIT, $0-8
+TEXT ·sumsAVX2(SB), NOSPLIT, $0-8
 	MOVQ grp+0(FP), R12
-	MOVQ windowGroup_j0(R12), SI
-	MOVQ windowGroup_v(R12), DX
+	MOVQ Group_J0(R12), SI
+	MOVQ Group_V(R12), DX
 	LEAQ (DX)(SI*8), DX
-	MOVQ windowGroup_d2(R12), DI
-	MOVQ windowGroup_m(R12), R8
-	MOVQ windowGroup_k(R12), R9
-	VMOVUPD windowGroup_tau(R12), Y15
-	VMOVUPD windowConsts_one(R9), Y14
+	MOVQ Group_D2(R12), DI
+	MOVQ Group_M(R12), R8
+	MOVQ Group_K(R12), R9
+	VMOVUPD Group_Tau(R12), Y15
+	VMOVUPD Consts_one(R9), Y14
 	VXORPD Y13, Y13, Y13
 	VXORPD Y12, Y12, Y12
-	VMOVUPD windowConsts_posInf(R9), Y11
+	VMOVUPD Consts_posInf(R9), Y11
 	VXORPD Y10, Y10, Y10
 	VSUBPD Y11, Y10, Y10
 	VPXOR Y9, Y9, Y9
@@ -161,10 +161,10 @@ sums:
 	// scheme) depend on c2 only, so they overlap.
 	VDIVPD Y0, Y14, Y2
 	VMULPD Y0, Y0, Y3
-	VMOVUPD windowConsts_r3(R9), Y4
-	VFMADD213PD windowConsts_r2(R9), Y0, Y4
-	VFMADD231PD windowConsts_r4(R9), Y3, Y4
-	VMOVUPD windowConsts_r1(R9), Y5
+	VMOVUPD Consts_r3(R9), Y4
+	VFMADD213PD Consts_r2(R9), Y0, Y4
+	VFMADD231PD Consts_r4(R9), Y3, Y4
+	VMOVUPD Consts_r1(R9), Y5
 	VFMADD213PD Y14, Y0, Y5
 	VFMADD231PD Y4, Y3, Y5
 	VMULPD Y5, Y2, Y2
@@ -190,11 +190,11 @@ sumsDone:
 	VDIVPD Y13, Y12, Y0
 	VMAXPD Y11, Y0, Y0
 	VMINPD Y10, Y0, Y0
-	VMOVUPD Y0, windowGroup_val(R12)
-	VMOVUPD Y13, windowGroup_sw(R12)
-	VMOVUPD Y12, windowGroup_swz(R12)
-	VMOVUPD Y11, windowGroup_lo(R12)
-	VMOVUPD Y10, windowGroup_hi(R12)
-	VMOVDQU Y9, windowGroup_n2(R12)
+	VMOVUPD Y0, Group_Val(R12)
+	VMOVUPD Y13, Group_Sw(R12)
+	VMOVUPD Y12, Group_Swz(R12)
+	VMOVUPD Y11, Group_Lo(R12)
+	VMOVUPD Y10, Group_Hi(R12)
+	VMOVDQU Y9, Group_N2(R12)
 	VZEROUPPER
 	RET
