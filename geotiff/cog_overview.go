@@ -1,9 +1,6 @@
 package geotiff
 
-import (
-	"sync"
-	"sync/atomic"
-)
+import "drygrid/internal/pool"
 
 // cogMaxOverviewSide is the longest side of the smallest overview: overviews
 // halve the image until both sides are at most this (GDAL's COG driver stops
@@ -28,37 +25,6 @@ func cogLevelSizes(cols, rows int) [][2]int {
 
 func cogCeilDiv(a, b int) int { return (a + b - 1) / b }
 
-// cogParallel runs fn(i) for i in [0, n) on up to workers goroutines. Each
-// i is handled by exactly one call, so results written to slot i do not
-// depend on the number of workers.
-func cogParallel(n, workers int, fn func(i int)) {
-	if workers > n {
-		workers = n
-	}
-	if workers <= 1 {
-		for i := 0; i < n; i++ {
-			fn(i)
-		}
-		return
-	}
-	var next atomic.Int64
-	var wg sync.WaitGroup
-	for w := 0; w < workers; w++ {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for {
-				i := int(next.Add(1) - 1)
-				if i >= n {
-					return
-				}
-				fn(i)
-			}
-		}()
-	}
-	wg.Wait()
-}
-
 // cogMeanSums are the sums and counts of the valid cells under each pixel
 // of a mean overview (cols x rows). A mean overview's pixel is the mean,
 // in float64 rounded to float32, of the valid full-resolution cells of its
@@ -78,7 +44,7 @@ type cogMeanSums struct {
 func cogMeanLevel1(data []float32, cols, rows int, nodata float32, workers int) cogMeanSums {
 	oc, or := cogCeilDiv(cols, 2), cogCeilDiv(rows, 2)
 	s := cogMeanSums{cols: oc, rows: or, sums: make([]float64, oc*or), counts: make([]int32, oc*or)}
-	cogParallel(or, workers, func(oy int) {
+	pool.Run(or, workers, 1, func(_, oy, _ int) {
 		sums, counts := s.sums[oy*oc:(oy+1)*oc], s.counts[oy*oc:(oy+1)*oc]
 		for y := 2 * oy; y < min(2*oy+2, rows); y++ {
 			cogMeanAddRow(data[y*cols:(y+1)*cols], 2, nodata, sums, counts)
@@ -92,7 +58,7 @@ func cogMeanLevel1(data []float32, cols, rows int, nodata float32, workers int) 
 func (s cogMeanSums) half(workers int) cogMeanSums {
 	oc, or := cogCeilDiv(s.cols, 2), cogCeilDiv(s.rows, 2)
 	h := cogMeanSums{cols: oc, rows: or, sums: make([]float64, oc*or), counts: make([]int32, oc*or)}
-	cogParallel(or, workers, func(oy int) {
+	pool.Run(or, workers, 1, func(_, oy, _ int) {
 		sums, counts := h.sums[oy*oc:(oy+1)*oc], h.counts[oy*oc:(oy+1)*oc]
 		for y := 2 * oy; y < min(2*oy+2, s.rows); y++ {
 			cogMeanAddSums(s.sums[y*s.cols:(y+1)*s.cols], s.counts[y*s.cols:(y+1)*s.cols], sums, counts)
@@ -191,7 +157,7 @@ func cogMeanAddRow(row []float32, f int, nd float32, sums []float64, counts []in
 func cogModeOverview(data []uint8, cols, rows, f int, nodata uint8, workers int) []uint8 {
 	oc, or := cogCeilDiv(cols, f), cogCeilDiv(rows, f)
 	out := make([]uint8, oc*or)
-	cogParallel(or, workers, func(oy int) {
+	pool.Run(or, workers, 1, func(_, oy, _ int) {
 		var counts [256]int32
 		seen := make([]uint8, 0, 256)
 		y0, y1 := oy*f, min((oy+1)*f, rows)

@@ -2,6 +2,7 @@ package geotiff
 
 import (
 	"bytes"
+	"drygrid/internal/pool"
 	"encoding/binary"
 	"fmt"
 	"math"
@@ -195,15 +196,10 @@ func tiffCompressJobs(jobs []tiffTileJob, opt Options, cache *tiffCompressors) e
 	if err != nil {
 		return err
 	}
-	// Each worker takes jobs from a shared counter; cogParallel gives every
-	// index to one call, and the worker's state is picked per goroutine.
-	var stateFor = make(chan *tiffCompressor, len(states))
-	for _, s := range states {
-		stateFor <- s
-	}
-	cogParallel(len(jobs), workers, func(i int) {
-		s := <-stateFor
-		defer func() { stateFor <- s }()
+	// Each worker takes jobs from a shared counter (pool.Run) with the
+	// compressor state of its own number.
+	pool.Run(len(jobs), workers, 1, func(w, i, _ int) {
+		s := states[w]
 		if s.err != nil {
 			return
 		}

@@ -1,10 +1,8 @@
 package interp
 
 import (
+	"drygrid/internal/pool"
 	"math"
-	"runtime"
-	"sync"
-	"sync/atomic"
 )
 
 // Residual is the leave-one-out result of one station.
@@ -62,31 +60,16 @@ func (ip *Interpolator) crossValidate(pts []Point, classify func(z float64) uint
 		rank[i] = int32(r)
 	}
 	res := make([]Residual, n)
-	workers := ip.p.Workers
-	if workers <= 0 {
-		workers = runtime.GOMAXPROCS(0)
-	}
 	const chunk = 64
-	workers = max(1, min(workers, (n+chunk-1)/chunk))
-	var next atomic.Int64
-	var wg sync.WaitGroup
-	for range workers {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			c := newCands(ip.k)
-			for {
-				start := int(next.Add(chunk) - chunk)
-				if start >= n {
-					return
-				}
-				for i := start; i < min(start+chunk, n); i++ {
-					res[i] = ip.leaveOneOut(c, pts[i], rank[i], classify)
-				}
-			}
-		}()
-	}
-	wg.Wait()
+	cands := make([]*cands, pool.Count(n, ip.p.Workers, chunk))
+	pool.Run(n, ip.p.Workers, chunk, func(w, lo, hi int) {
+		if cands[w] == nil {
+			cands[w] = newCands(ip.k)
+		}
+		for i := lo; i < hi; i++ {
+			res[i] = ip.leaveOneOut(cands[w], pts[i], rank[i], classify)
+		}
+	})
 	return summarise(ip.p, res, classify != nil)
 }
 

@@ -3,12 +3,11 @@ package interp
 import (
 	"math"
 	"math/bits"
-	"runtime"
 	"sort"
 	"sync"
-	"sync/atomic"
 
 	"drygrid/grid"
+	"drygrid/internal/pool"
 	"drygrid/interp/internal/lanes"
 )
 
@@ -37,38 +36,29 @@ func (ip *Interpolator) Grid(spec grid.Spec, progress func(rowsDone, rows int)) 
 // after each row as Grid documents.
 func (ip *Interpolator) rows(spec grid.Spec, row0, n int, dst []float32, progress func(rowsDone, rows int)) {
 	colLon, colCos, colSin := rowsColumns(spec)
-	workers := ip.p.Workers
-	if workers <= 0 {
-		workers = runtime.GOMAXPROCS(0)
-	}
-	workers = min(workers, n)
-	var next atomic.Int64
+	works := make([]*rowWork, pool.Count(n, ip.p.Workers, 1))
 	var mu sync.Mutex
 	done := 0
-	var wg sync.WaitGroup
-	for range workers {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			w := ip.getRowWork()
-			defer ip.work.Put(w)
-			for {
-				i := int(next.Add(1) - 1)
-				if i >= n {
-					return
-				}
-				_, lat := spec.Center(0, row0+i)
-				ip.gridRow(w, lat, spec.Res, colLon, colCos, colSin, dst[i*spec.Cols:(i+1)*spec.Cols])
-				if progress != nil {
-					mu.Lock()
-					done++
-					progress(done, n)
-					mu.Unlock()
-				}
-			}
-		}()
+	pool.Run(n, ip.p.Workers, 1, func(wk, i, _ int) {
+		w := works[wk]
+		if w == nil {
+			w = ip.getRowWork()
+			works[wk] = w
+		}
+		_, lat := spec.Center(0, row0+i)
+		ip.gridRow(w, lat, spec.Res, colLon, colCos, colSin, dst[i*spec.Cols:(i+1)*spec.Cols])
+		if progress != nil {
+			mu.Lock()
+			done++
+			progress(done, n)
+			mu.Unlock()
+		}
+	})
+	for _, w := range works {
+		if w != nil {
+			ip.work.Put(w)
+		}
 	}
-	wg.Wait()
 }
 
 // rowWork is one worker's scratch space.

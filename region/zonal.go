@@ -3,10 +3,9 @@ package region
 import (
 	"drygrid/bands"
 	"drygrid/grid"
+	"drygrid/internal/pool"
 	"fmt"
 	"math"
-	"runtime"
-	"sync"
 
 	"github.com/tidwall/rtree"
 )
@@ -57,24 +56,15 @@ func Zonal(bands *grid.Uint8, index *grid.Float32, regions []Region) []ZonalStat
 	})
 	rowArea := s.RowAreasKm2()
 	out := make([]ZonalStats, len(regions))
-	jobs := make(chan int)
-	var wg sync.WaitGroup
-	for range max(1, min(runtime.GOMAXPROCS(0), len(regions))) {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			var cov covWork
-			var buf []CellWeight
-			for i := range jobs {
-				out[i], buf = zonalOne(bands, index, regions[i], reach[i], rowArea, &cov, buf)
-			}
-		}()
+	type scratch struct {
+		cov covWork
+		buf []CellWeight
 	}
-	for i := range regions {
-		jobs <- i
-	}
-	close(jobs)
-	wg.Wait()
+	work := make([]scratch, pool.Count(len(regions), 0, 1))
+	pool.Run(len(regions), 0, 1, func(w, i, _ int) {
+		sc := &work[w]
+		out[i], sc.buf = zonalOne(bands, index, regions[i], reach[i], rowArea, &sc.cov, sc.buf)
+	})
 	return out
 }
 

@@ -1,6 +1,7 @@
 package station
 
 import (
+	"drygrid/internal/pool"
 	"drygrid/spi"
 	"encoding/csv"
 	"fmt"
@@ -298,33 +299,15 @@ func idxComputeAll(sites []idxSite, series [][]idxEntry, year int, opt IndexOpti
 // idxComputeRows fills rows[i] for every station i for which keep (when not
 // nil) is false.
 func idxComputeRows(rows []IndexRow, sites []idxSite, series [][]idxEntry, year int, opt IndexOptions, keep func(i int) bool) {
-	workers := opt.Workers
-	if workers <= 0 {
-		workers = runtime.GOMAXPROCS(0)
-	}
 	const chunk = 256
-	var next atomic.Int64
-	var wg sync.WaitGroup
-	for w := 0; w < workers; w++ {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			var scratch []float64
-			for {
-				lo := int(next.Add(chunk)) - chunk
-				if lo >= len(sites) {
-					return
-				}
-				hi := min(lo+chunk, len(sites))
-				for i := lo; i < hi; i++ {
-					if keep == nil || !keep(i) {
-						rows[i], scratch = idxStationRow(sites[i], series[i], year, opt, scratch)
-					}
-				}
+	scratch := make([][]float64, pool.Count(len(sites), opt.Workers, chunk))
+	pool.Run(len(sites), opt.Workers, chunk, func(w, lo, hi int) {
+		for i := lo; i < hi; i++ {
+			if keep == nil || !keep(i) {
+				rows[i], scratch[w] = idxStationRow(sites[i], series[i], year, opt, scratch[w])
 			}
-		}()
-	}
-	wg.Wait()
+		}
+	})
 }
 
 // idxStationRow computes one station's row; scratch is reused between calls.
