@@ -4,7 +4,6 @@ import (
 	"bytes"
 	"encoding/json"
 	"math"
-	"math/rand/v2"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -16,6 +15,7 @@ import (
 
 	"drygrid/bands"
 	"drygrid/grid"
+	"drygrid/internal/rastertest"
 	"drygrid/internal/reftest"
 	"drygrid/polygon"
 
@@ -23,39 +23,19 @@ import (
 	"github.com/paulmach/orb/planar"
 )
 
-// polyAntimeridianCases are random rasters on grids that cross 180: one
-// whose cell edges meet 180, one (res 0.7) whose column straddles it.
-func polyAntimeridianCases() []polyCase {
-	rng := rand.New(rand.NewPCG(11, 3))
-	specs := []grid.Spec{
-		{West: 170, North: 10, Res: 1, Cols: 20, Rows: 8},
-		{West: 179.2, North: -30, Res: 0.7, Cols: 6, Rows: 5},
-		{West: 179.75, North: 60, Res: 0.25, Cols: 3, Rows: 4},
-	}
-	var out []polyCase
-	for k, s := range specs {
-		r := grid.NewUint8(s, 0)
-		for i := range r.Data {
-			r.Data[i] = uint8(rng.IntN(4))
-		}
-		out = append(out, polyCase{"antimeridian" + strconv.Itoa(k), r})
-	}
-	return out
-}
-
 // TestPolygonizeAntimeridian: RFC 7946 section 3.1.9 asks that a geometry
 // crossing the antimeridian be cut in two with every longitude in
 // [-180, 180]. Areas per code stay count x res^2 and every cell centre,
 // shifted into [-180, 180], lies in the multipolygon of its own code.
 func TestPolygonizeAntimeridian(t *testing.T) {
-	for _, c := range polyAntimeridianCases() {
-		sp := c.r.Spec
+	for _, c := range rastertest.AntimeridianCases() {
+		sp := c.R.Spec
 		if !sp.CrossesAntimeridian() {
-			t.Fatalf("%s: grid %s should cross 180", c.name, sp)
+			t.Fatalf("%s: grid %s should cross 180", c.Name, sp)
 		}
-		polys := polygon.PolygonizeRFC7946(c.r)
+		polys := polygon.PolygonizeRFC7946(c.R)
 		count := map[uint8]int{}
-		for _, v := range c.r.Data {
+		for _, v := range c.R.Data {
 			if v != 0 {
 				count[v]++
 			}
@@ -67,7 +47,7 @@ func TestPolygonizeAntimeridian(t *testing.T) {
 				for _, ring := range p {
 					for _, q := range ring {
 						if q[0] < -180 || q[0] > 180 {
-							t.Fatalf("%s: longitude %v outside [-180, 180]", c.name, q[0])
+							t.Fatalf("%s: longitude %v outside [-180, 180]", c.Name, q[0])
 						}
 						sawEast = sawEast || q[0] < 0
 					}
@@ -76,11 +56,11 @@ func TestPolygonizeAntimeridian(t *testing.T) {
 			}
 			want := float64(count[code]) * sp.Res * sp.Res
 			if math.Abs(area-want) > 1e-9*want {
-				t.Errorf("%s: code %d area %.12g, want %.12g", c.name, code, area, want)
+				t.Errorf("%s: code %d area %.12g, want %.12g", c.Name, code, area, want)
 			}
 		}
 		if !sawEast {
-			t.Errorf("%s: no part east of 180 (shifted to negative longitudes)", c.name)
+			t.Errorf("%s: no part east of 180 (shifted to negative longitudes)", c.Name)
 		}
 		for row := 0; row < sp.Rows; row++ {
 			for col := 0; col < sp.Cols; col++ {
@@ -89,10 +69,10 @@ func TestPolygonizeAntimeridian(t *testing.T) {
 					continue // a cell cut by 180: its centre may lie on the cut
 				}
 				lon = gjLon(lon)
-				v := c.r.Data[sp.Index(col, row)]
+				v := c.R.Data[sp.Index(col, row)]
 				for code, mp := range polys {
 					if in := planar.MultiPolygonContains(mp, orb.Point{lon, lat}); in != (code == v) {
-						t.Errorf("%s: centre of (%d,%d) code %d: in code %d = %v", c.name, col, row, v, code, in)
+						t.Errorf("%s: centre of (%d,%d) code %d: in code %d = %v", c.Name, col, row, v, code, in)
 					}
 				}
 			}
@@ -271,13 +251,13 @@ func ogrFeatureCount(t *testing.T, path string) (int, string) {
 // layer, finds one MultiPolygon feature per band present, and reports the
 // bbox as the layer extent.
 func TestBandsGeoJSONOgrinfo(t *testing.T) {
-	c := polyRandomCases(5, 8)[7] // smooth blobs
+	c := rastertest.RandomCases(5, 8)[7] // smooth blobs
 	path := filepath.Join(t.TempDir(), "bands.geojson")
-	if err := gjWriteTestFile(path, c.r); err != nil {
+	if err := gjWriteTestFile(path, c.R); err != nil {
 		t.Fatal(err)
 	}
 	n, out := ogrFeatureCount(t, path)
-	if want := len(polygon.Polygonize(c.r)); n != want {
+	if want := len(polygon.Polygonize(c.R)); n != want {
 		t.Errorf("ogrinfo feature count %d, want %d bands present", n, want)
 	}
 	if !strings.Contains(out, "Geometry: Multi Polygon") {
@@ -392,7 +372,7 @@ func TestBandsGeoJSONAntimeridianBBox(t *testing.T) {
 // any core count; map iteration order is the risk, so write each layer
 // (exact and simplified, crossing 180 or not) under GOMAXPROCS 1 and 2.
 func TestBandsGeoJSONDeterministic(t *testing.T) {
-	cases := append(polyAntimeridianCases(), polyCase{"smooth", polySmooth(4, 50, 40, 0.1, true)})
+	cases := append(rastertest.AntimeridianCases(), rastertest.Case{Name: "smooth", R: rastertest.Smooth(4, 50, 40, 0.1, true)})
 	defer runtime.GOMAXPROCS(runtime.GOMAXPROCS(0))
 	for _, c := range cases {
 		for _, km := range []float64{0, 25} {
@@ -400,13 +380,13 @@ func TestBandsGeoJSONDeterministic(t *testing.T) {
 			for k := range out {
 				runtime.GOMAXPROCS(k + 1)
 				var b bytes.Buffer
-				if err := EncodeBands(&b, c.r, bands.Default(), Options{SimplifyKm: km, Params: map[string]any{"b": 1, "a": 2}}); err != nil {
+				if err := EncodeBands(&b, c.R, bands.Default(), Options{SimplifyKm: km, Params: map[string]any{"b": 1, "a": 2}}); err != nil {
 					t.Fatal(err)
 				}
 				out[k] = b.Bytes()
 			}
 			if !bytes.Equal(out[0], out[1]) {
-				t.Errorf("%s km %g: output differs between GOMAXPROCS 1 and 2", c.name, km)
+				t.Errorf("%s km %g: output differs between GOMAXPROCS 1 and 2", c.Name, km)
 			}
 		}
 	}

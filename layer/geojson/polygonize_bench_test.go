@@ -5,61 +5,20 @@ import (
 	"encoding/json"
 	"io"
 	"math"
-	"math/rand/v2"
 	"os"
 	"path/filepath"
 	"testing"
 
 	"drygrid/bands"
-	"drygrid/grid"
-	"drygrid/polygon"
+	"drygrid/internal/rastertest"
 	"drygrid/publish"
 )
-
-// polyBenchRaster is a deterministic, realistic band raster on the global
-// 0.1 deg grid (3600 x 1800): a smooth z field (sines plus Gaussian blobs
-// plus mild noise) classified with bands.Default(), and about 30% no data
-// (where a second smooth field is low, like areas without stations).
-func polyBenchRaster(tb testing.TB) *grid.Uint8 {
-	sp, err := grid.Global(0.1)
-	if err != nil {
-		tb.Fatal(err)
-	}
-	rng := rand.New(rand.NewPCG(2026, 12))
-	type blob struct{ x, y, s, a float64 }
-	blobs := make([]blob, 40)
-	for i := range blobs {
-		blobs[i] = blob{rng.Float64() * 360, rng.Float64()*180 - 90, 3 + rng.Float64()*12, rng.NormFloat64() * 1.5}
-	}
-	s := bands.Default()
-	r := grid.NewUint8(sp, 0)
-	for row := 0; row < sp.Rows; row++ {
-		for col := 0; col < sp.Cols; col++ {
-			lon, lat := sp.Center(col, row)
-			x, y := (lon+180)*math.Pi/180, lat*math.Pi/180
-			mask := math.Sin(2*x+1)*math.Cos(3*y) + 0.6*math.Sin(5*x+3*y)
-			if mask < -0.38 {
-				continue // no data
-			}
-			z := 0.8*math.Sin(3*x)*math.Cos(2*y) + 0.5*math.Sin(7*x+5*y+0.5) + 0.3*math.Cos(11*x-9*y)
-			for _, b := range blobs {
-				dx, dy := lon+180-b.x, lat-b.y
-				if d2 := dx*dx + dy*dy; d2 < 9*b.s*b.s {
-					z += b.a * math.Exp(-d2/(2*b.s*b.s))
-				}
-			}
-			z += 0.08 * rng.NormFloat64()
-			r.Data[sp.Index(col, row)] = s.Classify(z)
-		}
-	}
-	return r
-}
 
 // BenchmarkPolygonizeGlobal polygonizes the global 0.1 deg band raster and
 // writes the band layer to a file, like gdal_polygonize.py -f GeoJSON: the
 // DESIGN.md target is >= 3x faster than that on the same raster.
 func BenchmarkPolygonizeGlobal(b *testing.B) {
-	r := polyBenchRaster(b)
+	r := rastertest.BenchRaster(b)
 	s := bands.Default()
 	path := filepath.Join(b.TempDir(), "bands.geojson")
 	b.ResetTimer()
@@ -75,22 +34,13 @@ func BenchmarkPolygonizeGlobal(b *testing.B) {
 // BenchmarkWriteBandsGeoJSONDiscard is polygonizing plus encoding, without
 // the file system.
 func BenchmarkWriteBandsGeoJSONDiscard(b *testing.B) {
-	r := polyBenchRaster(b)
+	r := rastertest.BenchRaster(b)
 	s := bands.Default()
 	b.ResetTimer()
 	for b.Loop() {
 		if err := EncodeBands(io.Discard, r, s, Options{}); err != nil {
 			b.Fatal(err)
 		}
-	}
-}
-
-// BenchmarkPolygonizeOnly is the tracing alone on the same raster.
-func BenchmarkPolygonizeOnly(b *testing.B) {
-	r := polyBenchRaster(b)
-	b.ResetTimer()
-	for b.Loop() {
-		polygon.Polygonize(r)
 	}
 }
 
@@ -110,7 +60,7 @@ func TestWritePolyBenchRaster(t *testing.T) {
 	if !keep {
 		dir = t.TempDir()
 	}
-	r := polyBenchRaster(t)
+	r := rastertest.BenchRaster(t)
 	if err := os.WriteFile(filepath.Join(dir, "bands.u8"), r.Data, 0o644); err != nil {
 		t.Fatal(err)
 	}
@@ -176,7 +126,7 @@ func TestWritePolyBenchRaster(t *testing.T) {
 // BenchmarkSimplifyGlobal is the band layer of the global raster with
 // --simplify-km 10.
 func BenchmarkSimplifyGlobal(b *testing.B) {
-	r := polyBenchRaster(b)
+	r := rastertest.BenchRaster(b)
 	s := bands.Default()
 	b.ResetTimer()
 	for b.Loop() {

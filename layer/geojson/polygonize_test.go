@@ -9,86 +9,12 @@ import (
 
 	"drygrid/bands"
 	"drygrid/grid"
+	"drygrid/internal/rastertest"
 	"drygrid/internal/reftest"
 	"drygrid/polygon"
 
 	"github.com/paulmach/orb/planar"
 )
-
-// TestPolygonizeProperties runs the Go-side laws (polyCheck) over 800 random
-// rasters of every kind the issue names.
-func TestPolygonizeProperties(t *testing.T) {
-	for _, c := range polyRandomCases(1, 800) {
-		polyCheck(t, c.name, c.r, polygon.Polygonize(c.r))
-	}
-}
-
-func polyRaster(cols int, res float64, cells ...uint8) *grid.Uint8 {
-	sp := grid.Spec{West: 0, North: float64(len(cells)/cols) * res, Res: res, Cols: cols, Rows: len(cells) / cols}
-	r := grid.NewUint8(sp, 0)
-	copy(r.Data, cells)
-	return r
-}
-
-// TestPolygonizeCornerRule pins the documented corner (saddle) rule on
-// hand-drawn rasters. The expected ring counts follow from the rule itself
-// (cells of a code are 4-connected; no ring visits a vertex twice) and are
-// counted by hand; OGC Simple Features Access 1.2.1 (06-103r4), the
-// Polygon assertions (section number from memory: 6.1.11.1), lets rings of a
-// polygon touch only at single points, which is what these shapes exercise (shapely validity is checked in TestPolygonizeShapely).
-func TestPolygonizeCornerRule(t *testing.T) {
-	tests := []struct {
-		name  string
-		r     *grid.Uint8
-		code  uint8
-		rings [][]int // per polygon: number of positions of each ring (closing one included)
-	}{
-		{"diagonal pair: two squares touching at a point", polyRaster(2, 1, 1, 0, 0, 1), 1, [][]int{{5}, {5}}},
-		{"checkerboard 2x2 of two codes, code 2", polyRaster(2, 1, 1, 2, 2, 1), 2, [][]int{{5}, {5}}},
-		// a C whose tips touch diagonally: the pinched cell is a hole touching the shell at a point
-		{"hole touching its shell at a corner", polyRaster(3, 1,
-			1, 1, 1,
-			1, 0, 1,
-			1, 1, 0), 1, [][]int{{7, 5}}},
-		// two holes touching diagonally inside one shell: two holes, not one self-touching ring
-		{"two holes touching at a corner", polyRaster(4, 1,
-			1, 1, 1, 1,
-			1, 0, 1, 1,
-			1, 1, 0, 1,
-			1, 1, 1, 1), 1, [][]int{{5, 5, 5}}},
-		{"holes in holes: code 1 ring", polyRaster(5, 1,
-			1, 1, 1, 1, 1,
-			1, 2, 2, 2, 1,
-			1, 2, 3, 2, 1,
-			1, 2, 2, 2, 1,
-			1, 1, 1, 1, 1), 1, [][]int{{5, 5}}},
-		{"holes in holes: code 2 ring", polyRaster(5, 1,
-			1, 1, 1, 1, 1,
-			1, 2, 2, 2, 1,
-			1, 2, 3, 2, 1,
-			1, 2, 2, 2, 1,
-			1, 1, 1, 1, 1), 2, [][]int{{5, 5}}},
-		{"L shape drops collinear vertices", polyRaster(3, 1,
-			1, 0, 0,
-			1, 0, 0,
-			1, 1, 1), 1, [][]int{{7}}},
-	}
-	for _, tc := range tests {
-		mp := polygon.Polygonize(tc.r)[tc.code]
-		var got [][]int
-		for _, p := range mp {
-			var g []int
-			for _, ring := range p {
-				g = append(g, len(ring))
-			}
-			got = append(got, g)
-		}
-		if fmt.Sprint(got) != fmt.Sprint(tc.rings) {
-			t.Errorf("%s: ring sizes %v, want %v; geometry %v", tc.name, got, tc.rings, mp)
-		}
-		polyCheck(t, tc.name, tc.r, polygon.Polygonize(tc.r))
-	}
-}
 
 // polyFC is a band raster's GeoJSON as written, with what the reference
 // script needs to judge it.
@@ -137,14 +63,14 @@ func sumCounts(m map[string]int) int {
 func TestPolygonizeShapely(t *testing.T) {
 	py := reftest.Python(t, "shapely", "shapely.validation")
 	var cases []polyFC
-	for _, c := range polyRandomCases(2, 300) {
-		if !hasValidCodes(c.r) {
+	for _, c := range rastertest.RandomCases(2, 300) {
+		if !hasValidCodes(c.R) {
 			continue
 		}
-		cases = append(cases, polyFCOf(t, c.name, c.r, Options{}))
+		cases = append(cases, polyFCOf(t, c.Name, c.R, Options{}))
 	}
-	for _, c := range polyAntimeridianCases() {
-		cases = append(cases, polyFCOf(t, c.name, c.r, Options{}))
+	for _, c := range rastertest.AntimeridianCases() {
+		cases = append(cases, polyFCOf(t, c.Name, c.R, Options{}))
 	}
 	polyRunShapely(t, py, cases, len(cases))
 }
@@ -196,15 +122,15 @@ func TestPolygonizeGDAL(t *testing.T) {
 		NoData int     `json:"nodata"`
 		Data   []int   `json:"data"`
 	}
-	cases := polyRandomCases(3, 200)
+	cases := rastertest.RandomCases(3, 200)
 	var in []rasterIn
 	for _, c := range cases {
-		d := make([]int, len(c.r.Data))
-		for i, v := range c.r.Data {
+		d := make([]int, len(c.R.Data))
+		for i, v := range c.R.Data {
 			d[i] = int(v)
 		}
-		s := c.r.Spec
-		in = append(in, rasterIn{c.name, s.Cols, s.Rows, s.West, s.North, s.Res, int(c.r.NoData), d})
+		s := c.R.Spec
+		in = append(in, rasterIn{c.Name, s.Cols, s.Rows, s.West, s.North, s.Res, int(c.R.NoData), d})
 	}
 	b, _ := json.Marshal(in)
 	out := reftest.RunPython(t, py, "../../testdata/geojson_ref.py", b, "gdal")
@@ -216,14 +142,14 @@ func TestPolygonizeGDAL(t *testing.T) {
 		t.Fatalf("reference output (%v): %d results for %d rasters", err, len(ref), len(cases))
 	}
 	for k, c := range cases {
-		polys := polygon.Polygonize(c.r)
+		polys := polygon.Polygonize(c.R)
 		if len(polys) != len(ref[k]) {
-			t.Errorf("%s: %d codes polygonized, GDAL %d", c.name, len(polys), len(ref[k]))
+			t.Errorf("%s: %d codes polygonized, GDAL %d", c.Name, len(polys), len(ref[k]))
 		}
 		for code, mp := range polys {
 			g, ok := ref[k][fmt.Sprint(code)]
 			if !ok {
-				t.Errorf("%s: code %d missing in GDAL's result", c.name, code)
+				t.Errorf("%s: code %d missing in GDAL's result", c.Name, code)
 				continue
 			}
 			var area float64
@@ -231,34 +157,8 @@ func TestPolygonizeGDAL(t *testing.T) {
 				area += planar.Area(p) // shoelace about the first vertex, as OGR does
 			}
 			if len(mp) != g.N || math.Abs(area-g.Area) > 1e-9*g.Area {
-				t.Errorf("%s: code %d: %d polygons of %.12g deg2, GDAL %d of %.12g", c.name, code, len(mp), area, g.N, g.Area)
+				t.Errorf("%s: code %d: %d polygons of %.12g deg2, GDAL %d of %.12g", c.Name, code, len(mp), area, g.N, g.Area)
 			}
 		}
 	}
-}
-
-// FuzzPolygonize polygonizes arbitrary small rasters (the first byte picks
-// the width) and checks the laws of polyCheck: area = count x res^2,
-// orientations, simple rings, point in polygon, one polygon per component.
-func FuzzPolygonize(f *testing.F) {
-	f.Add([]byte{2, 1, 0, 0, 1})
-	f.Add([]byte{3, 1, 1, 1, 1, 0, 1, 1, 1, 0})
-	f.Add([]byte{4, 1, 1, 1, 1, 1, 0, 1, 1, 1, 1, 0, 1, 1, 1, 1, 1})
-	f.Add([]byte{1, 5})
-	f.Fuzz(func(t *testing.T, b []byte) {
-		if len(b) < 2 || len(b) > 400 {
-			return
-		}
-		cols := 1 + int(b[0])%20
-		cells := b[1:]
-		rows := len(cells) / cols
-		if rows == 0 {
-			return
-		}
-		r := grid.NewUint8(grid.Spec{West: -10, North: 5, Res: 0.25, Cols: cols, Rows: rows}, 0)
-		for i := range r.Data {
-			r.Data[i] = cells[i] % 5 // few codes, so that regions and saddles form
-		}
-		polyCheck(t, "fuzz", r, polygon.Polygonize(r))
-	})
 }
