@@ -9,6 +9,7 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+	"time"
 
 	"drygrid/bands"
 	"drygrid/grid"
@@ -135,7 +136,8 @@ func tiffNewImage(s grid.Spec, opt Options) *tiffImage {
 	return &tiffImage{
 		predictor: 1,
 		software:  opt.Software,
-		metadata:  tiffMetadataXML(opt.Metadata),
+		datetime:  tiffDateTime(opt.DateTime),
+		metadata:  tiffMetadataXML(opt.Metadata, opt.Description, opt.Units),
 		west:      s.West,
 		north:     s.North,
 		res:       s.Res,
@@ -170,10 +172,19 @@ func tiffColorMap(s *bands.Scheme) []uint16 {
 	return cm
 }
 
-// tiffMetadataXML is the GDAL_METADATA tag text for dataset items (GDAL's
-// GTiff driver documentation, "Metadata"), keys sorted for stable bytes.
-func tiffMetadataXML(items map[string]string) string {
-	if len(items) == 0 {
+// tiffDateTime is the TIFFTAG_DATETIME text of t, "" for the zero time.
+func tiffDateTime(t time.Time) string {
+	if t.IsZero() {
+		return ""
+	}
+	return t.Format("2006:01:02 15:04:05")
+}
+
+// tiffMetadataXML is the GDAL_METADATA tag text for dataset items and the
+// band's description and unit (GDAL's GTiff driver documentation,
+// "Metadata"), keys sorted for stable bytes.
+func tiffMetadataXML(items map[string]string, desc, units string) string {
+	if len(items) == 0 && desc == "" && units == "" {
 		return ""
 	}
 	keys := make([]string, 0, len(items))
@@ -185,6 +196,12 @@ func tiffMetadataXML(items map[string]string) string {
 	b.WriteString("<GDALMetadata>\n")
 	for _, k := range keys {
 		fmt.Fprintf(&b, "  <Item name=\"%s\">%s</Item>\n", tiffXMLEscape(k), tiffXMLEscape(items[k]))
+	}
+	if desc != "" {
+		fmt.Fprintf(&b, "  <Item name=\"DESCRIPTION\" sample=\"0\" role=\"description\">%s</Item>\n", tiffXMLEscape(desc))
+	}
+	if units != "" {
+		fmt.Fprintf(&b, "  <Item name=\"UNITTYPE\" sample=\"0\" role=\"unittype\">%s</Item>\n", tiffXMLEscape(units))
 	}
 	b.WriteString("</GDALMetadata>")
 	return b.String()

@@ -41,6 +41,7 @@ type tiffImage struct {
 	colormap  []uint16 // 768 values for a palette image, else nil
 	nodata    string   // GDAL_NODATA text
 	software  string
+	datetime  string // TIFFTAG_DATETIME text, or ""
 	metadata  string // GDAL_METADATA XML, or ""
 	west      float64
 	north     float64
@@ -158,6 +159,9 @@ func tiffEntries(img *tiffImage, li int, t int, big bool) (es []tiffEntry, offs,
 		tiffShort(284, 1))
 	if li == 0 && img.software != "" {
 		es = append(es, tiffASCIIEntry(305, img.software))
+	}
+	if li == 0 && img.datetime != "" {
+		es = append(es, tiffASCIIEntry(306, img.datetime))
 	}
 	if img.predictor != 1 {
 		es = append(es, tiffShort(317, uint16(img.predictor)))

@@ -3,6 +3,7 @@ package geotiff
 import (
 	"fmt"
 	"runtime"
+	"time"
 
 	"github.com/klauspost/compress/zlib"
 )
@@ -28,6 +29,15 @@ type Options struct {
 	BigTIFF int
 	// Software is written as TIFFTAG_SOFTWARE (tag 305) when not empty.
 	Software string
+	// DateTime, when not zero, is written as TIFFTAG_DATETIME (tag 306,
+	// "YYYY:MM:DD HH:MM:SS", TIFF 6.0 section 8), in the time's own zone:
+	// the date the raster describes.
+	DateTime time.Time
+	// Description and Units, when not empty, are the band's description
+	// and unit, written as GDAL_METADATA band items (roles description and
+	// unittype), where GDAL reads them as the band description and unit
+	// type.
+	Description, Units string
 	// SpillDir, when not empty, is where the row encoders
 	// (EncodeIndexRows, EncodeIndexBandsRows) keep the compressed
 	// tiles beyond the first 32 MiB until the header can be written: a
