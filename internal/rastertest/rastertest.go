@@ -1,8 +1,3 @@
-// Package rastertest holds test support for the band polygons: band
-// rasters of every kind the tracer must handle (random noise,
-// checkerboards, single cells, holes in holes, no-data islands, one-row
-// and one-column grids, smooth fields) and the laws their polygons obey
-// (Check, PlanarCheck). Only tests import it.
 package rastertest
 
 import (
