@@ -264,7 +264,8 @@ func TestTIFFChooseBig(t *testing.T) {
 }
 
 // TestTIFFDeterministic: the bytes do not depend on the number of workers
-// (team rule: byte-identical output for any core count).
+// (output never depends on the number of cores: docs/design.md, "Command
+// line").
 func TestTIFFDeterministic(t *testing.T) {
 	s := bands.Default()
 	f := tiffTestField(tiffCOGSpec)

@@ -31,9 +31,9 @@ func tiffGlobalField(b testing.TB) *grid.Float32 {
 
 // BenchmarkEncodeIndexTIFFGlobal writes the COG of the global 0.1 deg index
 // raster (3600 x 1800 = 6.48 M cells, ~30 % no data) with the default
-// options (DESIGN.md target: no slower than GDAL's COG driver, size within
-// 10 %). The sub-benchmarks give the DEFLATE levels, for the choice of
-// DefaultLevel.
+// options (the target of docs/design.md, "Performance targets": no slower
+// than GDAL's COG driver, size within 10 %). The sub-benchmarks give the
+// DEFLATE levels, for the choice of DefaultLevel.
 func BenchmarkEncodeIndexTIFFGlobal(b *testing.B) {
 	r := tiffGlobalField(b)
 	for _, level := range []int{0, 1, 2, 3, 4, 6, 9} {

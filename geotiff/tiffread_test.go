@@ -186,8 +186,9 @@ func tiffrTestRasters() (*grid.Uint8, *grid.Float32) {
 	return b, f
 }
 
-// TestReadTIFFTeamWriter: the team's own GeoTIFF writer (export/geotiff.go,
-// tiled, DEFLATE, predictors 2 and 3, COG overviews) round-trips exactly;
+// TestReadTIFFTeamWriter: drygrid's own GeoTIFF writer (EncodeIndex and
+// EncodeBands: tiled, DEFLATE, predictors 2 and 3, COG overviews)
+// round-trips exactly;
 // its conformance is checked against GDAL in geotiff_test.go.
 func TestReadTIFFTeamWriter(t *testing.T) {
 	b, f := tiffrTestRasters()

@@ -22,7 +22,7 @@ import (
 )
 
 // Header is the history CSV header: date, then the regions.csv
-// columns (RegionsHeader).
+// columns (regions.Header).
 func Header(s *bands.Scheme) []string {
 	return append([]string{"date"}, regions.Header(s)...)
 }

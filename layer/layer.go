@@ -1,10 +1,3 @@
-// Package layer holds what every layer encoder shares: the caution that
-// each human-facing output carries and the label of cells without an
-// estimate. The encoders themselves are its subpackages: geojson (band
-// polygons and station points, RFC 7946), picture (map.png), page (the
-// self-contained map.html), chart (the area-in-drought history picture) and
-// regions (regions.csv and regions.json). Each is a plain encoder,
-// Encode(w io.Writer, in, opt) error, with a Write helper beside it.
 package layer
 
 // Caution is the caution that every human-facing output carries when the

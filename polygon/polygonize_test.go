@@ -8,8 +8,10 @@ import (
 	"testing"
 )
 
-// TestPolygonizeProperties runs the Go-side laws (rastertest.Check) over 800 random
-// rasters of every kind the issue names.
+// TestPolygonizeProperties runs the Go-side laws (rastertest.Check) over 800
+// random rasters of every kind rastertest.RandomCases makes (noise,
+// checkerboards, single cells, holes in holes, no-data islands, one-row and
+// one-column grids, smooth blobs).
 func TestPolygonizeProperties(t *testing.T) {
 	for _, c := range rastertest.RandomCases(1, 800) {
 		rastertest.Check(t, c.Name, c.R, polygon.Polygonize(c.R))

@@ -1,5 +1,5 @@
 #!/usr/bin/env python3
-"""Reference reader for drygrid's GeoTIFF writer (export/geotiff*_test.go).
+"""Reference reader for drygrid's GeoTIFF writer (geotiff/*_test.go).
 
 Reads a GeoTIFF with GDAL (python3-gdal, Debian's GDAL 3.6) and reports, as
 JSON on stdout, what GDAL sees: driver, size, data type, block size, CRS

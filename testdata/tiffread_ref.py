@@ -1,5 +1,5 @@
 #!/usr/bin/python3
-"""GDAL 3.6 (python3-gdal) writes the GeoTIFFs that export/tiffread_test.go
+"""GDAL 3.6 (python3-gdal) writes the GeoTIFFs that geotiff/tiffread_test.go
 reads, and reads them back itself as the reference.
 
 stdin: JSON list of cases

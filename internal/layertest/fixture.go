@@ -1,6 +1,3 @@
-// Package layertest holds test support for the layer encoders: an invented
-// scenario (two fictitious islands, no real place or data) and helpers that
-// keep files for a person to look at. Only tests import it.
 package layertest
 
 import (

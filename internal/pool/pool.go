@@ -1,9 +1,3 @@
-// Package pool is the project's one worker pool: it spreads the indices
-// 0..n-1 over a few goroutines in chunks taken from a shared counter, and
-// tells each call which worker runs it, so that a caller can keep scratch
-// space per worker. Results go into slots by index, so what a caller
-// computes does not depend on the number of workers or on the order in
-// which chunks are taken.
 package pool
 
 import (

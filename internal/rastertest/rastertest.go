@@ -1,8 +1,3 @@
-// Package rastertest holds test support for the band polygons: band
-// rasters of every kind the tracer must handle (random noise,
-// checkerboards, single cells, holes in holes, no-data islands, one-row
-// and one-column grids, smooth fields) and the laws their polygons obey
-// (Check, PlanarCheck). Only tests import it.
 package rastertest
 
 import (
@@ -36,8 +31,8 @@ func NewRaster(rng *rand.Rand, cols, rows int) *grid.Uint8 {
 	return grid.NewUint8(grid.Spec{West: west, North: north, Res: res, Cols: cols, Rows: rows}, 0)
 }
 
-// RandomCases builds n deterministic rasters of every kind the issue
-// names: random sizes and noise, checkerboards, single cells, holes in
+// RandomCases builds n deterministic rasters of every kind the tracer must
+// handle: random sizes and noise, checkerboards, single cells, holes in
 // holes, no-data islands, one-row and one-column grids, smooth blobs.
 func RandomCases(seed uint64, n int) []Case {
 	rng := rand.New(rand.NewPCG(seed, 7))
@@ -143,7 +138,8 @@ func Components(r *grid.Uint8) map[uint8]int {
 
 // Check is the Go-side law check of one polygonized raster:
 //   - every ring is closed, has >= 4 positions, never visits a position
-//     twice and has no collinear vertex (the issue's "drop collinear");
+//     twice and has no collinear vertex (Polygonize drops collinear
+//     vertices);
 //   - exterior rings are counter-clockwise and holes clockwise (RFC 7946
 //     section 3.1.6), by the sign of orb/planar.Area;
 //   - per code, the planar area equals cell count x res^2 (common practice:

@@ -14,20 +14,21 @@ import (
 )
 
 // Caution is the caution text written when Options.Caution is
-// empty: every human-facing output says what the maps are (team rule).
+// empty: every human-facing output says what the maps are (docs/design.md,
+// "The job").
 const Caution = "Interpolated estimates from a station network, not official drought declarations. " +
 	"Defer to the national meteorological or hydrological service and to local rules."
 
 // Options controls the GeoJSON layers.
 type Options struct {
-	SimplifyKm float64        // 0 = off (exact cell edges); see PolygonizeSimplified
+	SimplifyKm float64        // 0 = off (exact cell edges); see polygon.PolygonizeSimplified
 	Caution    string         // top-level foreign member text (RFC 7946 sec 6.1); empty = Caution
 	Params     map[string]any // parameters used (power, neighbors, ...), a foreign member
 }
 
 // EncodeBands writes the band layer (RFC 7946): a FeatureCollection with
 // one Feature per band present in r, in scheme order, whose geometry is the
-// dissolved MultiPolygon of PolygonizeRFC7946 (exterior rings
+// dissolved MultiPolygon of polygon.PolygonizeRFC7946 (exterior rings
 // counter-clockwise, holes clockwise, [lon, lat], split at the antimeridian,
 // polygon.GeoJSONDecimals decimals, no crs member) and whose properties are code,
 // key, label, color, drought and area_km2 (the cells' areas on the WGS84

@@ -81,7 +81,7 @@ func TestPolygonizeAntimeridian(t *testing.T) {
 }
 
 // TestGeoJSONDecimals: a cell edge is West + k*Res, so the decimals of Res,
-// West and North suffice (decimal arithmetic, the issue's examples). A
+// West and North suffice (decimal arithmetic, worked by hand). A
 // resolution with no short decimal form (1/12) gets drygrid's cap of 9
 // decimals: our own rule (1e-9 deg is about 0.1 mm on the ground), not a
 // standard's.
@@ -103,7 +103,8 @@ var gjNumber = regexp.MustCompile(`-?\d+(\.\d+)?`)
 
 // TestWriteBandsGeoJSONFormat checks the text against RFC 7946: a
 // FeatureCollection with bbox (section 5), no crs member (section 4), the
-// foreign member (section 6.1), the properties of DESIGN.md, and coordinates
+// foreign member (section 6.1), the properties of docs/design.md ("Formats
+// written": code, key, label, color, drought, area_km2), and coordinates
 // with no more decimals than the grid needs and no float noise
 // (0.30000000000000004).
 func TestWriteBandsGeoJSONFormat(t *testing.T) {
@@ -183,7 +184,7 @@ func equalFloats(a, b []float64) bool {
 
 // TestWriteBandsGeoJSONEarthArea: one band over a global 1-degree grid has
 // area_km2 = the WGS84 ellipsoid's surface area, 510,065,621.7 km^2 (the
-// published constant DESIGN.md "Checked against" lists; to 0.1 km^2).
+// published constant docs/design.md, "Checked against", lists; to 0.1 km^2).
 func TestWriteBandsGeoJSONEarthArea(t *testing.T) {
 	sp, _ := grid.Global(1)
 	r := grid.NewUint8(sp, 0)
@@ -275,7 +276,8 @@ func gjWriteTestFile(path string, r *grid.Uint8) error {
 }
 
 // TestStationsGeoJSON checks the station layer: a Point per station with the
-// properties of DESIGN.md, null z/code/key where absent (RFC 8259 null),
+// properties of docs/design.md (id, value, z, code, key, in_grid), null
+// z/code/key where absent (RFC 8259 null),
 // longitudes brought into [-180, 180] (RFC 7946 section 3.1.9), and GDAL's
 // ogrinfo reading every feature.
 func TestStationsGeoJSON(t *testing.T) {
@@ -368,8 +370,9 @@ func TestBandsGeoJSONAntimeridianBBox(t *testing.T) {
 	}
 }
 
-// TestBandsGeoJSONDeterministic: the team rule asks byte-identical output for
-// any core count; map iteration order is the risk, so write each layer
+// TestBandsGeoJSONDeterministic: output never depends on the number of cores
+// (docs/design.md, "Command line"), so the bytes must be the same for any
+// core count; map iteration order is the risk, so write each layer
 // (exact and simplified, crossing 180 or not) under GOMAXPROCS 1 and 2.
 func TestBandsGeoJSONDeterministic(t *testing.T) {
 	cases := append(rastertest.AntimeridianCases(), rastertest.Case{Name: "smooth", R: rastertest.Smooth(4, 50, 40, 0.1, true)})

@@ -16,7 +16,8 @@ import (
 
 // BenchmarkPolygonizeGlobal polygonizes the global 0.1 deg band raster and
 // writes the band layer to a file, like gdal_polygonize.py -f GeoJSON: the
-// DESIGN.md target is >= 3x faster than that on the same raster.
+// target of docs/design.md, "Performance targets", is >= 3x faster than that
+// on the same raster.
 func BenchmarkPolygonizeGlobal(b *testing.B) {
 	r := rastertest.BenchRaster(b)
 	s := bands.Default()

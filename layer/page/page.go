@@ -35,7 +35,7 @@ type Input struct {
 	Title, Subtitle string
 	Caution         string // empty gives layer.Caution
 	Scheme          *bands.Scheme
-	// RFC 7946 documents from the team's writers; nil or empty leaves the
+	// RFC 7946 documents from drygrid's writers; nil or empty leaves the
 	// layer out. Bands: properties code, key, label, color, drought,
 	// area_km2. Stations: id, value, z, code, key, in_grid.
 	BandsGeoJSON, StationsGeoJSON, RegionsGeoJSON []byte

@@ -55,7 +55,7 @@ func pageBodyAttrs(t *testing.T, dom string) map[string]string {
 }
 
 // TestPageInChromium opens map.html from disk in headless Chromium (Debian's
-// chromium package, the outside reference) and checks, from the DOM
+// chromium package, the page's outside reference) and checks, from the DOM
 // Chromium dumps after running the page: the script rendered every layer
 // with no error; no Content-Security-Policy violation and no resource load
 // happened (Resource Timing, W3C); all nine legend labels are laid out; a

@@ -111,7 +111,7 @@ func TestPageContent(t *testing.T) {
 	if !strings.Contains(page, "<h1>Rain &lt;b&gt;&amp;&lt;/b&gt; &#34;drought&#34;</h1>") {
 		t.Error("title not escaped as text")
 	}
-	want := map[string]string{ // DESIGN.md's table; ranges from its z-range column
+	want := map[string]string{ // docs/design.md's "Default bands" table; ranges from its z-range column
 		"Parched": "z ≤ -2.0", "Very dry": "-2.0 &lt; z ≤ -1.5", "Dry": "-1.5 &lt; z ≤ -1.0", "Drying": "-1.0 &lt; z ≤ -0.5",
 		"Near normal": "-0.5 &lt; z &lt; 0.5", "Moist": "0.5 ≤ z &lt; 1.0", "Wet": "1.0 ≤ z &lt; 1.5", "Very wet": "1.5 ≤ z &lt; 2.0", "Soaked": "z ≥ 2.0",
 	}

@@ -72,8 +72,8 @@ func picClearOfLines(p *picPainter, pt image.Point) bool {
 // TestPictureBandColoursReadByGDAL draws the islands fixture without
 // stations or regions, reads the PNG back with GDAL (python3-gdal 3.6) and
 // checks, for a cell of every band, that the pixel at the cell's centre has
-// the band colour of DESIGN.md's table, and that no-data cells are the
-// hatched grey, distinct from "Near normal".
+// the band colour of docs/design.md's "Default bands" table, and that
+// no-data cells are the hatched grey, distinct from "Near normal".
 func TestPictureBandColoursReadByGDAL(t *testing.T) {
 	f := picMakeFixture(t, 164, -48, 178, -34, 0.1)
 	in := f.input()
@@ -122,7 +122,7 @@ func TestPictureBandColoursReadByGDAL(t *testing.T) {
 	}
 	size, got := picGDALPixels(t, file, pts)
 	if size[0] != 1400 || size[0] < 1200 || size[2] < 3 {
-		t.Errorf("GDAL reads %d x %d px with %d bands; want 1400 px wide (>= 1200, issue 6) and RGB", size[0], size[1], size[2])
+		t.Errorf("GDAL reads %d x %d px with %d bands; want 1400 px wide (>= 1200) and RGB", size[0], size[1], size[2])
 	}
 	for pt, c := range want {
 		if got[pt] != c {
@@ -239,7 +239,8 @@ func TestPictureDegreeLabels(t *testing.T) {
 }
 
 // TestPictureDeterministic: the same input gives the same bytes whatever
-// GOMAXPROCS is (the team brief's determinism rule).
+// GOMAXPROCS is (output never depends on the number of cores:
+// docs/design.md, "Command line").
 func TestPictureDeterministic(t *testing.T) {
 	f := picMakeFixture(t, 164, -48, 178, -34, 0.1)
 	var outs [][]byte

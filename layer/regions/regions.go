@@ -17,7 +17,7 @@ const Caution = "Shares of area are computed from interpolated estimates on a st
 	"not official drought declarations. Consult your national meteorological or hydrological " +
 	"service and local rules before acting on them."
 
-// Header is the regions.csv header for a scheme (DESIGN.md "Formats
+// Header is the regions.csv header for a scheme (docs/design.md, "Formats
 // written"): region, area_km2, covered_km2, covered_pct, one <key>_pct per
 // band in scheme order, in_drought_pct, mean_z.
 func Header(s *bands.Scheme) []string {
@@ -75,6 +75,8 @@ func regFmt(v float64) string {
 	return s
 }
 
+// Record is one region's regions.csv row, in the columns of Header: areas
+// and percentages with 3 decimals, empty where undefined.
 func Record(z region.ZonalStats, s *bands.Scheme) []string {
 	r := regValues(z, s)
 	rec := []string{z.Key, regFmt(r.area), regFmt(r.covered), regFmt(r.coveredPct)}

@@ -36,8 +36,8 @@ func regFixture(t *testing.T) ([]region.ZonalStats, float64) {
 	return region.Zonal(b, z, rs), s.CellAreaKm2(0)
 }
 
-// TestWriteRegionsCSV: the header of DESIGN.md "Formats written" and shares
-// worked by hand: 3 of 4 equal cells covered (75 %), two parched and one dry
+// TestWriteRegionsCSV: the header of docs/design.md, "Formats written", and
+// shares worked by hand: 3 of 4 equal cells covered (75 %), two parched and one dry
 // (66.667 % and 33.333 % of the covered area, all of it in drought), mean z
 // (-2.5 - 2.1 - 1.2) / 3 = -1.933.
 func TestWriteRegionsCSV(t *testing.T) {
