@@ -186,11 +186,11 @@ func tiffrTestRasters() (*grid.Uint8, *grid.Float32) {
 	return b, f
 }
 
-// TestReadTIFFTeamWriter: drygrid's own GeoTIFF writer (EncodeIndex and
+// TestReadTIFFOwnWriter: drygrid's own GeoTIFF writer (EncodeIndex and
 // EncodeBands: tiled, DEFLATE, predictors 2 and 3, COG overviews)
 // round-trips exactly;
 // its conformance is checked against GDAL in geotiff_test.go.
-func TestReadTIFFTeamWriter(t *testing.T) {
+func TestReadTIFFOwnWriter(t *testing.T) {
 	b, f := tiffrTestRasters()
 	for _, opt := range []Options{DefaultOptions(), {TileSize: 64}} {
 		var bb, fb bytes.Buffer
