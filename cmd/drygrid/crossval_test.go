@@ -248,28 +248,6 @@ func TestCrossvalUsage(t *testing.T) {
 	}
 }
 
-// FuzzSearchTerms: the --search parser never panics, and every combination
-// it accepts is a valid parameter set.
-func FuzzSearchTerms(f *testing.F) {
-	for _, s := range []string{"power=1,2,3", "radius-km=200,300,500 neighbors=4,8", "sectors=0,4,8", "min-stations=1,2", "power=", "=1", "power=1e309"} {
-		f.Add(s)
-	}
-	f.Fuzz(func(t *testing.T, s string) {
-		combos, err := cvSearchCombos(interp.DefaultParams(), []string{s})
-		if err != nil {
-			return
-		}
-		if len(combos) == 0 || len(combos) > cvMaxCombos {
-			t.Fatalf("%q: %d combinations", s, len(combos))
-		}
-		for _, p := range combos {
-			if err := p.Validate(); err != nil {
-				t.Fatalf("%q: accepted %+v: %v", s, p, err)
-			}
-		}
-	})
-}
-
 // cvRandomStations writes n random SPI stations around lonC, latC.
 func cvRandomStations(t *testing.T, path string, seed uint64, n int, lonC, latC, spreadLon, spreadLat float64) {
 	t.Helper()
@@ -351,7 +329,7 @@ func TestGridSectorsAgainstNumPy(t *testing.T) {
 
 // TestGridCrossvalFigures: the manifest figures of a grid run are those of
 // `drygrid crossval --json` with the same stations and parameters, and
-// carry the issue's keys.
+// carry the keys n, rmse, mae, bias and band_agreement.
 func TestGridCrossvalFigures(t *testing.T) {
 	out := filepath.Join(t.TempDir(), "layers")
 	f := gridFlags{inputFlags: inputFlags{stations: exampleSPI, kind: "spi"}, res: 0.1,
@@ -361,11 +339,11 @@ func TestGridCrossvalFigures(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	res, err := runGrid(job, &bytes.Buffer{})
+	res, err := runJob(job, &bytes.Buffer{})
 	if err != nil {
 		t.Fatal(err)
 	}
-	if res.crossval == nil {
+	if res.CrossVal == nil {
 		t.Fatal("grid --crossval: no cross-validation in the result")
 	}
 	// The figures as the manifest records them.
