@@ -84,6 +84,17 @@ type Job struct {
 	extraTimings map[string]float64
 }
 
+// NewJob is the job of the command line's defaults: SPI values from the
+// stations table, a 0.1 deg grid over the stations' extent widened by the
+// radius, the default interpolation and bands, every layer but regions,
+// written into out.
+func NewJob(stations, out string) Job {
+	layers, _ := ParseLayers("all")
+	delete(layers, "regions")
+	return Job{Stations: stations, Values: station.ValueOptions{Kind: station.KindSPI}, Res: 0.1,
+		Params: interp.DefaultParams(), Layers: layers, Out: out, Command: "grid"}
+}
+
 // IndexStep is the index step of a job: the window totals per station and
 // year, and the station list (id, latitude, longitude).
 type IndexStep struct {

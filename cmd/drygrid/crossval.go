@@ -99,15 +99,9 @@ func runCrossval(f crossvalFlags, terms []string, stdout, stderr io.Writer) erro
 	if err != nil {
 		return err
 	}
-	vals, err := station.ReadValues(f.stations, values)
+	vals, err := pipeline.ReadValues(f.stations, nil, values, func(w string) { fmt.Fprintf(stderr, "warning: %s\n", w) })
 	if err != nil {
 		return err
-	}
-	for _, w := range vals.Warnings {
-		fmt.Fprintf(stderr, "warning: %s\n", w)
-	}
-	if len(vals.Stations) == 0 {
-		return fmt.Errorf("stations %s: no station with a usable %s value (%d rows read)", f.stations, vals.Column, vals.Read)
 	}
 	pts := pipeline.Points(vals)
 	if combos != nil {
