@@ -36,7 +36,7 @@ layers = ["index", "bands", "regions"]
 	if j.Regions != "/srv/districts.geojson" || j.RegionKey != "code" {
 		t.Errorf("regions %s key %s", j.Regions, j.RegionKey)
 	}
-	// Defaults of `drygrid grid` (DESIGN.md, "Command line").
+	// Defaults of `drygrid grid` (docs/design.md, "Command line").
 	p := j.Params
 	if j.Res != 0.1 || p.Power != 2 || p.Neighbors != 12 || p.RadiusKm != 300 || p.MinStations != 3 {
 		t.Errorf("defaults res %g params %+v", j.Res, p)

@@ -12,7 +12,6 @@ import (
 	"drygrid/bands"
 	"drygrid/interp"
 	"drygrid/pipeline"
-	"drygrid/station"
 )
 
 // crossvalFlags are the flags of `drygrid crossval`.

@@ -29,7 +29,7 @@ func cvExec(args ...string) (string, string, error) {
 	return out.String(), errb.String(), err
 }
 
-// cvDefaultCuts are the default bands of DESIGN.md as cuts for
+// cvDefaultCuts are the default bands (bands.Default) as cuts for
 // testdata/crossval_ref.py: band = 1 + the number of cuts passed, where
 // z > c for the dry cut points (-2, -1.5, -1, -0.5: upper bounds inclusive)
 // and z >= c for the wet ones (0.5, 1, 1.5, 2: lower bounds inclusive).
@@ -68,7 +68,7 @@ func cvReadStations(t *testing.T, path string) [][]float64 {
 // on the example stations and checks the keys of the summary and every
 // figure against testdata/crossval_ref.py (independent NumPy brute force:
 // haversine on R = 6371.0088 km, Shepard 1968 weights, the spherical forward
-// azimuth for sectors, the default bands' cut points of DESIGN.md):
+// azimuth for sectors, the default bands' cut points):
 // figures to 1e-12, band agreement and counts exactly, the residual file's
 // predictions to its 6 decimals.
 func TestCrossvalJSONAgainstNumPy(t *testing.T) {
@@ -227,7 +227,7 @@ func TestCrossvalSearchRanking(t *testing.T) {
 }
 
 // TestCrossvalUsage: bad search terms and flag mixes are usage errors
-// (exit 2), like the grid command's (DESIGN.md, "Command line").
+// (exit 2), like the grid command's (docs/design.md, "Command line").
 func TestCrossvalUsage(t *testing.T) {
 	for _, args := range [][]string{
 		{"crossval"},

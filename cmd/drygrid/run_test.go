@@ -72,7 +72,7 @@ func manifestWithoutTimings(t *testing.T, dir string) string {
 
 // TestRunExample: the printed example parses, and running it in the
 // directory the demo writes produces every layer, index.csv, the manifest
-// and the history (issue 7).
+// and the history.
 func TestRunExample(t *testing.T) {
 	if testing.Short() {
 		t.Skip("demo in -short mode")
