@@ -33,6 +33,13 @@ const snapTol = 1e-9
 // allocation failure. It is the one limit on grid size in drygrid.
 const MaxCells = 400_000_000
 
+// MaxRes is the coarsest cell size NewSpec takes, in degrees: 10. Drought
+// maps from station networks use cells of a few km to a few tens of km
+// (0.01 to 0.5 deg); at 10 deg a cell is over 1000 km wide, more than
+// three times the default search radius. It is the one limit on the
+// resolution in drygrid.
+const MaxRes = 10
+
 // ErrTooLarge is the error (wrapped) of NewSpec for a grid of more than
 // MaxCells cells.
 var ErrTooLarge = errors.New("over the limit of grid.MaxCells")
@@ -47,8 +54,8 @@ func NewSpec(west, south, east, north, res float64) (Spec, error) {
 			return Spec{}, errors.New("grid: bbox and resolution must be finite numbers")
 		}
 	}
-	if res <= 0 || res > 90 {
-		return Spec{}, fmt.Errorf("grid: resolution %g deg must be in (0, 90]", res)
+	if res <= 0 || res > MaxRes {
+		return Spec{}, fmt.Errorf("grid: resolution %g deg must be in (0, %d]", res, MaxRes)
 	}
 	if south < -90 || north > 90 || south >= north {
 		return Spec{}, fmt.Errorf("grid: south %g and north %g must satisfy -90 <= south < north <= 90", south, north)

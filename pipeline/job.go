@@ -8,6 +8,7 @@ import (
 	"strings"
 	"time"
 
+	"drygrid/grid"
 	"drygrid/interp"
 	"drygrid/manifest"
 	"drygrid/station"
@@ -116,9 +117,14 @@ type UsageError struct {
 	// Key is the job file's key of the setting ("grid.res"), "" if none,
 	// and Detail the message without the flag's name, for job files.
 	Key, Detail string
+	// Err is the error behind, if any.
+	Err error
 }
 
 func (e *UsageError) Error() string { return e.Msg }
+
+// Unwrap gives the error behind.
+func (e *UsageError) Unwrap() error { return e.Err }
 
 // Is makes errors.Is(err, ErrUsage) true.
 func (e *UsageError) Is(target error) bool { return target == ErrUsage }
@@ -134,9 +140,6 @@ func usageAt(flag, key, detail string) error {
 	return &UsageError{Msg: flag + detail, Key: key, Detail: detail}
 }
 
-// MaxRes is the coarsest cell size a job may ask for, in degrees.
-const MaxRes = 10
-
 // Validate checks the job: the one check of every setting, whichever way
 // the job was made. Its errors are *UsageError.
 func (j *Job) Validate() error {
@@ -149,8 +152,8 @@ func (j *Job) Validate() error {
 	if j.Out == "" {
 		return Usagef("--out DIR is required")
 	}
-	if !(j.Res > 0 && j.Res <= MaxRes) {
-		return usageAt("--res ", "grid.res", fmt.Sprintf("%g: must be in (0, %d] degrees", j.Res, MaxRes))
+	if !(j.Res > 0 && j.Res <= grid.MaxRes) {
+		return usageAt("--res ", "grid.res", fmt.Sprintf("%g: must be in (0, %d] degrees", j.Res, grid.MaxRes))
 	}
 	if j.BBox != nil {
 		parts := make([]string, 4)
@@ -172,7 +175,7 @@ func (j *Job) Validate() error {
 				break
 			}
 		}
-		return &UsageError{Msg: err.Error(), Key: key, Detail: strings.TrimPrefix(err.Error(), "interp: ")}
+		return &UsageError{Msg: err.Error(), Key: key, Detail: strings.TrimPrefix(err.Error(), "interp: "), Err: err}
 	}
 	if len(j.Layers) == 0 {
 		return usageAt("--layers: ", "output.layers", fmt.Sprintf("no layer named (choose from %s)", strings.Join(AllLayers, ",")))

@@ -291,14 +291,14 @@ func gridSpec(job *Job, pts []interp.Point) (grid.Spec, error) {
 		b := *job.BBox
 		s, err = grid.NewSpec(b[0], b[1], b[2], b[3], job.Res)
 		if err != nil && !errors.Is(err, grid.ErrTooLarge) {
-			return s, Usagef("--bbox: %v", err)
+			return s, &UsageError{Msg: "--bbox: " + err.Error(), Err: err}
 		}
 	} else {
 		w, so, e, n := interp.Extent(pts, job.Params.RadiusKm, job.Res)
 		s, err = grid.NewSpec(w, so, e, n, job.Res)
 	}
 	if errors.Is(err, grid.ErrTooLarge) {
-		return s, Usagef("%v: use a coarser --res or a smaller --bbox", err)
+		return s, &UsageError{Msg: err.Error() + ": use a coarser --res or a smaller --bbox", Err: err}
 	}
 	return s, err
 }

@@ -6,7 +6,7 @@ import (
 )
 
 // writeStreamed writes index.tif and bands.tif, those of the two the run
-// asks for, in one pass over the rows of res.Rows, and tallies the band
+// asks for, in one pass over the rows of res.rows, and tallies the band
 // areas for the summary and the manifest.
 func (w *layerWriter) writeStreamed(name string, opt geotiff.Options) error {
 	if name == "bands" && w.job.Layers["index"] {

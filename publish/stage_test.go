@@ -289,3 +289,39 @@ func TestPublishLock(t *testing.T) {
 		t.Errorf("left behind %v", left)
 	}
 }
+
+// TestStageAbort: a stage aborted leaves the output directory as it was,
+// nothing beside it but the lock file, and the lock free for the next run;
+// a stage ends once.
+func TestStageAbort(t *testing.T) {
+	out := filepath.Join(t.TempDir(), "layers")
+	if err := publishFiles(out, all, nil); err != nil {
+		t.Fatal(err)
+	}
+	before := hashDir(t, out)
+	s, err := Begin(out, Options{Owned: layerNames})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(filepath.Join(s.Dir(), "index.tif"), []byte("new"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := Begin(out, Options{}); err == nil {
+		t.Error("a second stage began while the first holds the lock")
+	}
+	s.Abort()
+	s.Abort()
+	if err := s.Commit(); err == nil {
+		t.Error("Commit after Abort succeeded")
+	}
+	after := hashDir(t, out)
+	if len(after) != len(before) || after["index.tif"] != before["index.tif"] {
+		t.Errorf("aborted stage changed the output: %v -> %v", before, after)
+	}
+	if left := parentLeftovers(t, out); len(left) > 0 {
+		t.Errorf("left behind %v", left)
+	}
+	if err := publishFiles(out, []string{"index.tif"}, nil); err != nil {
+		t.Errorf("after Abort: %v", err)
+	}
+}
