@@ -4,6 +4,9 @@ import (
 	"context"
 	"fmt"
 	"io"
+	"os"
+	"os/signal"
+	"syscall"
 	"time"
 
 	"drygrid/pipeline"
@@ -28,7 +31,11 @@ func runJob(job pipeline.Job, stderr io.Writer) (*pipeline.Result, error) {
 		}
 		bar.set(done, total)
 	}
-	res, err := pipeline.Run(context.Background(), job)
+	// An interrupt stops the run between row blocks; the staging
+	// directory is removed and the output directory left as it was.
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
+	defer stop()
+	res, err := pipeline.Run(ctx, job)
 	if bar != nil {
 		bar.done()
 	}
