@@ -152,47 +152,9 @@ func (j *Job) Validate() error {
 	if j.Out == "" {
 		return Usagef("--out DIR is required")
 	}
-	if !(j.Res > 0 && j.Res <= grid.MaxRes) {
-		return usageAt("--res ", "grid.res", fmt.Sprintf("%g: must be in (0, %d] degrees", j.Res, grid.MaxRes))
-	}
-	if j.BBox != nil {
-		parts := make([]string, 4)
-		for i, v := range j.BBox {
-			parts[i] = strconv.FormatFloat(v, 'g', -1, 64)
-		}
-		if err := checkBBox(strings.Join(parts, ","), *j.BBox); err != nil {
-			return err
-		}
-	}
-	if j.SimplifyKm < 0 || math.IsNaN(j.SimplifyKm) || math.IsInf(j.SimplifyKm, 0) {
-		return usageAt("--simplify-km ", "output.simplify_km", fmt.Sprintf("%g: must be 0 or more", j.SimplifyKm))
-	}
-	if err := j.Params.Validate(); err != nil {
-		key := "interpolation"
-		for _, k := range []string{"power", "neighbors", "radius-km", "min-stations", "sectors"} {
-			if strings.Contains(err.Error(), "interp: "+k) {
-				key = "interpolation." + strings.ReplaceAll(k, "-", "_")
-				break
-			}
-		}
-		return &UsageError{Msg: err.Error(), Key: key, Detail: strings.TrimPrefix(err.Error(), "interp: "), Err: err}
-	}
-	if len(j.Layers) == 0 {
-		return usageAt("--layers: ", "output.layers", fmt.Sprintf("no layer named (choose from %s)", strings.Join(AllLayers, ",")))
-	}
-	for name, on := range j.Layers {
-		if _, ok := layerFiles[name]; on && !ok {
-			return usageAt("--layers: ", "output.layers", fmt.Sprintf("unknown layer %q (choose from %s)", name, strings.Join(AllLayers, ",")))
-		}
-	}
-	if j.Layers["regions"] && j.Regions == "" {
-		return &UsageError{Msg: "--layers regions needs --regions FILE.geojson", Key: "output.layers", Detail: "layer regions needs [regions] file"}
-	}
-	if j.History != "" && j.Regions == "" {
-		return &UsageError{Msg: "--history needs --regions FILE.geojson", Key: "history.file", Detail: "a history of area in drought needs [regions] file"}
-	}
-	if j.Date != "" {
-		if err := CheckDate(j.Date); err != nil {
+	for _, check := range []func() error{j.checkRes, j.checkSimplify, j.checkParams, j.checkLayerNames,
+		j.checkHistory, j.checkDate, j.checkRegionsLayer, j.checkBBox} {
+		if err := check(); err != nil {
 			return err
 		}
 	}
@@ -201,10 +163,86 @@ func (j *Job) Validate() error {
 			return Usagef("the index step needs the totals and the station list")
 		}
 		if err := j.Index.Options.Validate(); err != nil {
-			return &UsageError{Msg: err.Error(), Key: "index", Detail: err.Error()}
+			return &UsageError{Msg: err.Error(), Key: "index", Detail: err.Error(), Err: err}
 		}
 	}
 	return nil
+}
+
+// The checks of Validate, one setting each; the job-file parser calls them
+// in the order of the file's tables, so that the first mistake is named.
+
+func (j *Job) checkRes() error {
+	if !(j.Res > 0 && j.Res <= grid.MaxRes) {
+		return usageAt("--res ", "grid.res", fmt.Sprintf("%g: must be in (0, %d] degrees", j.Res, grid.MaxRes))
+	}
+	return nil
+}
+
+func (j *Job) checkSimplify() error {
+	if j.SimplifyKm < 0 || math.IsNaN(j.SimplifyKm) || math.IsInf(j.SimplifyKm, 0) {
+		return usageAt("--simplify-km ", "output.simplify_km", fmt.Sprintf("%g: must be 0 or more", j.SimplifyKm))
+	}
+	return nil
+}
+
+func (j *Job) checkParams() error {
+	err := j.Params.Validate()
+	if err == nil {
+		return nil
+	}
+	key := "interpolation"
+	for _, k := range []string{"power", "neighbors", "radius-km", "min-stations", "sectors"} {
+		if strings.Contains(err.Error(), "interp: "+k) {
+			key = "interpolation." + strings.ReplaceAll(k, "-", "_")
+			break
+		}
+	}
+	return &UsageError{Msg: err.Error(), Key: key, Detail: strings.TrimPrefix(err.Error(), "interp: "), Err: err}
+}
+
+func (j *Job) checkLayerNames() error {
+	if len(j.Layers) == 0 {
+		return usageAt("--layers: ", "output.layers", fmt.Sprintf("no layer named (choose from %s)", strings.Join(AllLayers, ",")))
+	}
+	for name, on := range j.Layers {
+		if _, ok := layerFiles[name]; on && !ok {
+			return usageAt("--layers: ", "output.layers", fmt.Sprintf("unknown layer %q (choose from %s)", name, strings.Join(AllLayers, ",")))
+		}
+	}
+	return nil
+}
+
+func (j *Job) checkHistory() error {
+	if j.History != "" && j.Regions == "" {
+		return &UsageError{Msg: "--history needs --regions FILE.geojson", Key: "history.file", Detail: "a history of area in drought needs [regions] file"}
+	}
+	return nil
+}
+
+func (j *Job) checkDate() error {
+	if j.Date != "" {
+		return CheckDate(j.Date)
+	}
+	return nil
+}
+
+func (j *Job) checkRegionsLayer() error {
+	if j.Layers["regions"] && j.Regions == "" {
+		return &UsageError{Msg: "--layers regions needs --regions FILE.geojson", Key: "output.layers", Detail: "layer regions needs [regions] file"}
+	}
+	return nil
+}
+
+func (j *Job) checkBBox() error {
+	if j.BBox == nil {
+		return nil
+	}
+	parts := make([]string, 4)
+	for i, v := range j.BBox {
+		parts[i] = strconv.FormatFloat(v, 'g', -1, 64)
+	}
+	return checkBBox(strings.Join(parts, ","), *j.BBox)
 }
 
 // CheckDate checks a date written YYYY-MM-DD.

@@ -312,12 +312,18 @@ func (p *jobParser) build(f *jobFile, md *toml.MetaData) (*Job, error) {
 	if def("grid.res") {
 		j.Res = f.Grid.Res
 	}
+	if err := j.checkRes(); err != nil {
+		return nil, p.usage(err)
+	}
 	if def("grid.bbox") {
 		if len(f.Grid.BBox) != 4 {
 			return nil, p.errAt("grid.bbox", "want [W, S, E, N] (four numbers in degrees), got %d", len(f.Grid.BBox))
 		}
 		b := [4]float64(f.Grid.BBox)
 		j.BBox = &b
+		if err := j.checkBBox(); err != nil {
+			return nil, p.usage(err)
+		}
 	}
 	ip := interp.DefaultParams()
 	if def("interpolation.power") {
@@ -336,6 +342,9 @@ func (p *jobParser) build(f *jobFile, md *toml.MetaData) (*Job, error) {
 		ip.Sectors = f.Interp.Sectors
 	}
 	j.Params = ip
+	if err := j.checkParams(); err != nil {
+		return nil, p.usage(err)
+	}
 	j.CrossVal = f.Interp.CrossVal
 	if j.Scheme, err = p.path("bands.scheme", f.Bands.Scheme, md); err != nil {
 		return nil, err
@@ -364,11 +373,20 @@ func (p *jobParser) build(f *jobFile, md *toml.MetaData) (*Job, error) {
 		delete(layers, "regions")
 	}
 	j.Layers = layers
+	if err := j.checkRegionsLayer(); err != nil {
+		return nil, p.usage(err)
+	}
 	j.SimplifyKm = f.Output.SimplifyKm
+	if err := j.checkSimplify(); err != nil {
+		return nil, p.usage(err)
+	}
 	if j.History, err = p.path("history.file", f.History.File, md); err != nil {
 		return nil, err
 	}
-	if j.History != "" && j.Regions != "" && j.Date == "" {
+	if err := j.checkHistory(); err != nil {
+		return nil, p.usage(err)
+	}
+	if j.History != "" && j.Date == "" {
 		return nil, p.errAt("history.file", "a history needs the job's date (date = \"YYYY-MM-DD\"), the key of each row")
 	}
 	j.Title = f.Title

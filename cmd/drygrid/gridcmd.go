@@ -99,29 +99,41 @@ The layers are interpolated estimates, not official drought declarations.`,
 	return cmd
 }
 
-// job turns the flags into a run description, checked by Validate.
+// job turns the flags into a run description, checked by Validate. A
+// --layers or --bbox value that does not parse is reported where Validate
+// would check it, so that the first mistake of a command line is the one
+// named.
 func (f gridFlags) job() (pipeline.Job, error) {
-	var j pipeline.Job
 	values, err := f.options()
 	if err != nil {
-		return j, err
+		return pipeline.Job{}, err
 	}
-	layers, err := pipeline.ParseLayers(f.layers)
-	if err != nil {
-		return j, asUsage(err)
+	j := pipeline.Job{
+		Stations: f.stations, Values: values,
+		Res: f.res, Params: f.params(), Scheme: f.scheme, Regions: f.regions, RegionKey: f.regionKey,
+		SimplifyKm: f.simplifyKm, Title: f.title, Out: f.out,
+		History: f.history, Date: f.date, CrossVal: f.crossval, Command: "grid",
+	}
+	layers, layersErr := pipeline.ParseLayers(f.layers)
+	if layersErr != nil {
+		// The settings Validate checks before the layers.
+		probe := j
+		probe.Layers, probe.History, probe.Date = pipeline.LayerSet{"index": true}, "", ""
+		if err := probe.Validate(); err != nil {
+			return j, asUsage(err)
+		}
+		return j, asUsage(layersErr)
 	}
 	if f.regions == "" && !strings.Contains(f.layers, "regions") {
 		delete(layers, "regions") // "all" without regions to report on
 	}
-	j = pipeline.Job{
-		Stations: f.stations, Values: values,
-		Res: f.res, Params: f.params(), Scheme: f.scheme, Regions: f.regions, RegionKey: f.regionKey,
-		Layers: layers, SimplifyKm: f.simplifyKm, Title: f.title, Out: f.out,
-		History: f.history, Date: f.date, CrossVal: f.crossval, Command: "grid",
-	}
+	j.Layers = layers
 	if f.bbox != "" {
 		b, err := pipeline.ParseBBox(f.bbox)
 		if err != nil {
+			if verr := j.Validate(); verr != nil { // the bbox is checked last
+				return j, asUsage(verr)
+			}
 			return j, asUsage(err)
 		}
 		j.BBox = &b
