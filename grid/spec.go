@@ -25,10 +25,24 @@ type Spec struct {
 // the resolution (0.3/0.1 is 2.9999999999999996, not 3).
 const snapTol = 1e-9
 
-// maxCells bounds the grid size (2^36, about 6.9e10 cells: a global grid at
-// 0.001 deg fits) so that an absurdly fine resolution is an error, not an
-// integer overflow or an allocation failure.
-const maxCells = 1 << 36
+// MaxCells is the largest grid NewSpec makes: 4e8 cells. A run that holds
+// its rasters in memory needs 5 bytes a cell (a Float32 index and a UInt8
+// band code), 2 GB at the limit; a global grid at 0.01 deg (6.5e8 cells)
+// is over it, one at 0.02 deg (1.6e8) within. The limit also keeps an
+// absurdly fine resolution an error, not an integer overflow or an
+// allocation failure. It is the one limit on grid size in drygrid.
+const MaxCells = 400_000_000
+
+// MaxRes is the coarsest cell size NewSpec takes, in degrees: 10. Drought
+// maps from station networks use cells of a few km to a few tens of km
+// (0.01 to 0.5 deg); at 10 deg a cell is over 1000 km wide, more than
+// three times the default search radius. It is the one limit on the
+// resolution in drygrid.
+const MaxRes = 10
+
+// ErrTooLarge is the error (wrapped) of NewSpec for a grid of more than
+// MaxCells cells.
+var ErrTooLarge = errors.New("over the limit of grid.MaxCells")
 
 // NewSpec builds a grid covering the bbox west, south, east, north at
 // resolution res, with every edge snapped outward to a multiple of res.
@@ -40,8 +54,8 @@ func NewSpec(west, south, east, north, res float64) (Spec, error) {
 			return Spec{}, errors.New("grid: bbox and resolution must be finite numbers")
 		}
 	}
-	if res <= 0 || res > 90 {
-		return Spec{}, fmt.Errorf("grid: resolution %g deg must be in (0, 90]", res)
+	if res <= 0 || res > MaxRes {
+		return Spec{}, fmt.Errorf("grid: resolution %g deg must be in (0, %d]", res, MaxRes)
 	}
 	if south < -90 || north > 90 || south >= north {
 		return Spec{}, fmt.Errorf("grid: south %g and north %g must satisfy -90 <= south < north <= 90", south, north)
@@ -79,8 +93,8 @@ func NewSpec(west, south, east, north, res float64) (Spec, error) {
 	}
 	fc := min(math.Round((e-w)/res), math.Floor(360/res+snapTol))
 	fr := math.Round((n - s) / res)
-	if !(fc*fr <= maxCells) { // also catches NaN from a subnormal res
-		return Spec{}, fmt.Errorf("grid: bbox %g,%g,%g,%g at %g deg needs %.4g cells, more than %d", w0, south, e0, north, res, fc*fr, maxCells)
+	if !(fc*fr <= MaxCells) { // also catches NaN from a subnormal res
+		return Spec{}, fmt.Errorf("grid: bbox %g,%g,%g,%g at %g deg needs %.4g cells, %w (%d)", w0, south, e0, north, res, fc*fr, ErrTooLarge, MaxCells)
 	}
 	cols, rows := int(fc), int(fr)
 	if cols < 1 || rows < 1 {

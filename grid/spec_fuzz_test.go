@@ -15,7 +15,7 @@ func FuzzNewSpec(f *testing.F) {
 	f.Add(190.0, 10.0, 200.0, 20.0, 0.25)
 	f.Add(0.0, -90.0, 360.0, 90.0, 0.7)
 	f.Add(-180.0, -90.0, 180.0, 90.0, 0.1)
-	f.Add(0.0, 80.0, 10.0, 90.0, 50.0)
+	f.Add(0.0, 80.0, 10.0, 90.0, 50.0) // res over MaxRes: an error
 	f.Add(1e-300, 0.0, 1.0, 1.0, 1e-300)
 	f.Fuzz(func(t *testing.T, w, s, e, n, res float64) {
 		specFuzzCheck(t, w, s, e, n, res)

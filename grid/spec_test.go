@@ -95,9 +95,10 @@ func TestNewSpecErrors(t *testing.T) {
 		{"zero width in mixed forms", 190, 0, -170, 1, 0.1},
 		{"too many cells", -180, -90, 180, 90, 1e-5},
 		{"subnormal res", -180, -90, 180, 90, 5e-324},
-		// res 50 near the pole: the only multiples are 50 and 100, and 100
-		// is past the pole, so no whole cell fits.
-		{"no whole cell below the pole", 0, 80, 10, 90, 50},
+		{"res over MaxRes", 0, 80, 10, 90, 50},
+		// res 7 near the pole: the multiples around are 77, 84 and 91, and
+		// 91 is past the pole, so the bbox 85..90 holds no whole cell.
+		{"no whole cell below the pole", 0, 85, 10, 90, 7},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {

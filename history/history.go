@@ -75,16 +75,54 @@ func Append(path, date string, stats []region.ZonalStats, s *bands.Scheme) error
 		rows = append(rows, append([]string{date}, regions.Record(z, s)...))
 	}
 	sort.SliceStable(rows, func(i, j int) bool { return rows[i][0] < rows[j][0] })
-	return publish.WriteFile(path, func(w *bufio.Writer) error {
-		cw := csv.NewWriter(w)
-		if err := cw.Write(header); err != nil {
-			return err
+	return publish.WriteFile(path, func(w *bufio.Writer) error { return writeRows(w, header, rows) })
+}
+
+// Day is one date's region rows of a history.
+type Day struct {
+	Date  string // YYYY-MM-DD
+	Stats []region.ZonalStats
+}
+
+// Encode writes a history CSV of the days, the same bytes as Append
+// called on a new file with each day in turn: rows in date order (regions
+// in the order given within a date); a date given twice keeps its last rows.
+func Encode(w io.Writer, days []Day, s *bands.Scheme) error {
+	byDate := map[string]int{}
+	for i, d := range days {
+		if err := histCheckDate(d.Date); err != nil {
+			return fmt.Errorf("history: %w", err)
 		}
-		if err := cw.WriteAll(rows); err != nil {
-			return err
+		byDate[d.Date] = i
+	}
+	var rows [][]string
+	for i, d := range days {
+		if byDate[d.Date] != i {
+			continue
 		}
-		return cw.Error()
-	})
+		seen := map[string]bool{}
+		for _, z := range d.Stats {
+			if seen[z.Key] {
+				return fmt.Errorf("history: region %q appears twice for %s", z.Key, d.Date)
+			}
+			seen[z.Key] = true
+			rows = append(rows, append([]string{d.Date}, regions.Record(z, s)...))
+		}
+	}
+	sort.SliceStable(rows, func(i, j int) bool { return rows[i][0] < rows[j][0] })
+	return writeRows(w, Header(s), rows)
+}
+
+// writeRows writes the header and the rows as CSV.
+func writeRows(w io.Writer, header []string, rows [][]string) error {
+	cw := csv.NewWriter(w)
+	if err := cw.Write(header); err != nil {
+		return err
+	}
+	if err := cw.WriteAll(rows); err != nil {
+		return err
+	}
+	return cw.Error()
 }
 
 // histRead reads a history file's rows and checks its header.

@@ -17,7 +17,7 @@ import (
 const exampleSPI = "../../testdata/example/spi.csv"
 
 // TestExitCodes checks the command-line contract: 0 ok, 1 data or run error,
-// 2 usage (DESIGN.md, "Command line").
+// 2 usage (docs/design.md, "Command line").
 func TestExitCodes(t *testing.T) {
 	dir := t.TempDir()
 	bad := filepath.Join(dir, "bad.csv")
@@ -76,7 +76,7 @@ func hashDir(t *testing.T, dir string) map[string]string {
 
 // TestFailedRunLeavesOutputs: a run that fails on bad input leaves the
 // earlier layers byte-identical and no staging directory behind
-// (DESIGN.md: "a failed run leaves earlier outputs in DIR untouched").
+// (docs/design.md: "A failed run leaves earlier outputs in the output directory untouched").
 func TestFailedRunLeavesOutputs(t *testing.T) {
 	dir := t.TempDir()
 	out := filepath.Join(dir, "layers")
@@ -115,7 +115,7 @@ func TestFailedRunLeavesOutputs(t *testing.T) {
 }
 
 // TestOutputsIndependentOfCores: the same inputs give byte-identical files
-// for any core count (DESIGN.md).
+// for any core count (docs/design.md: "Output never depends on the number of cores").
 func TestOutputsIndependentOfCores(t *testing.T) {
 	dir := t.TempDir()
 	prev := runtime.GOMAXPROCS(0)
@@ -137,7 +137,7 @@ func TestOutputsIndependentOfCores(t *testing.T) {
 }
 
 // TestDemo runs the whole job on the invented scenario and has GDAL open the
-// rasters (issue 2, "Done when": GDAL opens index.tif and bands.tif).
+// rasters: GDAL must open index.tif and bands.tif.
 func TestDemo(t *testing.T) {
 	if testing.Short() {
 		t.Skip("demo in -short mode")

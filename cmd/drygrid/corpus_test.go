@@ -68,7 +68,7 @@ func captureStderr(t *testing.T, f func()) string {
 // TestBadInputCorpus runs the real command on every file of testdata/bad and
 // checks the exit code and the message (file, line and column, or feature
 // index), that nothing panics, and that an earlier output directory is left
-// byte-identical (issue 7). The expected messages are in
+// byte-identical. The expected messages are in
 // testdata/bad/expected.tsv; the files are made by testdata/bad/make_corpus.py.
 func TestBadInputCorpus(t *testing.T) {
 	cases := readCorpus(t)

@@ -1,17 +1,14 @@
 package main
 
 import (
+	"context"
 	"fmt"
 	"io"
-	"os"
 	"path/filepath"
-	"strings"
 
 	"github.com/spf13/cobra"
 
-	"drygrid/interp"
-	"drygrid/scenario"
-	"drygrid/station"
+	"drygrid/pipeline"
 )
 
 func newDemoCmd() *cobra.Command {
@@ -38,59 +35,13 @@ demo describes a real place.`,
 
 // runDemo writes the scenario's inputs and runs index and grid on them.
 func runDemo(out string, stderr io.Writer) error {
-	sc := scenario.DemoScenario()
-	in := filepath.Join(out, "inputs")
-	if err := os.MkdirAll(in, 0o755); err != nil {
-		return fmt.Errorf("demo: %w", err)
-	}
-	stationsCSV := filepath.Join(in, "stations.csv")
-	totalsCSV := filepath.Join(in, "totals.csv")
-	districts := filepath.Join(in, "districts.geojson")
-	if err := writeStream(stationsCSV, sc.WriteStationsCSV); err != nil {
-		return err
-	}
-	if err := writeStream(totalsCSV, sc.WriteTotalsCSV); err != nil {
-		return err
-	}
-	if err := writeStream(districts, func(w io.Writer) error { return writeDemoDistricts(w, sc.BBox) }); err != nil {
-		return err
-	}
-	fmt.Fprintf(stderr, "demo: %s, %d invented stations, target year %d (%s)\n", sc.Name, len(sc.Sites), sc.TargetYear, sc.Window)
-	values, err := demoIndex(sc, stationsCSV, totalsCSV, in, stderr)
+	job, err := pipeline.DemoJob(context.Background(), out, func(msg string) { fmt.Fprintln(stderr, msg) })
 	if err != nil {
 		return err
 	}
-	layers, _ := parseLayers("all")
-	job := gridJob{
-		Command:  "demo",
-		Stations: values,
-		Values:   station.ValueOptions{Kind: station.KindSPI},
-		Res:      0.05,
-		BBox:     &sc.BBox,
-		Params:   interp.DefaultParams(),
-		Regions:  districts, RegionKey: "name",
-		Layers: layers,
-		Title:  fmt.Sprintf("%s: SPI, %s %d", capitalize(sc.Name), sc.Window, sc.TargetYear),
-		Out:    out,
-	}
-	job.Params.RadiusKm = sc.RadiusKm
-	history, chart, err := demoHistory(sc, stationsCSV, totalsCSV, job)
-	if err != nil {
+	if _, err := runJob(job, stderr); err != nil {
 		return err
 	}
-	fmt.Fprintf(stderr, "history: %d years of area in drought per district (history.csv, chart.png)\n", demoHistoryYears)
-	job.Extra = map[string][]byte{"history.csv": history, "chart.png": chart}
-	_, err = runGrid(job, stderr)
-	if err == nil {
-		fmt.Fprintf(stderr, "demo: open %s in a browser; the data are invented\n", filepath.Join(out, "map.html"))
-	}
-	return err
-}
-
-// capitalize upper-cases the first letter of a title.
-func capitalize(s string) string {
-	if s == "" {
-		return s
-	}
-	return strings.ToUpper(s[:1]) + s[1:]
+	fmt.Fprintf(stderr, "demo: open %s in a browser; the data are invented\n", filepath.Join(out, "map.html"))
+	return nil
 }

@@ -2,7 +2,6 @@ package main
 
 import (
 	"strings"
-	"time"
 
 	"github.com/spf13/pflag"
 
@@ -65,12 +64,4 @@ func (f *interpFlags) register(fl *pflag.FlagSet, where, masked string) {
 func (f interpFlags) params() interp.Params {
 	return interp.Params{Power: f.power, Neighbors: f.neighbors, RadiusKm: f.radiusKm,
 		MinStations: f.minStations, Sectors: f.sectors}
-}
-
-// checkDate checks a --date value: a calendar date written YYYY-MM-DD.
-func checkDate(d string) error {
-	if _, err := time.Parse("2006-01-02", d); err != nil || len(d) != 10 {
-		return usagef("--date %q is not a calendar date YYYY-MM-DD", d)
-	}
-	return nil
 }

@@ -1,13 +1,11 @@
 package main
 
 import (
-	"drygrid/history"
 	"fmt"
 	"io"
-	"math"
-	"strconv"
 	"strings"
-	"time"
+
+	"drygrid/pipeline"
 
 	"github.com/spf13/cobra"
 )
@@ -18,7 +16,7 @@ type gridFlags struct {
 	interpFlags
 	res        float64
 	bbox       string
-	crossval   bool // --crossval (crossval.go, issue 9)
+	crossval   bool // --crossval: leave-one-out figures in the summary and manifest
 	scheme     string
 	regions    string
 	regionKey  string
@@ -72,14 +70,15 @@ The layers are interpolated estimates, not official drought declarations.`,
 			if err != nil {
 				return err
 			}
-			res, err := runGrid(job, cmd.ErrOrStderr())
+			res, err := runJob(job, cmd.ErrOrStderr())
 			if err != nil {
 				return err
 			}
-			if res.crossval != nil {
-				printCrossval(cmd.ErrOrStderr(), res.Values.Path, *res.crossval)
+			if res.CrossVal != nil {
+				printCrossval(cmd.ErrOrStderr(), res.Values.Path, *res.CrossVal)
 			}
-			return appendHistory(f.history, f.date, res, cmd.ErrOrStderr())
+			printHistory(cmd.ErrOrStderr(), res.History, "rows")
+			return nil
 		},
 	}
 	fl := cmd.Flags()
@@ -91,7 +90,7 @@ The layers are interpolated estimates, not official drought declarations.`,
 	fl.StringVar(&f.scheme, "scheme", "", "band scheme file (TOML; default: the nine built-in bands; see 'drygrid scheme --example')")
 	fl.StringVar(&f.regions, "regions", "", "regions GeoJSON (Polygon/MultiPolygon features) for area-in-drought statistics")
 	fl.StringVar(&f.regionKey, "region-key", "", "feature property naming each region (default: id, then name)")
-	fl.StringVar(&f.layers, "layers", "all", "layers to write: "+strings.Join(allLayers, ","))
+	fl.StringVar(&f.layers, "layers", "all", "layers to write: "+strings.Join(pipeline.AllLayers, ","))
 	fl.Float64Var(&f.simplifyKm, "simplify-km", 0, "simplify band polygons to this tolerance in km (0: exact cell edges)")
 	fl.StringVar(&f.title, "title", "", "title for the picture and the page")
 	fl.StringVar(&f.history, "history", "", "append the day's region rows to this CSV (with --regions); re-running a date replaces its rows")
@@ -100,101 +99,51 @@ The layers are interpolated estimates, not official drought declarations.`,
 	return cmd
 }
 
-// job checks the flags and turns them into a run description.
-func (f gridFlags) job() (gridJob, error) {
-	var j gridJob
+// job turns the flags into a run description, checked by Validate. A
+// --layers or --bbox value that does not parse is reported where Validate
+// would check it, so that the first mistake of a command line is the one
+// named.
+func (f gridFlags) job() (pipeline.Job, error) {
 	values, err := f.options()
 	if err != nil {
-		return j, err
+		return pipeline.Job{}, err
 	}
-	if f.out == "" {
-		return j, usagef("--out DIR is required")
+	j := pipeline.Job{
+		Stations: f.stations, Values: values,
+		Res: f.res, Params: f.params(), Scheme: f.scheme, Regions: f.regions, RegionKey: f.regionKey,
+		SimplifyKm: f.simplifyKm, Title: f.title, Out: f.out,
+		History: f.history, Date: f.date, CrossVal: f.crossval, Command: "grid",
 	}
-	if !(f.res > 0 && f.res <= 10) {
-		return j, usagef("--res %g: must be in (0, 10] degrees", f.res)
-	}
-	if f.simplifyKm < 0 || math.IsNaN(f.simplifyKm) {
-		return j, usagef("--simplify-km %g: must be 0 or more", f.simplifyKm)
-	}
-	p := f.params()
-	if err := p.Validate(); err != nil {
-		return j, usageError{err}
-	}
-	layers, err := parseLayers(f.layers)
-	if err != nil {
-		return j, err
-	}
-	if f.history != "" && f.regions == "" {
-		return j, usagef("--history needs --regions FILE.geojson")
-	}
-	if f.date != "" {
-		if err := checkDate(f.date); err != nil {
-			return j, err
+	layers, layersErr := pipeline.ParseLayers(f.layers)
+	if layersErr != nil {
+		// The settings Validate checks before the layers.
+		probe := j
+		probe.Layers, probe.History, probe.Date = pipeline.LayerSet{"index": true}, "", ""
+		if err := probe.Validate(); err != nil {
+			return j, asUsage(err)
 		}
+		return j, asUsage(layersErr)
 	}
-	if f.regions == "" {
-		if strings.Contains(f.layers, "regions") {
-			return j, usagef("--layers regions needs --regions FILE.geojson")
-		}
-		delete(layers, "regions")
+	if f.regions == "" && !strings.Contains(f.layers, "regions") {
+		delete(layers, "regions") // "all" without regions to report on
 	}
-	j = gridJob{
-		Stations: f.stations,
-		Values:   values,
-		Res:      f.res, Params: p, Scheme: f.scheme, Regions: f.regions, RegionKey: f.regionKey,
-		Layers: layers, SimplifyKm: f.simplifyKm, Title: f.title, Out: f.out,
-		CrossVal: f.crossval,
-	}
+	j.Layers = layers
 	if f.bbox != "" {
-		b, err := parseBBox(f.bbox)
+		b, err := pipeline.ParseBBox(f.bbox)
 		if err != nil {
-			return j, err
+			if verr := j.Validate(); verr != nil { // the bbox is checked last
+				return j, asUsage(verr)
+			}
+			return j, asUsage(err)
 		}
 		j.BBox = &b
 	}
-	return j, nil
+	return j, asUsage(j.Validate())
 }
 
-// parseBBox reads "W,S,E,N".
-func parseBBox(s string) ([4]float64, error) {
-	var b [4]float64
-	parts := strings.Split(s, ",")
-	if len(parts) != 4 {
-		return b, usagef("--bbox %q: want W,S,E,N (four numbers in degrees)", s)
+// printHistory reports the rows a run added to its history file.
+func printHistory(w io.Writer, h *pipeline.HistoryRows, what string) {
+	if h != nil {
+		fmt.Fprintf(w, "history: %d %s for %s in %s\n", h.Rows, what, h.Date, h.Path)
 	}
-	for i, p := range parts {
-		v, err := strconv.ParseFloat(strings.TrimSpace(p), 64)
-		if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
-			return b, usagef("--bbox %q: %q is not a number", s, p)
-		}
-		b[i] = v
-	}
-	if b[1] >= b[3] {
-		return b, usagef("--bbox %q: south %g must be below north %g", s, b[1], b[3])
-	}
-	if b[1] < -90 || b[3] > 90 {
-		return b, usagef("--bbox %q: latitudes must lie in [-90, 90]", s)
-	}
-	if b[0] < -180 || b[0] > 360 || b[2] < -180 || b[2] > 360 {
-		return b, usagef("--bbox %q: longitudes must lie in [-180, 360]", s)
-	}
-	if b[0] == b[2] {
-		return b, usagef("--bbox %q: west equals east", s)
-	}
-	return b, nil
-}
-
-// appendHistory adds the run's region rows to the history file.
-func appendHistory(path, date string, res *gridResult, stderr io.Writer) error {
-	if path == "" {
-		return nil
-	}
-	if date == "" {
-		date = time.Now().UTC().Format("2006-01-02")
-	}
-	if err := history.Append(path, date, res.Regions, res.Scheme); err != nil {
-		return err
-	}
-	fmt.Fprintf(stderr, "history: %d rows for %s in %s\n", len(res.Regions), date, path)
-	return nil
 }

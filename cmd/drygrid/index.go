@@ -7,6 +7,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"drygrid/pipeline"
 	"drygrid/station"
 )
 
@@ -73,7 +74,7 @@ hydrological service and local rules.`,
 			if err != nil {
 				return err
 			}
-			if err := writeIndexTable(f.out, res); err != nil {
+			if err := pipeline.WriteIndexTable(f.out, res); err != nil {
 				return err
 			}
 			indexSummary(cmd.ErrOrStderr(), res, f.out)

@@ -2,8 +2,12 @@
 // layers: an interpolated index raster, a classified band raster, vector
 // layers, a picture, a web page and area-in-drought statistics per region.
 //
-// This package is wiring only: flags, progress, exit codes. The science is in
-// the library packages grid, interp, classes, station and export.
+// This package is wiring only: cobra's flags and job files become a
+// pipeline.Job, pipeline.Run runs it, and the command reports progress on a
+// terminal, prints the closing summary and maps errors to exit codes (0 ok,
+// 1 a data or run error, 2 a usage error: usageError here, or an error
+// wrapping pipeline.ErrUsage). The run itself, from reading the stations to
+// publishing the output directory, is in package pipeline.
 package main
 
 import (
@@ -12,6 +16,8 @@ import (
 	"os"
 
 	"github.com/spf13/cobra"
+
+	"drygrid/pipeline"
 )
 
 // Exit codes: 0 ok, 1 data or run error, 2 usage.
@@ -26,6 +32,15 @@ type usageError struct{ err error }
 
 func (e usageError) Error() string { return e.err.Error() }
 func (e usageError) Unwrap() error { return e.err }
+
+// asUsage marks the usage errors of package pipeline (pipeline.ErrUsage)
+// as usageError; other errors pass unchanged.
+func asUsage(err error) error {
+	if err != nil && errors.Is(err, pipeline.ErrUsage) {
+		return usageError{err}
+	}
+	return err
+}
 
 // usagef builds a usage error.
 func usagef(format string, a ...any) error { return usageError{fmt.Errorf(format, a...)} }
@@ -68,7 +83,7 @@ func run(args []string) int {
 	}
 	fmt.Fprintf(os.Stderr, "drygrid: %v\n", err)
 	var ue usageError
-	if errors.As(err, &ue) || isCobraUsage(err) {
+	if errors.As(err, &ue) || errors.Is(err, pipeline.ErrUsage) || isCobraUsage(err) {
 		if cmd != nil {
 			fmt.Fprintf(os.Stderr, "Run '%s --help' for usage.\n", cmd.CommandPath())
 		}

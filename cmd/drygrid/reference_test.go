@@ -37,7 +37,7 @@ type e2eCase struct {
 // independent NumPy brute-force great-circle IDW (testdata/idw_ref.py,
 // Shepard 1968; haversine on R = 6371.0088 km), with percentiles turned into
 // z by SciPy's norm.ppf. Float32 storage bounds the agreement to ~1e-6 for
-// |z| <= 5; we ask 1e-5 (issue 2).
+// |z| <= 5; we ask 1e-5.
 func TestGridAgainstBruteForce(t *testing.T) {
 	py := reftest.Python(t, "numpy", "scipy.stats", "osgeo.gdal")
 	seed := uint64(time.Now().UnixNano())

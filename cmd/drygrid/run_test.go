@@ -12,6 +12,7 @@ import (
 	"time"
 
 	"drygrid/internal/reftest"
+	"drygrid/pipeline"
 )
 
 // The manifest's timings are the one member allowed to differ between runs;
@@ -71,22 +72,22 @@ func manifestWithoutTimings(t *testing.T, dir string) string {
 
 // TestRunExample: the printed example parses, and running it in the
 // directory the demo writes produces every layer, index.csv, the manifest
-// and the history (issue 7).
+// and the history.
 func TestRunExample(t *testing.T) {
 	if testing.Short() {
 		t.Skip("demo in -short mode")
 	}
 	dir := demoDir(t)
 	jobPath := filepath.Join(dir, "job.toml")
-	if err := os.WriteFile(jobPath, []byte(jobExample), 0o644); err != nil {
+	if err := os.WriteFile(jobPath, []byte(pipeline.JobExample), 0o644); err != nil {
 		t.Fatal(err)
 	}
-	j, err := parseJob(jobPath, []byte(jobExample))
+	j, err := pipeline.ParseJobFile(jobPath, []byte(pipeline.JobExample))
 	if err != nil {
 		t.Fatalf("example does not parse: %v", err)
 	}
-	if j.Grid.Out != filepath.Join(dir, "daily") || j.Totals != filepath.Join(dir, "inputs/totals.csv") || j.Year != 2025 {
-		t.Errorf("example resolved to out %s totals %s year %d", j.Grid.Out, j.Totals, j.Year)
+	if j.Out != filepath.Join(dir, "daily") || j.Index == nil || j.Index.Totals != filepath.Join(dir, "inputs/totals.csv") || j.Index.Options.Year != 2025 {
+		t.Errorf("example resolved to out %s index %+v", j.Out, j.Index)
 	}
 	prev := runtime.GOMAXPROCS(1)
 	defer runtime.GOMAXPROCS(prev)
@@ -148,7 +149,7 @@ func TestRunExample(t *testing.T) {
 	cmd := newRunCmd()
 	cmd.SetOut(&help)
 	cmd.SetArgs([]string{"--example"})
-	if err := cmd.Execute(); err != nil || help.String() != jobExample {
+	if err := cmd.Execute(); err != nil || help.String() != pipeline.JobExample {
 		t.Errorf("run --example: %v", err)
 	}
 }

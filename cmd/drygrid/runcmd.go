@@ -1,17 +1,13 @@
 package main
 
 import (
-	"bytes"
 	"fmt"
 	"io"
-	"os"
 	"path/filepath"
 
 	"github.com/spf13/cobra"
 
-	"drygrid/history"
-	"drygrid/manifest"
-	"drygrid/station"
+	"drygrid/pipeline"
 )
 
 func newRunCmd() *cobra.Command {
@@ -50,7 +46,7 @@ national meteorological or hydrological service and local rules.`,
 		},
 		RunE: func(cmd *cobra.Command, args []string) error {
 			if example {
-				_, err := fmt.Fprint(cmd.OutOrStdout(), jobExample)
+				_, err := fmt.Fprint(cmd.OutOrStdout(), pipeline.JobExample)
 				return err
 			}
 			return runJobFile(args[0], cmd.ErrOrStderr())
@@ -60,84 +56,21 @@ national meteorological or hydrological service and local rules.`,
 	return cmd
 }
 
-// readJob reads and parses the job file at path.
-func readJob(path string) (*runJob, error) {
-	f, err := os.Open(path)
-	if err != nil {
-		return nil, fmt.Errorf("job %s: %w", path, err)
-	}
-	defer f.Close()
-	data, err := io.ReadAll(io.LimitReader(f, jobMaxBytes+1))
-	if err != nil {
-		return nil, fmt.Errorf("job %s: %w", path, err)
-	}
-	return parseJob(path, data)
-}
-
 // runJobFile runs the job in the file at path.
 func runJobFile(path string, stderr io.Writer) error {
-	start := manifestNow()
-	j, err := readJob(path)
+	j, err := pipeline.ReadJobFile(path)
 	if err != nil {
 		return err
 	}
-	g := j.Grid
-	jobIn, err := manifest.Input(path, "job")
+	res, err := runJob(*j, stderr)
 	if err != nil {
 		return err
 	}
-	g.ExtraInputs = []manifest.File{jobIn}
-	g.ExtraParams = map[string]any{"window": j.Window, "date": j.Date, "year": j.Year}
-	g.ExtraCounts = map[string]any{}
-	g.ExtraTimings = map[string]float64{}
-	if j.Totals != "" {
-		res, err := station.ComputeIndex(j.StationList, j.Totals, j.Index)
-		if err != nil {
-			return err
-		}
-		var buf bytes.Buffer
-		if err := station.WriteIndexCSV(&buf, res); err != nil {
-			return fmt.Errorf("index table: %w", err)
-		}
-		for _, w := range res.Warnings {
-			fmt.Fprintf(stderr, "warning: %s\n", w)
-		}
-		s := res.Summary()
-		fmt.Fprintf(stderr, "index %d: %d stations, %d with percentile and SPI, %d without (%d too few years, %d no total)\n",
-			s.Year, s.Stations, s.WithIndex, s.Stations-s.WithIndex, s.TooFewYears, s.NoTotal)
-		g.StationsData = buf.Bytes()
-		g.Extra = map[string][]byte{"index.csv": buf.Bytes()}
-		for _, in := range [][2]string{{j.Totals, "totals"}, {j.StationList, "station-list"}} {
-			f, err := manifest.Input(in[0], in[1])
-			if err != nil {
-				return err
-			}
-			g.ExtraInputs = append(g.ExtraInputs, f)
-		}
-		g.ExtraParams["index"] = map[string]any{
-			"year": s.Year, "ref_start": s.RefStart, "ref_end": s.RefEnd, "min_years": s.MinYears,
-			"distribution": s.Distribution, "total_column": j.Index.TotalColumn,
-		}
-		g.ExtraCounts["index"] = map[string]any{
-			"stations": s.Stations, "with_index": s.WithIndex, "no_total": s.NoTotal,
-			"too_few_years": s.TooFewYears, "not_fitted": s.NoIndexOther, "fit_failed": s.FitFailed,
-			"fit_rejected": s.FitRejected, "fit_untested": s.FitUntested, "capped": s.Capped,
-			"totals_rows": res.TotalsRows, "totals_rows_unknown_station": s.SkippedUnknown,
-		}
-		g.ExtraTimings["index_s"] = manifestSeconds(manifestNow().Sub(start))
+	if res.CrossVal != nil {
+		printCrossval(stderr, res.Values.Path, *res.CrossVal)
 	}
-	res, err := runGrid(g, stderr)
-	if err != nil {
-		return err
-	}
-	if res.crossval != nil {
-		printCrossval(stderr, res.Values.Path, *res.crossval)
-	}
-	if j.History != "" {
-		if err := history.Append(j.History, j.Date, res.Regions, res.Scheme); err != nil {
-			return fmt.Errorf("layers published in %s, but the history was not updated: %w", g.Out, err)
-		}
-		fmt.Fprintf(stderr, "history: %d regions for %s in %s\n", len(res.Regions), j.Date, filepath.Clean(j.History))
+	if h := res.History; h != nil {
+		fmt.Fprintf(stderr, "history: %d regions for %s in %s\n", h.Rows, h.Date, filepath.Clean(h.Path))
 	}
 	return nil
 }

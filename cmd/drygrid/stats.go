@@ -1,20 +1,12 @@
 package main
 
 import (
-	"bufio"
 	"fmt"
-	"os"
 	"path/filepath"
 
 	"github.com/spf13/cobra"
 
-	"drygrid/bands"
-	"drygrid/geotiff"
-	"drygrid/grid"
-	"drygrid/history"
-	"drygrid/layer/regions"
-	"drygrid/publish"
-	"drygrid/region"
+	"drygrid/pipeline"
 )
 
 type statsFlags struct {
@@ -64,92 +56,18 @@ your national meteorological or hydrological service and local rules.`,
 }
 
 func runStats(cmd *cobra.Command, f statsFlags) error {
-	if f.bands == "" || f.regions == "" {
-		return usagef("stats needs --bands FILE.tif and --regions FILE.geojson")
-	}
-	if f.history != "" && f.date == "" {
-		return usagef("--history needs --date YYYY-MM-DD (the day the band raster describes)")
-	}
-	if f.date != "" {
-		if err := checkDate(f.date); err != nil {
-			return err
-		}
-	}
-	scheme, err := loadScheme(f.scheme)
+	res, err := pipeline.Stats(pipeline.StatsJob{Bands: f.bands, Index: f.index, Regions: f.regions,
+		RegionKey: f.regionKey, Scheme: f.scheme, Out: f.out, History: f.history, Date: f.date})
 	if err != nil {
-		return err
-	}
-	regs, err := region.ReadRegions(f.regions, f.regionKey)
-	if err != nil {
-		return err
-	}
-	bandRaster, err := geotiff.ReadBands(f.bands)
-	if err != nil {
-		return err
-	}
-	if err := statsCheckCodes(f.bands, bandRaster, scheme); err != nil {
-		return err
-	}
-	var index *grid.Float32
-	if f.index != "" {
-		if index, err = geotiff.ReadIndex(f.index); err != nil {
-			return err
-		}
-		if err := region.SameGrid(bandRaster, index); err != nil {
-			return fmt.Errorf("%s and %s: %w", f.bands, f.index, err)
-		}
-	}
-	stats := region.Zonal(bandRaster, index, regs)
-	if err := os.MkdirAll(f.out, 0o755); err != nil {
-		return fmt.Errorf("--out %s: %w", f.out, err)
-	}
-	meta := regions.Meta{Date: f.date, Source: f.bands, Regions: f.regions, Grid: bandRaster.Spec.String()}
-	if err := publish.WriteFile(filepath.Join(f.out, "regions.csv"), func(w *bufio.Writer) error {
-		return regions.WriteCSV(w, stats, scheme)
-	}); err != nil {
-		return err
-	}
-	if err := publish.WriteFile(filepath.Join(f.out, "regions.json"), func(w *bufio.Writer) error {
-		return regions.WriteJSON(w, stats, scheme, meta)
-	}); err != nil {
-		return err
-	}
-	if f.history != "" {
-		if err := history.Append(f.history, f.date, stats, scheme); err != nil {
-			return err
-		}
+		return asUsage(err)
 	}
 	e := cmd.ErrOrStderr()
-	outside := 0
-	for _, z := range stats {
-		if z.AreaKm2 == 0 {
-			outside++
-		}
-	}
-	fmt.Fprintf(e, "stats: %d regions over %s -> %s\n", len(regs), bandRaster.Spec, filepath.Join(f.out, "regions.csv"))
-	if outside > 0 {
-		fmt.Fprintf(e, "warning: %d regions lie wholly outside the grid (area 0)\n", outside)
+	fmt.Fprintf(e, "stats: %d regions over %s -> %s\n", len(res.Regions), res.Spec, filepath.Join(f.out, "regions.csv"))
+	if res.Outside > 0 {
+		fmt.Fprintf(e, "warning: %d regions lie wholly outside the grid (area 0)\n", res.Outside)
 	}
 	if f.history != "" {
-		fmt.Fprintf(e, "history: %s rows for %s written to %s\n", scheme.Name, f.date, f.history)
-	}
-	return nil
-}
-
-// statsCheckCodes refuses a band raster holding codes the scheme lacks: its
-// shares would not add up to the covered area.
-func statsCheckCodes(path string, b *grid.Uint8, s *bands.Scheme) error {
-	var seen [256]bool
-	for _, c := range b.Data {
-		seen[c] = true
-	}
-	for c, ok := range seen {
-		if !ok || uint8(c) == b.NoData {
-			continue
-		}
-		if _, has := s.Band(uint8(c)); !has {
-			return fmt.Errorf("bands %s: holds code %d, for which scheme %q has no band (use the --scheme the raster was made with)", path, c, s.Name)
-		}
+		fmt.Fprintf(e, "history: %s rows for %s written to %s\n", res.Scheme.Name, f.date, f.history)
 	}
 	return nil
 }

@@ -5,10 +5,12 @@ import (
 	"io"
 	"sort"
 	"strings"
+
+	"drygrid/pipeline"
 )
 
 // printSummary writes the closing summary of a grid run.
-func printSummary(w io.Writer, job gridJob, r *gridResult) {
+func printSummary(w io.Writer, job pipeline.Job, r *pipeline.Result) {
 	v := r.Values
 	fmt.Fprintf(w, "stations: %d rows read from %s, %d sites used", v.Read, job.Stations, len(v.Stations))
 	if rej := v.RejectedByReason(); len(rej) > 0 {
@@ -20,19 +22,16 @@ func printSummary(w io.Writer, job gridJob, r *gridResult) {
 		fmt.Fprintf(w, ", rejected: %s", strings.Join(parts, ", "))
 	}
 	fmt.Fprintln(w)
-	sh := &r.Tally.Shares
-	fmt.Fprintf(w, "grid: %s, %d cells, %.1f%% of the area covered\n", r.Spec, r.Spec.Len(), sh.CoveredPct())
+	fmt.Fprintf(w, "grid: %s, %d cells, %.1f%% of the area covered\n", r.Spec, r.Spec.Len(), r.CoveredPct)
 	fmt.Fprintf(w, "bands (share of covered area):\n")
 	for _, b := range r.Scheme.Bands {
 		flag := ""
 		if b.Drought {
 			flag = "  in drought"
 		}
-		pct, _ := sh.BandPct(b.Code)
-		fmt.Fprintf(w, "  %-12s %-18s %5.1f%%%s\n", b.Label, b.Range(), pct, flag)
+		fmt.Fprintf(w, "  %-12s %-18s %5.1f%%%s\n", b.Label, b.Range(), r.BandPct[b.Code], flag)
 	}
-	inDrought, _ := sh.InDroughtPct(r.Scheme)
-	fmt.Fprintf(w, "in drought: %.1f%% of the covered area\n", inDrought)
+	fmt.Fprintf(w, "in drought: %.1f%% of the covered area\n", r.InDroughtPct)
 	if len(r.Files) > 0 {
 		fmt.Fprintf(w, "wrote %s in %s (%.1fs)\n", strings.Join(r.Files, ", "), job.Out, r.Elapsed.Seconds())
 	}

@@ -1,12 +1,12 @@
-package main
+package pipeline
 
 import (
 	"errors"
 	"fmt"
-	"math"
+	"io"
+	"os"
 	"path/filepath"
 	"regexp"
-	"strconv"
 	"strings"
 	"time"
 	"unicode/utf8"
@@ -21,7 +21,7 @@ import (
 // jobMaxBytes bounds a job file; real ones are a page.
 const jobMaxBytes = 1 << 20
 
-// jobFile is the TOML layout of a job file (see jobExample).
+// jobFile is the TOML layout of a job file (see JobExample).
 type jobFile struct {
 	Window string `toml:"window"`
 	Date   string `toml:"date"`
@@ -85,23 +85,6 @@ var jobKnownKeys = map[string][]string{
 	"history":       {"file"},
 }
 
-// runJob is a parsed job: the grid step, and the index step before it when
-// the job names window totals.
-type runJob struct {
-	Path   string // the job file
-	Window string
-	Date   string // YYYY-MM-DD or ""
-	Year   int    // target year, 0 = the latest with a total
-
-	// The index step (when Totals is set): Stations is then the station
-	// list and Grid.Stations only names the index table made in memory.
-	Totals, StationList string
-	Index               station.IndexOptions
-
-	Grid    gridJob
-	History string
-}
-
 type jobParser struct {
 	name  string
 	data  []byte
@@ -154,10 +137,25 @@ func (p *jobParser) jobTOMLError(err error) error {
 	return fmt.Errorf("job %s: %w", p.name, err)
 }
 
-// parseJob reads a job file; name is its path, used in messages and to
-// resolve relative paths (against the file's directory). It reads no other
-// file.
-func parseJob(name string, data []byte) (*runJob, error) {
+// ReadJobFile reads and parses the job file at path.
+func ReadJobFile(path string) (*Job, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, fmt.Errorf("job %s: %w", path, err)
+	}
+	defer f.Close()
+	data, err := io.ReadAll(io.LimitReader(f, jobMaxBytes+1))
+	if err != nil {
+		return nil, fmt.Errorf("job %s: %w", path, err)
+	}
+	return ParseJobFile(path, data)
+}
+
+// ParseJobFile reads a job file (TOML, see JobExample) into a validated
+// Job; name is its path, used in messages and to resolve relative paths
+// (against the file's directory). It reads no other file. Errors name the
+// file, and the line and column of the key at fault.
+func ParseJobFile(name string, data []byte) (*Job, error) {
 	p := &jobParser{name: name, data: data}
 	if len(data) > jobMaxBytes {
 		return nil, fmt.Errorf("job %s: larger than %d bytes; a job file is a page", name, jobMaxBytes)
@@ -224,16 +222,26 @@ func (p *jobParser) path(key, v string, md *toml.MetaData) (string, error) {
 	return filepath.Join(filepath.Dir(p.name), v), nil
 }
 
-func (p *jobParser) build(f *jobFile, md *toml.MetaData) (*runJob, error) {
+// usage turns a usage error of Validate into the job file's message at its key.
+func (p *jobParser) usage(err error) error {
+	var ue *UsageError
+	if errors.As(err, &ue) && ue.Key != "" {
+		return p.errAt(ue.Key, "%s", ue.Detail)
+	}
+	return fmt.Errorf("job %s: %v", p.name, err)
+}
+
+func (p *jobParser) build(f *jobFile, md *toml.MetaData) (*Job, error) {
 	def := func(key string) bool { return md.IsDefined(strings.Split(key, ".")...) }
-	j := &runJob{Path: p.name, Window: f.Window, Date: f.Date, Year: f.Year}
+	j := &Job{JobFile: p.name, Date: f.Date, Command: "run"}
+	year := f.Year
 	if f.Date != "" {
-		d, err := time.Parse("2006-01-02", f.Date)
-		if err != nil || len(f.Date) != 10 {
-			return nil, p.errAt("date", "%q is not a calendar date YYYY-MM-DD", f.Date)
+		if err := CheckDate(f.Date); err != nil {
+			return nil, p.usage(err)
 		}
+		d, _ := time.Parse("2006-01-02", f.Date)
 		if !def("year") {
-			j.Year = d.Year()
+			year = d.Year()
 		}
 	}
 	if def("year") && (f.Year < station.MinTotalYear || f.Year > station.MaxTotalYear) {
@@ -242,6 +250,7 @@ func (p *jobParser) build(f *jobFile, md *toml.MetaData) (*runJob, error) {
 	if !utf8.ValidString(f.Window) || len(f.Window) > 200 {
 		return nil, p.errAt("window", "must be a label of at most 200 bytes")
 	}
+	j.ExtraParams = map[string]any{"window": f.Window, "date": f.Date, "year": year}
 	var err error
 	in := f.Inputs
 	if in.Stations == "" {
@@ -256,23 +265,24 @@ func (p *jobParser) build(f *jobFile, md *toml.MetaData) (*runJob, error) {
 			return nil, p.errAt("inputs.kind", "%v", err)
 		}
 	}
-	j.Grid.Values = station.ValueOptions{Kind: kind, ValueColumn: in.ValueColumn,
+	j.Values = station.ValueOptions{Kind: kind, ValueColumn: in.ValueColumn,
 		IDColumn: in.IDColumn, LatColumn: in.LatColumn, LonColumn: in.LonColumn}
 	stations, err := p.path("inputs.stations", in.Stations, md)
 	if err != nil {
 		return nil, err
 	}
-	if j.Totals, err = p.path("inputs.totals", in.Totals, md); err != nil {
+	totals, err := p.path("inputs.totals", in.Totals, md)
+	if err != nil {
 		return nil, err
 	}
-	if j.Totals != "" {
-		j.StationList = stations
-		j.Index = station.IndexOptions{Year: j.Year, RefStart: f.Index.RefStart, RefEnd: f.Index.RefEnd,
+	if totals != "" {
+		step := &IndexStep{Totals: totals, StationList: stations}
+		step.Options = station.IndexOptions{Year: year, RefStart: f.Index.RefStart, RefEnd: f.Index.RefEnd,
 			MinYears: f.Index.MinYears, Distribution: strings.ToLower(f.Index.Distribution), TotalColumn: in.TotalColumn}
 		if def("index.min_years") && f.Index.MinYears < 1 {
 			return nil, p.errAt("index.min_years", "%d: must be 1 or more", f.Index.MinYears)
 		}
-		if err := j.Index.Validate(); err != nil {
+		if err := step.Options.Validate(); err != nil {
 			key := "index"
 			switch {
 			case strings.Contains(err.Error(), "distribution"):
@@ -287,36 +297,33 @@ func (p *jobParser) build(f *jobFile, md *toml.MetaData) (*runJob, error) {
 		if in.ValueColumn != "" || in.IDColumn != "" || in.LatColumn != "" || in.LonColumn != "" {
 			return nil, p.errAt("inputs", "value_column, id_column, lat_column and lon_column apply to a values table, not to the index step (totals)")
 		}
-		j.Grid.Stations = "index.csv"
+		j.Index = step
+		j.Stations = "index.csv"
 	} else {
 		for _, k := range []string{"index", "inputs.total_column"} {
 			if def(k) {
 				return nil, p.errAt(k, "applies only with [inputs] totals (the index step)")
 			}
 		}
-		j.Grid.Stations = stations
+		j.Stations = stations
 	}
 
-	j.Grid.Res = 0.1
+	j.Res = 0.1
 	if def("grid.res") {
-		j.Grid.Res = f.Grid.Res
+		j.Res = f.Grid.Res
 	}
-	if !(j.Grid.Res > 0 && j.Grid.Res <= 10) {
-		return nil, p.errAt("grid.res", "%g: must be in (0, 10] degrees", j.Grid.Res)
+	if err := j.checkRes(); err != nil {
+		return nil, p.usage(err)
 	}
 	if def("grid.bbox") {
 		if len(f.Grid.BBox) != 4 {
 			return nil, p.errAt("grid.bbox", "want [W, S, E, N] (four numbers in degrees), got %d", len(f.Grid.BBox))
 		}
-		parts := make([]string, 4)
-		for i, v := range f.Grid.BBox {
-			parts[i] = strconv.FormatFloat(v, 'g', -1, 64)
+		b := [4]float64(f.Grid.BBox)
+		j.BBox = &b
+		if err := j.checkBBox(); err != nil {
+			return nil, p.usage(err)
 		}
-		b, err := parseBBox(strings.Join(parts, ","))
-		if err != nil {
-			return nil, p.errAt("grid.bbox", "%v", strings.TrimPrefix(err.Error(), "--bbox "))
-		}
-		j.Grid.BBox = &b
 	}
 	ip := interp.DefaultParams()
 	if def("interpolation.power") {
@@ -334,26 +341,19 @@ func (p *jobParser) build(f *jobFile, md *toml.MetaData) (*runJob, error) {
 	if def("interpolation.sectors") {
 		ip.Sectors = f.Interp.Sectors
 	}
-	if err := ip.Validate(); err != nil {
-		key := "interpolation"
-		for _, k := range []string{"power", "neighbors", "radius-km", "min-stations", "sectors"} {
-			if strings.Contains(err.Error(), "interp: "+k) {
-				key = "interpolation." + strings.ReplaceAll(k, "-", "_")
-				break
-			}
-		}
-		return nil, p.errAt(key, "%v", strings.TrimPrefix(err.Error(), "interp: "))
+	j.Params = ip
+	if err := j.checkParams(); err != nil {
+		return nil, p.usage(err)
 	}
-	j.Grid.Params = ip
-	j.Grid.CrossVal = f.Interp.CrossVal
-	if j.Grid.Scheme, err = p.path("bands.scheme", f.Bands.Scheme, md); err != nil {
+	j.CrossVal = f.Interp.CrossVal
+	if j.Scheme, err = p.path("bands.scheme", f.Bands.Scheme, md); err != nil {
 		return nil, err
 	}
-	if j.Grid.Regions, err = p.path("regions.file", f.Regions.File, md); err != nil {
+	if j.Regions, err = p.path("regions.file", f.Regions.File, md); err != nil {
 		return nil, err
 	}
-	j.Grid.RegionKey = f.Regions.Key
-	if f.Regions.Key != "" && j.Grid.Regions == "" {
+	j.RegionKey = f.Regions.Key
+	if f.Regions.Key != "" && j.Regions == "" {
 		return nil, p.errAt("regions.key", "needs [regions] file")
 	}
 	if f.Output.Dir == "" {
@@ -362,54 +362,54 @@ func (p *jobParser) build(f *jobFile, md *toml.MetaData) (*runJob, error) {
 		}
 		return nil, fmt.Errorf("job %s: [output] dir is required", p.name)
 	}
-	if j.Grid.Out, err = p.path("output.dir", f.Output.Dir, md); err != nil {
+	if j.Out, err = p.path("output.dir", f.Output.Dir, md); err != nil {
 		return nil, err
 	}
-	layers, err := parseLayers(strings.Join(f.Output.Layers, ","))
+	layers, err := ParseLayers(strings.Join(f.Output.Layers, ","))
 	if err != nil {
-		return nil, p.errAt("output.layers", "%v", strings.TrimPrefix(err.Error(), "--layers: "))
+		return nil, p.usage(err)
 	}
-	if j.Grid.Regions == "" {
-		if layers["regions"] && def("output.layers") {
-			return nil, p.errAt("output.layers", "layer regions needs [regions] file")
-		}
+	if j.Regions == "" && !def("output.layers") {
 		delete(layers, "regions")
 	}
-	j.Grid.Layers = layers
-	if f.Output.SimplifyKm < 0 || math.IsNaN(f.Output.SimplifyKm) || math.IsInf(f.Output.SimplifyKm, 0) {
-		return nil, p.errAt("output.simplify_km", "%g: must be 0 or more", f.Output.SimplifyKm)
+	j.Layers = layers
+	if err := j.checkRegionsLayer(); err != nil {
+		return nil, p.usage(err)
 	}
-	j.Grid.SimplifyKm = f.Output.SimplifyKm
+	j.SimplifyKm = f.Output.SimplifyKm
+	if err := j.checkSimplify(); err != nil {
+		return nil, p.usage(err)
+	}
 	if j.History, err = p.path("history.file", f.History.File, md); err != nil {
 		return nil, err
 	}
-	if j.History != "" {
-		if j.Grid.Regions == "" {
-			return nil, p.errAt("history.file", "a history of area in drought needs [regions] file")
-		}
-		if j.Date == "" {
-			return nil, p.errAt("history.file", "a history needs the job's date (date = \"YYYY-MM-DD\"), the key of each row")
-		}
+	if err := j.checkHistory(); err != nil {
+		return nil, p.usage(err)
 	}
-	j.Grid.Title = f.Title
-	if j.Grid.Title == "" {
-		j.Grid.Title = "drygrid: " + string(kind)
+	if j.History != "" && j.Date == "" {
+		return nil, p.errAt("history.file", "a history needs the job's date (date = \"YYYY-MM-DD\"), the key of each row")
+	}
+	j.Title = f.Title
+	if j.Title == "" {
+		j.Title = "drygrid: " + string(kind)
 		if f.Window != "" {
-			j.Grid.Title += ", " + f.Window
+			j.Title += ", " + f.Window
 		}
 		if j.Date != "" {
-			j.Grid.Title += ", " + j.Date
-		} else if j.Year != 0 {
-			j.Grid.Title += fmt.Sprintf(", %d", j.Year)
+			j.Title += ", " + j.Date
+		} else if year != 0 {
+			j.Title += fmt.Sprintf(", %d", year)
 		}
 	}
-	j.Grid.Command = "run"
+	if err := j.Validate(); err != nil {
+		return nil, p.usage(err)
+	}
 	return j, nil
 }
 
-// jobExample is the commented example printed by `drygrid run --example`. Its
+// JobExample is the commented example printed by `drygrid run --example`. Its
 // paths fit the directory `drygrid demo` writes: save it there as job.toml.
-const jobExample = `# drygrid job file: the daily run in one file ('drygrid run job.toml').
+const JobExample = `# drygrid job file: the daily run in one file ('drygrid run job.toml').
 # Relative paths are relative to this file's directory. An unknown key is an
 # error. This example fits the directory 'drygrid demo' writes (invented data):
 #   drygrid demo --out demo && drygrid run --example > demo/job.toml && drygrid run demo/job.toml

@@ -1,10 +1,12 @@
-package main
+package pipeline
 
 import (
+	"drygrid/bands"
 	"fmt"
 	"io"
 	"math"
 	"os"
+	"path/filepath"
 
 	"drygrid/layer"
 	"drygrid/layer/page"
@@ -16,13 +18,19 @@ import (
 // writeRegions writes regions.csv and regions.json.
 func (w *layerWriter) writeRegions() error {
 	stats, s := w.res.Regions, w.res.Scheme
-	if err := writeStream(w.path("regions.csv"), func(out io.Writer) error {
+	meta := regions.Meta{Source: "drygrid grid --stations " + w.job.Stations, Regions: w.job.Regions, Grid: w.res.Spec.String()}
+	return writeRegionFiles(w.dir, stats, s, meta)
+}
+
+// writeRegionFiles writes regions.csv and regions.json into dir: the
+// regions layer of a run and of Stats.
+func writeRegionFiles(dir string, stats []region.ZonalStats, s *bands.Scheme, meta regions.Meta) error {
+	if err := writeStream(filepath.Join(dir, "regions.csv"), func(out io.Writer) error {
 		return regions.WriteCSV(out, stats, s)
 	}); err != nil {
 		return err
 	}
-	meta := regions.Meta{Source: "drygrid grid --stations " + w.job.Stations, Regions: w.job.Regions, Grid: w.res.Spec.String()}
-	return writeStream(w.path("regions.json"), func(out io.Writer) error {
+	return writeStream(filepath.Join(dir, "regions.json"), func(out io.Writer) error {
 		return regions.WriteJSON(out, stats, s, meta)
 	})
 }
@@ -48,9 +56,7 @@ func (w *layerWriter) title() string {
 func (w *layerWriter) writePicture() error {
 	in := picture.Input{Bands: w.res.Bands, Scheme: w.res.Scheme,
 		Title: w.title(), Subtitle: w.subtitle(), Caution: layer.Caution}
-	for _, s := range w.res.Values.Stations {
-		in.Stations = append(in.Stations, picture.Point{Lon: s.Lon, Lat: s.Lat})
-	}
+	in.Stations = picturePoints(w.res.Values)
 	for _, r := range w.regions {
 		in.Regions = append(in.Regions, picture.Region{Name: r.Key, Geom: r.Geom})
 	}

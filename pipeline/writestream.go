@@ -1,4 +1,4 @@
-package main
+package pipeline
 
 import (
 	"drygrid/bands"
@@ -8,7 +8,7 @@ import (
 )
 
 // writeStreamed writes index.tif and bands.tif, those of the two the run
-// asks for, in one pass over the rows of res.Rows, and tallies the band
+// asks for, in one pass over the rows of res.rows, and tallies the band
 // areas for the summary and the manifest.
 func (w *layerWriter) writeStreamed(name string, opt geotiff.Options) error {
 	if name == "bands" && w.job.Layers["index"] {
@@ -25,7 +25,7 @@ func (w *layerWriter) writeStreamed(name string, opt geotiff.Options) error {
 	c := bands.NewClassifier(w.res.Scheme)
 	var scratch []uint8
 	rows := func(row0, n int, index []float32, codes []uint8) error {
-		if err := w.res.Rows(row0, n, index); err != nil {
+		if err := w.res.rows(row0, n, index); err != nil {
 			return err
 		}
 		if codes == nil { // only the index is written: codes for the tally alone
@@ -40,6 +40,7 @@ func (w *layerWriter) writeStreamed(name string, opt geotiff.Options) error {
 	if err := geotiff.WriteIndexBandsRows(idx, bnd, w.res.Spec, grid.NoDataIndex, w.res.Scheme, rows, opt); err != nil {
 		return err
 	}
-	w.res.Tally = t
+	w.res.tally = t
+	w.res.shares()
 	return nil
 }

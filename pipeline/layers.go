@@ -1,11 +1,13 @@
-package main
+package pipeline
 
 import (
+	"fmt"
 	"strings"
 )
 
-// Layer names accepted by --layers, in the order they are written.
-var allLayers = []string{"index", "bands", "geojson", "stations", "regions", "map", "page"}
+// AllLayers are the layer names a job may ask for, in the order they are
+// written.
+var AllLayers = []string{"index", "bands", "geojson", "stations", "regions", "map", "page"}
 
 // layerFiles lists the files each layer writes in the output directory.
 var layerFiles = map[string][]string{
@@ -18,16 +20,16 @@ var layerFiles = map[string][]string{
 	"page":     {"map.html"},
 }
 
-// layerSet is the set of layers a run writes.
-type layerSet map[string]bool
+// LayerSet is the set of layers a run writes.
+type LayerSet map[string]bool
 
-// parseLayers reads a comma-separated --layers value; "" or "all" means
-// every layer.
-func parseLayers(s string) (layerSet, error) {
-	set := layerSet{}
+// ParseLayers reads a comma-separated list of layer names; "" or "all"
+// means every layer.
+func ParseLayers(s string) (LayerSet, error) {
+	set := LayerSet{}
 	s = strings.TrimSpace(s)
 	if s == "" || s == "all" {
-		for _, l := range allLayers {
+		for _, l := range AllLayers {
 			set[l] = true
 		}
 		return set, nil
@@ -38,23 +40,25 @@ func parseLayers(s string) (layerSet, error) {
 			continue
 		}
 		if _, ok := layerFiles[name]; !ok {
-			return nil, usagef("--layers: unknown layer %q (choose from %s)", name, strings.Join(allLayers, ","))
+			return nil, usageAt("--layers: ", "output.layers", "unknown layer "+strqt(name)+" (choose from "+strings.Join(AllLayers, ",")+")")
 		}
 		set[name] = true
 	}
 	if len(set) == 0 {
-		return nil, usagef("--layers: no layer named (choose from %s)", strings.Join(allLayers, ","))
+		return nil, usageAt("--layers: ", "output.layers", "no layer named (choose from "+strings.Join(AllLayers, ",")+")")
 	}
 	return set, nil
 }
 
 // String lists the layers in writing order.
-func (l layerSet) String() string {
+func (l LayerSet) String() string {
 	var out []string
-	for _, name := range allLayers {
+	for _, name := range AllLayers {
 		if l[name] {
 			out = append(out, name)
 		}
 	}
 	return strings.Join(out, ",")
 }
+
+func strqt(s string) string { return fmt.Sprintf("%q", s) }

@@ -1,6 +1,6 @@
 //go:build unix
 
-package main
+package publish
 
 import (
 	"errors"
@@ -12,6 +12,57 @@ import (
 	"time"
 )
 
+// layerNames are the names the writer of these tests owns, as a grid run's.
+var layerNames = []string{"index.tif", "bands.tif", "bands.tif.aux.xml", "map.png", "manifest.json"}
+
+// manifestOutputs stands for the manifest's list of outputs: the files of
+// the previous publication are listed in a file "outputs", one a line.
+func manifestOutputs(dir string) []string {
+	b, err := os.ReadFile(filepath.Join(dir, "outputs"))
+	if err != nil {
+		return nil
+	}
+	return strings.Fields(string(b))
+}
+
+// publishFiles publishes the named files (content = name) into out, as a
+// run writing those layers would; it fails with fail.
+func publishFiles(out string, names []string, fail error, inputs ...string) error {
+	opt := Options{Owned: append(layerNames, "outputs"), Inputs: inputs, Previous: manifestOutputs}
+	return Dir(out, opt, func(dir string) error {
+		for _, n := range names {
+			if err := os.WriteFile(filepath.Join(dir, n), []byte(n), 0o644); err != nil {
+				return err
+			}
+		}
+		if fail != nil {
+			return fail
+		}
+		return os.WriteFile(filepath.Join(dir, "outputs"), []byte(strings.Join(names, "\n")), 0o644)
+	})
+}
+
+// hashDir maps each file under dir to its content.
+func hashDir(t *testing.T, dir string) map[string]string {
+	t.Helper()
+	m := map[string]string{}
+	filepath.WalkDir(dir, func(path string, d os.DirEntry, err error) error {
+		if err != nil || d.IsDir() {
+			return err
+		}
+		b, err := os.ReadFile(path)
+		if err != nil {
+			return err
+		}
+		rel, _ := filepath.Rel(dir, path)
+		m[rel] = string(b)
+		return nil
+	})
+	return m
+}
+
+var all = []string{"index.tif", "bands.tif", "map.png"}
+
 // parentLeftovers lists the hidden publish directories beside out (not the
 // lock file, which stays by design).
 func parentLeftovers(t *testing.T, out string) []string {
@@ -22,7 +73,7 @@ func parentLeftovers(t *testing.T, out string) []string {
 	}
 	var left []string
 	for _, e := range entries {
-		if strings.HasPrefix(e.Name(), "."+filepath.Base(out)+".drygrid-") && e.Name() != "."+filepath.Base(out)+publishLockTag {
+		if strings.HasPrefix(e.Name(), "."+filepath.Base(out)+".drygrid-") && e.Name() != "."+filepath.Base(out)+LockTag {
 			left = append(left, e.Name())
 		}
 	}
@@ -34,8 +85,8 @@ func parentLeftovers(t *testing.T, out string) []string {
 // does not write disappears, so the directory matches its manifest.
 func TestPublishKeepsUserFiles(t *testing.T) {
 	out := filepath.Join(t.TempDir(), "layers")
-	if code := run([]string{"grid", "--stations", exampleSPI, "--out", out}); code != exitOK {
-		t.Fatalf("exit %d", code)
+	if err := publishFiles(out, all, nil); err != nil {
+		t.Fatal(err)
 	}
 	notes := filepath.Join(out, "notes.txt")
 	os.WriteFile(notes, []byte("my notes"), 0o600)
@@ -43,8 +94,8 @@ func TestPublishKeepsUserFiles(t *testing.T) {
 	os.WriteFile(filepath.Join(out, "mine", "deep", "x.csv"), []byte("a,b\n"), 0o644)
 	os.Symlink("notes.txt", filepath.Join(out, "link"))
 	before, _ := os.Stat(notes)
-	if code := run([]string{"grid", "--stations", exampleSPI, "--layers", "index", "--out", out}); code != exitOK {
-		t.Fatalf("exit %d", code)
+	if err := publishFiles(out, []string{"index.tif"}, nil); err != nil {
+		t.Fatal(err)
 	}
 	after, err := os.Stat(notes)
 	if err != nil || !os.SameFile(before, after) {
@@ -76,20 +127,18 @@ func TestPublishKeepsUserFiles(t *testing.T) {
 func TestPublishFailureLeavesEverything(t *testing.T) {
 	dir := t.TempDir()
 	out := filepath.Join(dir, "layers")
-	if code := run([]string{"grid", "--stations", exampleSPI, "--out", out}); code != exitOK {
-		t.Fatalf("exit %d", code)
+	if err := publishFiles(out, all, nil); err != nil {
+		t.Fatal(err)
 	}
 	before := hashDir(t, out)
-	bad := filepath.Join(dir, "bad.csv")
-	os.WriteFile(bad, []byte("station,lat,lon,spi\nA,10,10,0.5\nB,10,11,Inf\n"), 0o644)
-	if code := run([]string{"grid", "--stations", bad, "--out", out}); code != exitData {
-		t.Fatalf("bad run: exit %d", code)
+	if err := publishFiles(out, []string{"index.tif"}, errors.New("bad input")); err == nil {
+		t.Fatal("a failed write published")
 	}
 	if err := syscall.Mkfifo(filepath.Join(out, "pipe"), 0o644); err != nil {
 		t.Skipf("mkfifo: %v", err)
 	}
-	if code := run([]string{"grid", "--stations", exampleSPI, "--out", out}); code != exitData {
-		t.Fatalf("run with a pipe in the output: exit %d, want %d", code, exitData)
+	if err := publishFiles(out, all, nil); err == nil {
+		t.Fatal("published with a pipe in the output")
 	}
 	if st, err := os.Lstat(filepath.Join(out, "pipe")); err != nil || st.Mode()&os.ModeNamedPipe == 0 {
 		t.Fatalf("pipe gone: %v", err)
@@ -116,8 +165,8 @@ func TestPublishFailureLeavesEverything(t *testing.T) {
 func TestPublishRecoversCrash(t *testing.T) {
 	dir := t.TempDir()
 	out := filepath.Join(dir, "layers")
-	if code := run([]string{"grid", "--stations", exampleSPI, "--out", out}); code != exitOK {
-		t.Fatalf("exit %d", code)
+	if err := publishFiles(out, all, nil); err != nil {
+		t.Fatal(err)
 	}
 	os.WriteFile(filepath.Join(out, "notes.txt"), []byte("keep"), 0o644)
 	// A pid above the Linux maximum (4194304) belongs to no process.
@@ -135,8 +184,8 @@ func TestPublishRecoversCrash(t *testing.T) {
 	}
 	long := time.Now().Add(-2 * time.Hour)
 	os.Chtimes(oldTmp, long, long)
-	if code := run([]string{"grid", "--stations", exampleSPI, "--out", out}); code != exitOK {
-		t.Fatalf("exit %d", code)
+	if err := publishFiles(out, all, nil); err != nil {
+		t.Fatal(err)
 	}
 	if b, err := os.ReadFile(filepath.Join(out, "notes.txt")); err != nil || string(b) != "keep" {
 		t.Errorf("notes.txt after recovery: %q, %v", b, err)
@@ -153,22 +202,21 @@ func TestPublishRefuses(t *testing.T) {
 	dir := t.TempDir()
 	file := filepath.Join(dir, "file")
 	os.WriteFile(file, []byte("x"), 0o644)
-	if code := run([]string{"grid", "--stations", exampleSPI, "--out", file}); code != exitData {
-		t.Errorf("out is a file: exit %d", code)
+	if err := publishFiles(file, all, nil); err == nil {
+		t.Errorf("out is a file: no error")
 	}
 	if b, _ := os.ReadFile(file); string(b) != "x" {
 		t.Errorf("file changed")
 	}
 	wd, _ := os.Getwd()
-	abs, _ := filepath.Abs(exampleSPI)
 	sub := filepath.Join(dir, "work", "here")
 	os.MkdirAll(sub, 0o755)
 	if err := os.Chdir(sub); err != nil {
 		t.Fatal(err)
 	}
 	defer os.Chdir(wd)
-	if code := run([]string{"grid", "--stations", abs, "--out", filepath.Join(dir, "work")}); code != exitData {
-		t.Errorf("out holds the working directory: exit %d", code)
+	if err := publishFiles(filepath.Join(dir, "work"), all, nil); err == nil {
+		t.Errorf("out holds the working directory: no error")
 	}
 	if _, err := os.Stat(sub); err != nil {
 		t.Errorf("working directory gone: %v", err)
@@ -185,8 +233,8 @@ func TestPublishThroughSymlink(t *testing.T) {
 	if err := os.Symlink(real, link); err != nil {
 		t.Skip(err)
 	}
-	if code := run([]string{"grid", "--stations", exampleSPI, "--layers", "index", "--out", link}); code != exitOK {
-		t.Fatalf("exit %d", code)
+	if err := publishFiles(link, []string{"index.tif"}, nil); err != nil {
+		t.Fatal(err)
 	}
 	if st, err := os.Lstat(link); err != nil || st.Mode()&os.ModeSymlink == 0 {
 		t.Errorf("link replaced: %v", err)
@@ -198,18 +246,18 @@ func TestPublishThroughSymlink(t *testing.T) {
 
 // TestPublishLock: while another process holds the lock beside OUT (here
 // this test, through flock, as a second drygrid would), a run stops with
-// exit code 1, a message naming the lock, and OUT untouched; once the lock
+// an error naming the lock, and OUT untouched; once the lock
 // is released the same run publishes.
 func TestPublishLock(t *testing.T) {
 	out := filepath.Join(t.TempDir(), "layers")
-	if code := run([]string{"grid", "--stations", exampleSPI, "--layers", "index", "--out", out}); code != exitOK {
-		t.Fatalf("first run: exit %d", code)
+	if err := publishFiles(out, []string{"index.tif"}, nil); err != nil {
+		t.Fatal(err)
 	}
-	before, err := os.ReadFile(filepath.Join(out, "manifest.json"))
+	before, err := os.ReadFile(filepath.Join(out, "outputs"))
 	if err != nil {
 		t.Fatal(err)
 	}
-	lock := filepath.Join(filepath.Dir(out), ".layers"+publishLockTag)
+	lock := filepath.Join(filepath.Dir(out), ".layers"+LockTag)
 	f, err := os.OpenFile(lock, os.O_RDWR|os.O_CREATE, 0o644)
 	if err != nil {
 		t.Fatal(err)
@@ -220,28 +268,60 @@ func TestPublishLock(t *testing.T) {
 	if err := syscall.Flock(int(f.Fd()), syscall.LOCK_EX|syscall.LOCK_NB); err != nil {
 		t.Fatal(err)
 	}
-	stderr := captureStderr(t, func() {
-		if code := run([]string{"grid", "--stations", exampleSPI, "--layers", "index,bands", "--out", out}); code != exitData {
-			t.Errorf("locked run: exit %d, want %d", code, exitData)
-		}
-	})
-	if !strings.Contains(stderr, "another drygrid run is writing it") || !strings.Contains(stderr, lock) {
-		t.Errorf("message: %q", stderr)
+	err = publishFiles(out, []string{"index.tif", "bands.tif"}, nil)
+	if err == nil || !strings.Contains(err.Error(), "another drygrid run is writing it") || !strings.Contains(err.Error(), lock) {
+		t.Errorf("locked run: %v", err)
 	}
-	if after, _ := os.ReadFile(filepath.Join(out, "manifest.json")); string(after) != string(before) {
-		t.Error("the locked run changed manifest.json")
+	if after, _ := os.ReadFile(filepath.Join(out, "outputs")); string(after) != string(before) {
+		t.Error("the locked run changed the outputs list")
 	}
 	if _, err := os.Stat(filepath.Join(out, "bands.tif")); !errors.Is(err, os.ErrNotExist) {
 		t.Errorf("the locked run wrote bands.tif: %v", err)
 	}
 	syscall.Flock(int(f.Fd()), syscall.LOCK_UN)
-	if code := run([]string{"grid", "--stations", exampleSPI, "--layers", "index,bands", "--out", out}); code != exitOK {
-		t.Fatalf("run after the lock is released: exit %d", code)
+	if err := publishFiles(out, []string{"index.tif", "bands.tif"}, nil); err != nil {
+		t.Fatalf("run after the lock is released: %v", err)
 	}
 	if _, err := os.Stat(filepath.Join(out, "bands.tif")); err != nil {
 		t.Error(err)
 	}
 	if left := parentLeftovers(t, out); len(left) > 0 {
 		t.Errorf("left behind %v", left)
+	}
+}
+
+// TestStageAbort: a stage aborted leaves the output directory as it was,
+// nothing beside it but the lock file, and the lock free for the next run;
+// a stage ends once.
+func TestStageAbort(t *testing.T) {
+	out := filepath.Join(t.TempDir(), "layers")
+	if err := publishFiles(out, all, nil); err != nil {
+		t.Fatal(err)
+	}
+	before := hashDir(t, out)
+	s, err := Begin(out, Options{Owned: layerNames})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(filepath.Join(s.Dir(), "index.tif"), []byte("new"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := Begin(out, Options{}); err == nil {
+		t.Error("a second stage began while the first holds the lock")
+	}
+	s.Abort()
+	s.Abort()
+	if err := s.Commit(); err == nil {
+		t.Error("Commit after Abort succeeded")
+	}
+	after := hashDir(t, out)
+	if len(after) != len(before) || after["index.tif"] != before["index.tif"] {
+		t.Errorf("aborted stage changed the output: %v -> %v", before, after)
+	}
+	if left := parentLeftovers(t, out); len(left) > 0 {
+		t.Errorf("left behind %v", left)
+	}
+	if err := publishFiles(out, []string{"index.tif"}, nil); err != nil {
+		t.Errorf("after Abort: %v", err)
 	}
 }

@@ -1,8 +1,8 @@
-package main
+package publish
 
 // Atomic publish of an output directory.
 //
-// A run writes every file into a fresh temporary directory BESIDE the output
+// A run (Begin) writes every file into a fresh temporary directory BESIDE the output
 // directory OUT (same parent, so renames stay on one file system), named
 // .OUT.drygrid-tmp-PID-RANDOM. Only when every layer and the manifest are
 // complete is it swapped in:
@@ -25,12 +25,12 @@ package main
 // before it starts (or do it by hand: mv .OUT.drygrid-old-* OUT). A crash
 // after step 3 leaves the old directory beside OUT; the next run removes it.
 // A crash or an error before step 2 leaves OUT byte-identical. Temporary
-// directories whose process is gone, or older than publishStaleAfter, are
+// directories whose process is gone, or older than an hour, are
 // removed at the next run on the same OUT.
 //
-// drygrid's own files are the names in layerFiles, manifest.json, the files
-// this run writes, and those listed in OUT's previous manifest.json; they
-// are replaced, and an earlier layer that this run does not write (another
+// drygrid's own files are the names in Options.Owned (the layers' files,
+// manifest.json and the run's extra files) and those its previous
+// manifest.json lists (Options.Previous); they are replaced, and an earlier layer that this run does not write (another
 // --layers choice) disappears, so OUT always matches its manifest. A file
 // this run reads as an input is always carried over.
 //
@@ -43,7 +43,6 @@ package main
 
 import (
 	"crypto/rand"
-	"drygrid/manifest"
 	"encoding/hex"
 	"errors"
 	"fmt"
@@ -56,99 +55,164 @@ import (
 	"time"
 )
 
-// publishStaleAfter is the age after which a temporary directory is removed
+// staleAfter is the age after which a temporary directory is removed
 // even if a process with its pid exists (pids are reused).
-const publishStaleAfter = time.Hour
+const staleAfter = time.Hour
 
 const (
-	publishTmpTag  = ".drygrid-tmp-"
-	publishOldTag  = ".drygrid-old-"
-	publishLockTag = ".drygrid-lock"
+	tmpTag  = ".drygrid-tmp-"
+	oldTag  = ".drygrid-old-"
+	LockTag = ".drygrid-lock"
 )
 
-// publishPlan is one publication.
-type publishPlan struct {
-	Out    string          // the output directory
-	Owned  map[string]bool // top-level names drygrid writes (replaced, never carried over)
-	Inputs []string        // files this run read (always carried over if inside Out)
-	// Write fills dir with the new files; it returns the names it wrote.
-	Write func(dir string) error
+// Options say which names of the output directory the writer owns.
+type Options struct {
+	// Owned are the top-level names the writer writes: they are replaced,
+	// never carried over (with those of the previous manifest.json).
+	Owned []string
+	// Inputs are files the run reads; one inside the output directory is
+	// always carried over.
+	Inputs []string
+	// Previous, when not nil, lists the names an earlier run recorded as
+	// its outputs in dir (the output directory as it is): they are the
+	// writer's too and are not carried over.
+	Previous func(dir string) []string
 }
 
-// publishDir runs p.Write into a temporary directory beside p.Out and swaps
-// it in when Write succeeds (see the file comment).
-func publishDir(p publishPlan) error {
-	out, err := publishTarget(p.Out)
+// Stage is a staging directory beside an output directory, holding the
+// output directory's lock from Begin until Commit or Abort.
+type Stage struct {
+	out    string // as given, for messages
+	abs    string // the directory replaced
+	dir    string // the staging directory
+	opt    Options
+	unlock func()
+	done   bool
+}
+
+// Begin locks the output directory out (creating its parent), recovers
+// from an earlier crash and makes a fresh staging directory beside out.
+// Write the new files into Dir, then Commit to swap them in or Abort to
+// drop them; either releases the lock.
+func Begin(out string, opt Options) (*Stage, error) {
+	abs, err := target(out)
 	if err != nil {
-		return err
+		return nil, err
 	}
-	parent, base := filepath.Dir(out), filepath.Base(out)
+	parent, base := filepath.Dir(abs), filepath.Base(abs)
 	if err := os.MkdirAll(parent, 0o755); err != nil {
-		return fmt.Errorf("output directory %s: %w", p.Out, err)
+		return nil, fmt.Errorf("output directory %s: %w", out, err)
 	}
-	unlock, err := publishLock(parent, base, p.Out)
+	unlock, err := lock(parent, base, out)
+	if err != nil {
+		return nil, err
+	}
+	if err := recoverDir(parent, base); err != nil {
+		unlock()
+		return nil, err
+	}
+	tmp, err := os.MkdirTemp(parent, "."+base+tmpTag+strconv.Itoa(os.Getpid())+"-")
+	if err != nil {
+		unlock()
+		return nil, fmt.Errorf("output directory %s: %w", out, err)
+	}
+	return &Stage{out: out, abs: abs, dir: tmp, opt: opt, unlock: unlock}, nil
+}
+
+// Dir is the staging directory the new files go into.
+func (s *Stage) Dir() string { return s.dir }
+
+// Abort removes the staging directory and releases the lock, leaving the
+// output directory as it was. It does nothing after Commit or Abort.
+func (s *Stage) Abort() {
+	if s.done {
+		return
+	}
+	s.done = true
+	os.RemoveAll(s.dir)
+	s.unlock()
+}
+
+// Commit carries the files the writer does not own over into the staging
+// directory (as hard links) and swaps it in place of the output directory
+// (see the file comment). On an error before the swap the output
+// directory is left as it was and the staging directory is removed.
+func (s *Stage) Commit() error {
+	if s.done {
+		return fmt.Errorf("publish %s: already committed or aborted", s.out)
+	}
+	swapped, err := s.swap()
+	if !swapped {
+		os.RemoveAll(s.dir)
+	}
+	s.done = true
+	s.unlock()
+	return err
+}
+
+// Dir writes the files of write into a staging directory beside out and
+// swaps it in when write succeeds: Begin, write, Commit.
+func Dir(out string, opt Options, write func(dir string) error) error {
+	s, err := Begin(out, opt)
 	if err != nil {
 		return err
 	}
-	defer unlock()
-	if err := publishRecover(parent, base); err != nil {
+	if err := write(s.Dir()); err != nil {
+		s.Abort()
 		return err
 	}
-	tmp, err := os.MkdirTemp(parent, "."+base+publishTmpTag+strconv.Itoa(os.Getpid())+"-")
-	if err != nil {
-		return fmt.Errorf("output directory %s: %w", p.Out, err)
-	}
-	done := false
-	defer func() {
-		if !done {
-			os.RemoveAll(tmp)
-		}
-	}()
-	if err := p.Write(tmp); err != nil {
-		return err
+	return s.Commit()
+}
+
+// swap is Commit's work; swapped reports whether the staging directory
+// has become the output directory.
+func (s *Stage) swap() (swapped bool, err error) {
+	out, tmp := s.abs, s.dir
+	parent, base := filepath.Dir(out), filepath.Base(out)
+	owned := map[string]bool{}
+	for _, name := range s.opt.Owned {
+		owned[name] = true
 	}
 	mode := fs.FileMode(0o755)
 	st, err := os.Stat(out)
 	exists := err == nil
 	if exists {
 		mode = st.Mode().Perm()
-		if err := publishCarryOver(out, tmp, p.Owned, p.Inputs); err != nil {
-			return err
+		if err := carryOver(out, tmp, owned, s.opt); err != nil {
+			return false, err
 		}
 	} else if !errors.Is(err, fs.ErrNotExist) {
-		return fmt.Errorf("output directory %s: %w", p.Out, err)
+		return false, fmt.Errorf("output directory %s: %w", s.out, err)
 	}
 	if err := os.Chmod(tmp, mode); err != nil {
-		return fmt.Errorf("output directory %s: %w", p.Out, err)
+		return false, fmt.Errorf("output directory %s: %w", s.out, err)
 	}
 	if !exists {
 		if err := os.Rename(tmp, out); err != nil {
-			return fmt.Errorf("publish %s: %w", p.Out, err)
+			return false, fmt.Errorf("publish %s: %w", s.out, err)
 		}
-		done = true
-		return nil
+		return true, nil
 	}
-	old := filepath.Join(parent, "."+base+publishOldTag+strconv.Itoa(os.Getpid())+"-"+publishRandom())
+	old := filepath.Join(parent, "."+base+oldTag+strconv.Itoa(os.Getpid())+"-"+random())
 	if err := os.Rename(out, old); err != nil {
-		return fmt.Errorf("publish %s: moving the previous directory aside: %w", p.Out, err)
+		return false, fmt.Errorf("publish %s: moving the previous directory aside: %w", s.out, err)
 	}
 	if err := os.Rename(tmp, out); err != nil {
 		if rerr := os.Rename(old, out); rerr != nil {
-			return fmt.Errorf("publish %s: %v; the previous contents are in %s (rename it back: %v)", p.Out, err, old, rerr)
+			return false, fmt.Errorf("publish %s: %v; the previous contents are in %s (rename it back: %v)", s.out, err, old, rerr)
 		}
-		return fmt.Errorf("publish %s: %w", p.Out, err)
+		return false, fmt.Errorf("publish %s: %w", s.out, err)
 	}
-	done = true
 	if err := os.RemoveAll(old); err != nil {
-		return fmt.Errorf("publish %s: published, but the previous directory %s was not removed: %w", p.Out, old, err)
+		return true, fmt.Errorf("publish %s: published, but the previous directory %s was not removed: %w", s.out, old, err)
 	}
-	return nil
+	return true, nil
 }
 
-// publishLock takes the lock of the output directory base in parent (see
+// lock takes the lock of the output directory base in parent (see
 // the file comment) and returns the function that releases it.
-func publishLock(parent, base, out string) (unlock func(), err error) {
-	path := filepath.Join(parent, "."+base+publishLockTag)
+func lock(parent, base, out string) (unlock func(), err error) {
+	path := filepath.Join(parent, "."+base+LockTag)
 	f, err := os.OpenFile(path, os.O_RDWR|os.O_CREATE, 0o644)
 	if err != nil {
 		return nil, fmt.Errorf("output directory %s: lock: %w", out, err)
@@ -166,10 +230,10 @@ func publishLock(parent, base, out string) (unlock func(), err error) {
 	}, nil
 }
 
-// publishTarget is the absolute directory to replace: Out itself, or the
+// target is the absolute directory to replace: Out itself, or the
 // directory a symbolic link at Out points to. Out may not exist yet; it may
 // not be a file, the root, or hold the working directory.
-func publishTarget(out string) (string, error) {
+func target(out string) (string, error) {
 	abs, err := filepath.Abs(out)
 	if err != nil {
 		return "", fmt.Errorf("output directory %s: %w", out, err)
@@ -191,22 +255,22 @@ func publishTarget(out string) (string, error) {
 		return "", fmt.Errorf("output directory %s: the root cannot be replaced; choose a directory below it", out)
 	}
 	if wd, err := os.Getwd(); err == nil {
-		if rel, err := filepath.Rel(abs, wd); err == nil && !publishOutside(rel) {
+		if rel, err := filepath.Rel(abs, wd); err == nil && !outside(rel) {
 			return "", fmt.Errorf("output directory %s holds the working directory; choose a directory outside it", out)
 		}
 	}
 	return abs, nil
 }
 
-func publishRandom() string {
+func random() string {
 	var b [6]byte
 	rand.Read(b[:])
 	return hex.EncodeToString(b[:])
 }
 
-// publishRecover restores a previous directory left aside by a crash between
+// recoverDir restores a previous directory left aside by a crash between
 // the two renames, and removes stale temporary and old directories of base.
-func publishRecover(parent, base string) error {
+func recoverDir(parent, base string) error {
 	entries, err := os.ReadDir(parent)
 	if err != nil {
 		return fmt.Errorf("output directory %s: %w", filepath.Join(parent, base), err)
@@ -217,15 +281,15 @@ func publishRecover(parent, base string) error {
 	var olds []string
 	for _, e := range entries {
 		name := e.Name()
-		for _, tag := range []string{publishTmpTag, publishOldTag} {
+		for _, tag := range []string{tmpTag, oldTag} {
 			prefix := "." + base + tag
 			if !strings.HasPrefix(name, prefix) || !e.IsDir() {
 				continue
 			}
-			if !publishStale(filepath.Join(parent, name), name[len(prefix):]) {
+			if !stale(filepath.Join(parent, name), name[len(prefix):]) {
 				continue
 			}
-			if tag == publishOldTag {
+			if tag == oldTag {
 				olds = append(olds, name)
 			} else {
 				os.RemoveAll(filepath.Join(parent, name))
@@ -256,10 +320,10 @@ func publishRecover(parent, base string) error {
 	return nil
 }
 
-// publishStale reports whether a temporary directory with suffix "PID-RAND"
-// belongs to no running process, or is older than publishStaleAfter.
-func publishStale(path, suffix string) bool {
-	if st, err := os.Stat(path); err == nil && time.Since(st.ModTime()) > publishStaleAfter {
+// stale reports whether a temporary directory with suffix "PID-RAND"
+// belongs to no running process, or is older than staleAfter.
+func stale(path, suffix string) bool {
+	if st, err := os.Stat(path); err == nil && time.Since(st.ModTime()) > staleAfter {
 		return true
 	}
 	pidStr, _, _ := strings.Cut(suffix, "-")
@@ -278,25 +342,23 @@ func publishStale(path, suffix string) bool {
 	return errors.Is(err, os.ErrProcessDone) || errors.Is(err, syscall.ESRCH)
 }
 
-// publishCarryOver hard-links every entry of out that drygrid does not own
+// carryOver hard-links every entry of out that drygrid does not own
 // into tmp, recreating directories.
-func publishCarryOver(out, tmp string, owned map[string]bool, inputs []string) error {
+func carryOver(out, tmp string, owned map[string]bool, opt Options) error {
 	keep := map[string]bool{}
-	for _, in := range inputs {
+	for _, in := range opt.Inputs {
 		abs, err := filepath.Abs(in)
 		if err != nil {
 			continue
 		}
-		if rel, err := filepath.Rel(out, abs); err == nil && !publishOutside(rel) && rel != "." {
+		if rel, err := filepath.Rel(out, abs); err == nil && !outside(rel) && rel != "." {
 			keep[strings.Split(filepath.ToSlash(rel), "/")[0]] = true
 		}
 	}
 	prev := map[string]bool{}
-	if b, err := os.ReadFile(filepath.Join(out, manifest.Name)); err == nil {
-		if names, err := manifest.ParseOutputs(filepath.Join(out, manifest.Name), b); err == nil {
-			for _, n := range names {
-				prev[strings.Split(n, "/")[0]] = true
-			}
+	if opt.Previous != nil {
+		for _, n := range opt.Previous(out) {
+			prev[strings.Split(n, "/")[0]] = true
 		}
 	}
 	entries, err := os.ReadDir(out)
@@ -305,40 +367,38 @@ func publishCarryOver(out, tmp string, owned map[string]bool, inputs []string) e
 	}
 	for _, e := range entries {
 		name := e.Name()
-		if !keep[name] && (owned[name] || prev[name] || publishLeftover(name)) {
+		if !keep[name] && (owned[name] || prev[name] || leftover(name, owned)) {
 			continue
 		}
 		dst := filepath.Join(tmp, name)
 		if _, err := os.Lstat(dst); err == nil {
 			return fmt.Errorf("output directory %s: %s is not drygrid's and would be overwritten; move it away", out, name)
 		}
-		if err := publishLink(filepath.Join(out, name), dst); err != nil {
+		if err := link(filepath.Join(out, name), dst); err != nil {
 			return fmt.Errorf("output directory %s: keeping %s (a file drygrid did not write): %w; move it out of the output directory", out, name, err)
 		}
 	}
 	return nil
 }
 
-// publishLeftover recognises drygrid's own debris inside an output
+// leftover recognises drygrid's own debris inside an output
 // directory: the staging directories of earlier versions and temporary files
 // of an interrupted atomic write of one of its files.
-func publishLeftover(name string) bool {
+func leftover(name string, owned map[string]bool) bool {
 	if strings.HasPrefix(name, ".drygrid-staging-") {
 		return true
 	}
-	for _, files := range layerFiles {
-		for _, f := range files {
-			if strings.HasPrefix(name, "."+f+".tmp-") {
-				return true
-			}
+	for f := range owned {
+		if strings.HasPrefix(name, "."+f+".tmp-") {
+			return true
 		}
 	}
-	return strings.HasPrefix(name, "."+manifest.Name+".tmp-")
+	return false
 }
 
-// publishLink recreates src at dst: directories are made anew, regular files
+// link recreates src at dst: directories are made anew, regular files
 // hard-linked, symbolic links copied as links.
-func publishLink(src, dst string) error {
+func link(src, dst string) error {
 	st, err := os.Lstat(src)
 	if err != nil {
 		return err
@@ -359,7 +419,7 @@ func publishLink(src, dst string) error {
 			return err
 		}
 		for _, e := range entries {
-			if err := publishLink(filepath.Join(src, e.Name()), filepath.Join(dst, e.Name())); err != nil {
+			if err := link(filepath.Join(src, e.Name()), filepath.Join(dst, e.Name())); err != nil {
 				return err
 			}
 		}
@@ -373,9 +433,9 @@ func publishLink(src, dst string) error {
 	return fmt.Errorf("%s is not a regular file, directory or symbolic link", src)
 }
 
-// publishOutside reports whether a relative path (from filepath.Rel) leaves
+// outside reports whether a relative path (from filepath.Rel) leaves
 // its base directory.
-func publishOutside(rel string) bool {
+func outside(rel string) bool {
 	rel = filepath.ToSlash(rel)
 	return rel == ".." || strings.HasPrefix(rel, "../") || filepath.IsAbs(rel)
 }

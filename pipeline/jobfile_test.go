@@ -1,4 +1,4 @@
-package main
+package pipeline
 
 import (
 	"path/filepath"
@@ -23,29 +23,29 @@ key = "code"
 dir = "../out"
 layers = ["index", "bands", "regions"]
 `
-	j, err := parseJob(filepath.Join("jobs", "daily", "job.toml"), []byte(src))
+	j, err := ParseJobFile(filepath.Join("jobs", "daily", "job.toml"), []byte(src))
 	if err != nil {
 		t.Fatal(err)
 	}
-	if want := filepath.Join("jobs", "daily", "values", "spi.csv"); j.Grid.Stations != want {
-		t.Errorf("stations %s, want %s", j.Grid.Stations, want)
+	if want := filepath.Join("jobs", "daily", "values", "spi.csv"); j.Stations != want {
+		t.Errorf("stations %s, want %s", j.Stations, want)
 	}
-	if want := filepath.Join("jobs", "out"); j.Grid.Out != want {
-		t.Errorf("out %s, want %s", j.Grid.Out, want)
+	if want := filepath.Join("jobs", "out"); j.Out != want {
+		t.Errorf("out %s, want %s", j.Out, want)
 	}
-	if j.Grid.Regions != "/srv/districts.geojson" || j.Grid.RegionKey != "code" {
-		t.Errorf("regions %s key %s", j.Grid.Regions, j.Grid.RegionKey)
+	if j.Regions != "/srv/districts.geojson" || j.RegionKey != "code" {
+		t.Errorf("regions %s key %s", j.Regions, j.RegionKey)
 	}
-	// Defaults of `drygrid grid` (DESIGN.md, "Command line").
-	p := j.Grid.Params
-	if j.Grid.Res != 0.1 || p.Power != 2 || p.Neighbors != 12 || p.RadiusKm != 300 || p.MinStations != 3 {
-		t.Errorf("defaults res %g params %+v", j.Grid.Res, p)
+	// Defaults of `drygrid grid` (docs/design.md, "Command line").
+	p := j.Params
+	if j.Res != 0.1 || p.Power != 2 || p.Neighbors != 12 || p.RadiusKm != 300 || p.MinStations != 3 {
+		t.Errorf("defaults res %g params %+v", j.Res, p)
 	}
-	if b := *j.Grid.BBox; b != [4]float64{170, -50, -170, -30} {
+	if b := *j.BBox; b != [4]float64{170, -50, -170, -30} {
 		t.Errorf("bbox %v", b)
 	}
-	if j.Grid.Layers.String() != "index,bands,regions" || j.Totals != "" || j.Year != 2024 {
-		t.Errorf("layers %s totals %q year %d", j.Grid.Layers, j.Totals, j.Year)
+	if j.Layers.String() != "index,bands,regions" || j.Index != nil || j.ExtraParams["year"] != 2024 {
+		t.Errorf("layers %s index %v year %v", j.Layers, j.Index, j.ExtraParams["year"])
 	}
 }
 
@@ -80,7 +80,7 @@ func TestParseJobErrors(t *testing.T) {
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
-			_, err := parseJob("j.toml", []byte(c.src))
+			_, err := ParseJobFile("j.toml", []byte(c.src))
 			if err == nil || !strings.Contains(err.Error(), c.want) {
 				t.Errorf("error %v\nwant it to contain %q", err, c.want)
 			}
@@ -92,10 +92,10 @@ func TestParseJobErrors(t *testing.T) {
 // counted from the first line of the file.
 func TestParseJobBOM(t *testing.T) {
 	src := "\ufeff[inputs]\nstations = \"s.csv\"\n[output]\ndir = \"o\"\n"
-	if _, err := parseJob("j.toml", []byte(src)); err != nil {
+	if _, err := ParseJobFile("j.toml", []byte(src)); err != nil {
 		t.Fatalf("BOM: %v", err)
 	}
-	_, err := parseJob("j.toml", []byte(src+"bogus = 1\n"))
+	_, err := ParseJobFile("j.toml", []byte(src+"bogus = 1\n"))
 	if err == nil || !strings.Contains(err.Error(), "line 5 column 9") {
 		t.Errorf("BOM + unknown key: %v", err)
 	}
@@ -104,54 +104,36 @@ func TestParseJobBOM(t *testing.T) {
 // FuzzParseJob: no job file panics the parser, and whatever it accepts has
 // the stations and the output directory a run needs.
 func FuzzParseJob(f *testing.F) {
-	f.Add([]byte(jobExample))
+	f.Add([]byte(JobExample))
 	f.Add([]byte("[inputs]\nstations = \"s.csv\"\n[output]\ndir = \"o\"\n"))
 	f.Add([]byte("[grid]\nbbox = [1e999, 2, 3, 4]\nres = nan\n"))
 	f.Add([]byte("a = '''\nx\n'''\n[[b]]\nc.d = 1\n"))
 	f.Fuzz(func(t *testing.T, data []byte) {
-		j, err := parseJob("fuzz.toml", data)
+		j, err := ParseJobFile("fuzz.toml", data)
 		if err != nil {
 			if !strings.HasPrefix(err.Error(), "job fuzz.toml") {
 				t.Fatalf("error without the file name: %v", err)
 			}
 			return
 		}
-		if j.Grid.Stations == "" || j.Grid.Out == "" || len(j.Grid.Layers) == 0 {
+		if j.Stations == "" || j.Out == "" || len(j.Layers) == 0 {
 			t.Fatalf("accepted a job without stations, output or layers: %+v", j)
 		}
-		if err := j.Grid.Params.Validate(); err != nil {
+		if err := j.Params.Validate(); err != nil {
 			t.Fatalf("accepted invalid interpolation: %v", err)
 		}
 	})
 }
 
-// TestRunUsage: calling run wrongly is a usage error (exit 2, DESIGN.md
-// "Command line"); a missing job file is a data error naming it.
-func TestRunUsage(t *testing.T) {
-	for _, args := range [][]string{{"run"}, {"run", "a.toml", "b.toml"}, {"run", "--example", "a.toml"}, {"run", "--bogus", "a.toml"}} {
-		if code := run(args); code != exitUsage {
-			t.Errorf("drygrid %s: exit %d, want %d", strings.Join(args, " "), code, exitUsage)
-		}
-	}
-	msg := captureStderr(t, func() {
-		if code := run([]string{"run", filepath.Join(t.TempDir(), "none.toml")}); code != exitData {
-			t.Errorf("missing job: exit %d", code)
-		}
-	})
-	if !strings.Contains(msg, "none.toml") {
-		t.Errorf("message %q does not name the job file", msg)
-	}
-}
-
 // TestParseJobSectors: the interpolation table carries --sectors and
-// --crossval into the run (issue 9 through the job file).
+// --crossval into the run (direction sectors and cross-validation through the job file).
 func TestParseJobSectors(t *testing.T) {
 	src := "[inputs]\nstations = \"s.csv\"\n[interpolation]\nsectors = 8\nneighbors = 16\ncrossval = true\n[output]\ndir = \"o\"\n"
-	j, err := parseJob("j.toml", []byte(src))
+	j, err := ParseJobFile("j.toml", []byte(src))
 	if err != nil {
 		t.Fatal(err)
 	}
-	if j.Grid.Params.Sectors != 8 || j.Grid.Params.Neighbors != 16 || !j.Grid.CrossVal {
-		t.Errorf("params %+v crossval %v", j.Grid.Params, j.Grid.CrossVal)
+	if j.Params.Sectors != 8 || j.Params.Neighbors != 16 || !j.CrossVal {
+		t.Errorf("params %+v crossval %v", j.Params, j.CrossVal)
 	}
 }

@@ -1,0 +1,50 @@
+package main
+
+import (
+	"context"
+	"fmt"
+	"io"
+	"os"
+	"os/signal"
+	"syscall"
+	"time"
+
+	"drygrid/pipeline"
+)
+
+// manifestNow is the clock of the manifest's timings (a variable so that
+// tests can stop it; timings are the one member allowed to differ between
+// runs).
+var manifestNow = time.Now
+
+// runJob runs a job with the command line's progress bar, warnings and
+// notes on stderr, and prints the closing summary.
+func runJob(job pipeline.Job, stderr io.Writer) (*pipeline.Result, error) {
+	job.Version = version
+	job.Clock = func() time.Time { return manifestNow() }
+	job.Warn = func(msg string) { fmt.Fprintf(stderr, "warning: %s\n", msg) }
+	job.Note = func(msg string) { fmt.Fprintln(stderr, msg) }
+	var bar *progress
+	job.Progress = func(_ string, done, total int) {
+		if bar == nil {
+			bar = newProgress(stderr, total, "gridding")
+		}
+		bar.set(done, total)
+	}
+	// An interrupt stops the run between row blocks; the staging
+	// directory is removed and the output directory left as it was.
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
+	defer stop()
+	res, err := pipeline.Run(ctx, job)
+	if bar != nil {
+		bar.done()
+	}
+	if err != nil {
+		if res != nil { // published, but a later step failed
+			printSummary(stderr, job, res)
+		}
+		return nil, err
+	}
+	printSummary(stderr, job, res)
+	return res, nil
+}

@@ -1,0 +1,133 @@
+package pipeline
+
+import (
+	"bytes"
+	"context"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"strings"
+
+	"drygrid/history"
+	"drygrid/interp"
+	"drygrid/layer/chart"
+	"drygrid/scenario"
+	"drygrid/station"
+)
+
+// demoHistoryYears is how many target years, ending with the scenario's,
+// the demo puts in its history of area in drought.
+const demoHistoryYears = 10
+
+// DemoJob prepares the demo: it writes the invented scenario's inputs into
+// out/inputs (stations, window totals, districts), runs the index step on
+// them into out/inputs/index.csv, and computes, in memory, the history of
+// area in drought per district over the last ten target years and its
+// chart. It returns the job that maps the target year with every layer,
+// the history and the chart among its files. note, when not nil, receives
+// one line on each step.
+func DemoJob(ctx context.Context, out string, note func(string)) (Job, error) {
+	if note == nil {
+		note = func(string) {}
+	}
+	sc := scenario.DemoScenario()
+	in := filepath.Join(out, "inputs")
+	if err := os.MkdirAll(in, 0o755); err != nil {
+		return Job{}, fmt.Errorf("demo: %w", err)
+	}
+	stationsCSV := filepath.Join(in, "stations.csv")
+	totalsCSV := filepath.Join(in, "totals.csv")
+	districts := filepath.Join(in, "districts.geojson")
+	if err := writeStream(stationsCSV, sc.WriteStationsCSV); err != nil {
+		return Job{}, err
+	}
+	if err := writeStream(totalsCSV, sc.WriteTotalsCSV); err != nil {
+		return Job{}, err
+	}
+	if err := writeStream(districts, func(w io.Writer) error { return writeDemoDistricts(w, sc.BBox) }); err != nil {
+		return Job{}, err
+	}
+	note(fmt.Sprintf("demo: %s, %d invented stations, target year %d (%s)", sc.Name, len(sc.Sites), sc.TargetYear, sc.Window))
+
+	res, err := station.ComputeIndex(stationsCSV, totalsCSV, station.IndexOptions{Year: sc.TargetYear})
+	if err != nil {
+		return Job{}, fmt.Errorf("demo index: %w", err)
+	}
+	values := filepath.Join(in, "index.csv")
+	if err := WriteIndexTable(values, res); err != nil {
+		return Job{}, err
+	}
+	s := res.Summary()
+	note(fmt.Sprintf("index: %d stations, %d with percentile and SPI for %d, %d without (%d with too few years, %d without a %d total)",
+		s.Stations, s.WithIndex, s.Year, s.Stations-s.WithIndex, s.TooFewYears, s.NoTotal, s.Year))
+
+	layers, _ := ParseLayers("all")
+	job := Job{
+		Command:  "demo",
+		Stations: values,
+		Values:   station.ValueOptions{Kind: station.KindSPI},
+		Res:      0.05,
+		BBox:     &sc.BBox,
+		Params:   interp.DefaultParams(),
+		Regions:  districts, RegionKey: "name",
+		Layers: layers,
+		Title:  fmt.Sprintf("%s: SPI, %s %d", capitalize(sc.Name), sc.Window, sc.TargetYear),
+		Out:    out,
+	}
+	job.Params.RadiusKm = sc.RadiusKm
+	hist, chartPNG, err := demoHistory(ctx, sc, stationsCSV, totalsCSV, job)
+	if err != nil {
+		return Job{}, err
+	}
+	note(fmt.Sprintf("history: %d years of area in drought per district (history.csv, chart.png)", demoHistoryYears))
+	job.Extra = map[string][]byte{"history.csv": hist, "chart.png": chartPNG}
+	return job, nil
+}
+
+// demoHistory computes, for each of the last demoHistoryYears years of the
+// scenario (dated on the window's last day), the index step and the area
+// in each band per district, in memory, and returns the history table and
+// its chart. The template job gives the grid, parameters and regions.
+func demoHistory(ctx context.Context, sc *scenario.Scenario, stationsCSV, totalsCSV string, tmpl Job) (historyCSV, chartPNG []byte, err error) {
+	var days []history.Day
+	var res *Result
+	for y := sc.TargetYear - demoHistoryYears + 1; y <= sc.TargetYear; y++ {
+		idx, err := station.ComputeIndex(stationsCSV, totalsCSV, station.IndexOptions{Year: y})
+		if err != nil {
+			return nil, nil, fmt.Errorf("demo history %d: %w", y, err)
+		}
+		var buf bytes.Buffer
+		if err := station.WriteIndexCSV(&buf, idx); err != nil {
+			return nil, nil, fmt.Errorf("demo history %d: %w", y, err)
+		}
+		job := tmpl
+		job.Stations, job.StationsData = fmt.Sprintf("index-%d.csv", y), buf.Bytes()
+		if res, err = Compute(ctx, job); err != nil {
+			return nil, nil, fmt.Errorf("demo history %d: %w", y, err)
+		}
+		days = append(days, history.Day{Date: fmt.Sprintf("%d-11-30", y), Stats: res.Regions})
+	}
+	var csv bytes.Buffer
+	if err := history.Encode(&csv, days, res.Scheme); err != nil {
+		return nil, nil, err
+	}
+	h, err := history.Parse("history.csv", bytes.NewReader(csv.Bytes()))
+	if err != nil {
+		return nil, nil, err
+	}
+	var png bytes.Buffer
+	opt := chart.Options{Title: fmt.Sprintf("%s: share of each district in drought, %s", capitalize(sc.Name), sc.Window)}
+	if err := chart.Encode(&png, h, opt); err != nil {
+		return nil, nil, err
+	}
+	return csv.Bytes(), png.Bytes(), nil
+}
+
+// capitalize upper-cases the first letter of a title.
+func capitalize(s string) string {
+	if s == "" {
+		return s
+	}
+	return strings.ToUpper(s[:1]) + s[1:]
+}

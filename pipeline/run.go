@@ -1,0 +1,413 @@
+package pipeline
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"os"
+	"path/filepath"
+	"strings"
+	"time"
+	"unicode/utf8"
+
+	"drygrid/bands"
+	"drygrid/grid"
+	"drygrid/history"
+	"drygrid/interp"
+	"drygrid/manifest"
+	"drygrid/publish"
+	"drygrid/region"
+	"drygrid/station"
+)
+
+// Result is what a run made.
+type Result struct {
+	Values *station.Values // the stations read
+	Spec   grid.Spec
+	Scheme *bands.Scheme
+	// Index and Bands are the rasters; nil when the run streamed them
+	// row block by row block into the GeoTIFF files (only the rasters
+	// asked for, no regions).
+	Index *grid.Float32
+	Bands *grid.Uint8
+	// Regions are the area-in-band statistics per region (with Job.Regions).
+	Regions []region.ZonalStats
+	// IndexStep is the index step's result (with Job.Index).
+	IndexStep *station.IndexResult
+
+	// CoveredCells are the cells with a value; CoveredPct is their share
+	// of the grid's area, BandPct each band's share of the covered area
+	// (by band code) and InDroughtPct that of the drought bands, all in
+	// percent, cells weighted by their area on the ellipsoid.
+	CoveredCells int
+	CoveredPct   float64
+	BandPct      map[uint8]float64
+	InDroughtPct float64
+
+	// CrossVal holds the leave-one-out figures (with Job.CrossVal).
+	CrossVal *interp.CrossValResult
+	// Files are the files published (manifest.json last); Elapsed the
+	// run's time.
+	Files   []string
+	Elapsed time.Duration
+	// History is what was added to the history file (with Job.History).
+	History *HistoryRows
+	// Timings are the seconds of each step, as in the manifest.
+	Timings map[string]float64
+
+	rows  func(row0, n int, dst []float32) error // streams the index rows (Index and Bands nil)
+	tally *bands.Tally
+}
+
+// HistoryRows are the rows a run added to a history file.
+type HistoryRows struct {
+	Path, Date string
+	Rows       int
+}
+
+// inputs are the files a run reads besides the stations.
+type inputs struct {
+	scheme  *bands.Scheme
+	regions []region.Region
+}
+
+// Run runs the job: the index step (with Job.Index), reading the
+// stations, interpolating, classifying, tallying the bands, the layers and
+// the manifest written into a staging directory beside Job.Out, which is
+// published in place of Job.Out only when every file is complete (package
+// publish), so a failed run leaves earlier outputs untouched; then the
+// history rows (with Job.History). The context is checked between row
+// blocks.
+func Run(ctx context.Context, job Job) (*Result, error) {
+	res, in, start, err := compute(ctx, &job, streamable(job))
+	if err != nil {
+		return nil, err
+	}
+	if err := writeLayers(ctx, &job, res, in.regions, start); err != nil {
+		return nil, err
+	}
+	res.Elapsed = job.now().Sub(start)
+	if job.History != "" {
+		date := job.Date
+		if date == "" {
+			date = time.Now().UTC().Format("2006-01-02")
+		}
+		if err := history.Append(job.History, date, res.Regions, res.Scheme); err != nil {
+			return res, fmt.Errorf("layers published in %s, but the history was not updated: %w", job.Out, err)
+		}
+		res.History = &HistoryRows{Path: job.History, Date: date, Rows: len(res.Regions)}
+	}
+	return res, nil
+}
+
+// Compute runs the job in memory and writes nothing: the index step, the
+// stations, the index and band rasters, the band shares and the statistics
+// of the regions. Job.Out and Job.Layers are not used.
+func Compute(ctx context.Context, job Job) (*Result, error) {
+	if job.Out == "" {
+		job.Out = "."
+	}
+	if len(job.Layers) == 0 {
+		job.Layers = LayerSet{"index": true}
+	}
+	res, _, _, err := compute(ctx, &job, false)
+	return res, err
+}
+
+// compute validates the job and runs it up to the layers; with stream the
+// rasters are left to be streamed into the files.
+func compute(ctx context.Context, job *Job, stream bool) (*Result, *inputs, time.Time, error) {
+	start := job.now()
+	if err := job.Validate(); err != nil {
+		return nil, nil, start, err
+	}
+	var res Result
+	if job.Index != nil && job.StationsData == nil {
+		r, err := runIndex(job, start)
+		if err != nil {
+			return nil, nil, start, err
+		}
+		res.IndexStep = r
+	}
+	in, err := readInputs(job)
+	if err != nil {
+		return nil, nil, start, err
+	}
+	vals, err := ReadValues(job.Stations, job.StationsData, job.Values, job.Warn)
+	if err != nil {
+		return nil, nil, start, err
+	}
+	pts := Points(vals)
+	spec, err := gridSpec(job, pts)
+	if err != nil {
+		return nil, nil, start, err
+	}
+	ip, err := interp.New(pts, job.Params)
+	if err != nil {
+		return nil, nil, start, err
+	}
+	read := job.now()
+	res.Values, res.Spec, res.Scheme = vals, spec, in.scheme
+	progress := func(done int) {
+		if job.Progress != nil {
+			job.Progress("grid", done, spec.Rows)
+		}
+	}
+	if stream {
+		// Only the rasters: rows go from the interpolator straight into
+		// the GeoTIFF writers (the same bytes, bounded memory).
+		res.rows = func(row0, n int, dst []float32) error {
+			if err := ctx.Err(); err != nil {
+				return err
+			}
+			if err := ip.Rows(spec, row0, n, dst); err != nil {
+				return err
+			}
+			progress(row0 + n)
+			return nil
+		}
+	} else {
+		index := grid.NewFloat32(spec, grid.NoDataIndex)
+		for row0 := 0; row0 < spec.Rows; row0 += rowBlock {
+			if err := ctx.Err(); err != nil {
+				return nil, nil, start, err
+			}
+			n := min(rowBlock, spec.Rows-row0)
+			if err := ip.Rows(spec, row0, n, index.Data[row0*spec.Cols:(row0+n)*spec.Cols]); err != nil {
+				return nil, nil, start, err
+			}
+			progress(row0 + n)
+		}
+		res.Index, res.Bands = index, bands.NewClassifier(in.scheme).Raster(index)
+		res.tally = bands.NewTally(spec)
+		res.tally.Add(0, spec.Rows, res.Bands.Data)
+		res.shares()
+		if len(in.regions) > 0 {
+			res.Regions = region.Zonal(res.Bands, index, in.regions)
+		}
+	}
+	gridded := job.now()
+	res.Timings = map[string]float64{
+		"read_s": seconds(read.Sub(start)), "grid_s": seconds(gridded.Sub(read)),
+	}
+	return &res, in, start, nil
+}
+
+// rowBlock is the number of rows interpolated between two looks at the
+// context (and two progress reports).
+const rowBlock = 256
+
+// shares fills the band shares from the tally.
+func (r *Result) shares() {
+	t := r.tally
+	r.CoveredCells = t.Cells
+	r.CoveredPct = t.CoveredPct()
+	r.BandPct = map[uint8]float64{}
+	for _, b := range r.Scheme.Bands {
+		r.BandPct[b.Code], _ = t.BandPct(b.Code)
+	}
+	r.InDroughtPct, _ = t.InDroughtPct(r.Scheme)
+}
+
+// now is the job's clock.
+func (j *Job) now() time.Time {
+	if j.Clock != nil {
+		return j.Clock()
+	}
+	return time.Now()
+}
+
+// seconds rounds a duration to milliseconds, in seconds.
+func seconds(d time.Duration) float64 { return float64(d.Milliseconds()) / 1000 }
+
+// readInputs reads the band scheme and the regions.
+func readInputs(job *Job) (*inputs, error) {
+	scheme, err := LoadScheme(job.Scheme)
+	if err != nil {
+		return nil, err
+	}
+	in := &inputs{scheme: scheme}
+	if job.Regions != "" {
+		r, err := region.ReadRegions(job.Regions, job.RegionKey)
+		if err != nil {
+			return nil, regionsErrPos(job.Regions, err)
+		}
+		in.regions = r
+	}
+	return in, nil
+}
+
+// ReadValues reads a station value table (from data when not nil, name
+// then only naming it), passes its warnings to warn and refuses a table
+// without a usable station.
+func ReadValues(name string, data []byte, opt station.ValueOptions, warn func(string)) (*station.Values, error) {
+	var vals *station.Values
+	var err error
+	if data != nil {
+		vals, err = station.ParseValues(name, bytes.NewReader(data), opt)
+	} else {
+		vals, err = station.ReadValues(name, opt)
+	}
+	if err != nil {
+		return nil, err
+	}
+	if warn != nil {
+		for _, w := range vals.Warnings {
+			warn(w)
+		}
+	}
+	if vals.Read == 0 {
+		return nil, fmt.Errorf("stations %s: the header has no data rows below it", name)
+	}
+	if len(vals.Stations) == 0 {
+		return nil, fmt.Errorf("stations %s: no station with a usable %s value (%d rows read)", name, vals.Column, vals.Read)
+	}
+	return vals, nil
+}
+
+// streamable reports whether the run writes only the rasters (index,
+// bands) and no regions, so the grid can be streamed row block by row block.
+func streamable(job Job) bool {
+	if job.Regions != "" {
+		return false
+	}
+	for name, on := range job.Layers {
+		if on && name != "index" && name != "bands" {
+			return false
+		}
+	}
+	return true
+}
+
+// gridSpec is the grid of the run: the bbox, or the stations' extent
+// widened by the search radius, snapped outward to the resolution.
+func gridSpec(job *Job, pts []interp.Point) (grid.Spec, error) {
+	var s grid.Spec
+	var err error
+	if job.BBox != nil {
+		b := *job.BBox
+		s, err = grid.NewSpec(b[0], b[1], b[2], b[3], job.Res)
+		if err != nil && !errors.Is(err, grid.ErrTooLarge) {
+			return s, &UsageError{Msg: "--bbox: " + err.Error(), Err: err}
+		}
+	} else {
+		w, so, e, n := interp.Extent(pts, job.Params.RadiusKm, job.Res)
+		s, err = grid.NewSpec(w, so, e, n, job.Res)
+	}
+	if errors.Is(err, grid.ErrTooLarge) {
+		return s, &UsageError{Msg: err.Error() + ": use a coarser --res or a smaller --bbox", Err: err}
+	}
+	return s, err
+}
+
+// LoadScheme reads a band scheme file, or gives the default bands for "".
+func LoadScheme(path string) (*bands.Scheme, error) {
+	if path == "" {
+		return bands.Default(), nil
+	}
+	return bands.LoadScheme(path)
+}
+
+// owned are the top-level names a run writes in its output directory.
+func owned(job *Job) []string {
+	names := []string{manifest.Name}
+	for _, files := range layerFiles {
+		names = append(names, files...)
+	}
+	for name := range job.Extra {
+		names = append(names, name)
+	}
+	return names
+}
+
+// previousOutputs lists the outputs the manifest in dir records.
+func previousOutputs(dir string) []string {
+	path := filepath.Join(dir, manifest.Name)
+	b, err := os.ReadFile(path)
+	if err != nil {
+		return nil
+	}
+	names, err := manifest.ParseOutputs(path, b)
+	if err != nil {
+		return nil
+	}
+	return names
+}
+
+// writeLayers writes the chosen layers, the extra files and the manifest
+// into a staging directory beside job.Out and publishes it in place of
+// job.Out once all are written.
+func writeLayers(ctx context.Context, job *Job, res *Result, regions []region.Region, start time.Time) error {
+	inputs := []string{job.Scheme, job.Regions}
+	if job.StationsData == nil {
+		inputs = append(inputs, job.Stations)
+	}
+	if job.JobFile != "" {
+		inputs = append(inputs, job.JobFile)
+	}
+	for _, in := range job.extraInputs {
+		inputs = append(inputs, in.Path)
+	}
+	opt := publish.Options{Owned: owned(job), Inputs: inputs, Previous: previousOutputs}
+	return publish.Dir(job.Out, opt, func(dir string) error {
+		writeStart := job.now()
+		w := &layerWriter{job: job, res: res, regions: regions, dir: dir}
+		for _, name := range AllLayers {
+			if !job.Layers[name] {
+				continue
+			}
+			if err := ctx.Err(); err != nil {
+				return err
+			}
+			if err := w.write(name); err != nil {
+				return fmt.Errorf("layer %s: %w", name, err)
+			}
+		}
+		for _, name := range sortedKeys(job.Extra) {
+			if err := writeBytes(filepath.Join(dir, name), job.Extra[name]); err != nil {
+				return err
+			}
+		}
+		res.Timings["write_s"] = seconds(job.now().Sub(writeStart))
+		m, err := buildManifest(job, res, dir, start)
+		if err != nil {
+			return err
+		}
+		if err := manifest.Write(dir, m); err != nil {
+			return err
+		}
+		res.Files = res.Files[:0]
+		for _, f := range m.Outputs {
+			res.Files = append(res.Files, f.Path)
+		}
+		res.Files = append(res.Files, manifest.Name)
+		return nil
+	})
+}
+
+// regionsErrPos adds the line and column to a JSON syntax error in the
+// regions file (the decoder reports a byte offset).
+func regionsErrPos(path string, err error) error {
+	var se *json.SyntaxError
+	if !errors.As(err, &se) {
+		return err
+	}
+	data, rerr := os.ReadFile(path)
+	if rerr != nil {
+		return err
+	}
+	off := int(se.Offset) - 1 // Offset is just past the offending byte
+	if off < 0 {
+		off = 0
+	}
+	if off > len(data) {
+		off = len(data)
+	}
+	before := data[:off]
+	line := bytes.Count(before, []byte{'\n'}) + 1
+	col := utf8.RuneCount(before[bytes.LastIndexByte(before, '\n')+1:]) + 1
+	msg := strings.TrimPrefix(err.Error(), "regions "+path+": ")
+	return fmt.Errorf("regions %s line %d column %d: %s", path, line, col, msg)
+}
