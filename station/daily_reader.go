@@ -116,7 +116,7 @@ func startChunks(r io.Reader) *chunkSource {
 			case <-cs.done:
 				return
 			}
-			n, err := io.ReadFull(r, buf)
+			n, err := readFull(r, buf)
 			if n > 0 {
 				select {
 				case cs.ch <- buf[:n]:
@@ -125,7 +125,7 @@ func startChunks(r io.Reader) *chunkSource {
 				}
 			}
 			if err != nil {
-				if err != io.EOF && err != io.ErrUnexpectedEOF {
+				if err != io.EOF {
 					cs.err = err
 				}
 				return
@@ -133,6 +133,21 @@ func startChunks(r io.Reader) *chunkSource {
 		}
 	}()
 	return cs
+}
+
+// readFull is io.ReadFull except that the reader's own errors come back
+// unchanged (io.ErrUnexpectedEOF from a truncated gzip stream is an error
+// here, while the end of the input is io.EOF).
+func readFull(r io.Reader, buf []byte) (int, error) {
+	n := 0
+	for n < len(buf) {
+		k, err := r.Read(buf[n:])
+		n += k
+		if err != nil {
+			return n, err
+		}
+	}
+	return n, nil
 }
 
 // stop ends the reading goroutine and waits for it.

@@ -47,6 +47,9 @@ func dailyGenCSV(g dailyGen) []byte {
 		}
 		a := g.from + Day(rng.IntN(span/2))
 		b := g.to - Day(rng.IntN(span/3))
+		if s%2 == 0 {
+			b = g.to // half the stations report to the end
+		}
 		gapFrom, gapTo := Day(-1), Day(-1)
 		if rng.IntN(2) == 0 { // a long gap (a month to a season)
 			gapFrom = a + Day(rng.IntN(int(b-a)))
