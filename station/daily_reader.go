@@ -25,10 +25,11 @@ const DailyLineLimit = 64 << 10
 // The input is read in dailyChunks rotating buffers of dailyChunk bytes by
 // a goroutine of its own (which also decompresses), while the rows are
 // parsed on the caller's.
-const (
-	dailyChunk  = 1 << 20
-	dailyChunks = 4
-)
+const dailyChunks = 4
+
+// dailyChunk is the size of a read buffer (a variable so that tests can
+// cut the input at every byte).
+var dailyChunk = 1 << 20
 
 // ReadDaily reads a long table of daily precipitation (station id, date,
 // precipitation, optional quality flag; CSV or TSV, delimiter sniffed,
@@ -57,7 +58,11 @@ func ReadDaily(path string, opt DailyOptions) (*WindowTotals, error) {
 		return nil, fmt.Errorf("daily %s: %w", path, err)
 	}
 	defer f.Close()
-	return readDaily(path, f, p, opt)
+	size := int64(-1)
+	if st, err := f.Stat(); err == nil && st.Mode().IsRegular() {
+		size = st.Size()
+	}
+	return readDaily(path, f, size, p, opt)
 }
 
 // ReadDailyReader is ReadDaily on a reader (standard input, tests); name
@@ -67,13 +72,24 @@ func ReadDailyReader(name string, r io.Reader, opt DailyOptions) (*WindowTotals,
 	if err != nil {
 		return nil, err
 	}
-	return readDaily(name, r, p, opt)
+	size := int64(-1)
+	if l, ok := r.(interface{ Len() int }); ok {
+		size = int64(l.Len()) // a bytes or strings reader
+	}
+	return readDaily(name, r, size, p, opt)
 }
 
-func readDaily(name string, r io.Reader, p *dailyPlan, opt DailyOptions) (*WindowTotals, error) {
+// readDaily reads the table; size is the input's size in bytes when known
+// (-1 otherwise), to size the read buffers of a small uncompressed input.
+func readDaily(name string, r io.Reader, size int64, p *dailyPlan, opt DailyOptions) (*WindowTotals, error) {
 	br := bufio.NewReaderSize(r, 64<<10)
 	var src io.Reader = br
+	chunk := dailyChunk
+	if size >= 0 && size < int64(chunk) {
+		chunk = max(int(size)+1, 16)
+	}
 	if magic, _ := br.Peek(2); len(magic) == 2 && magic[0] == 0x1f && magic[1] == 0x8b {
+		chunk = dailyChunk
 		zr, err := kgzip.NewReader(br)
 		if err != nil {
 			return nil, fmt.Errorf("daily %s: reading gzip header: %w", name, err)
@@ -82,7 +98,7 @@ func readDaily(name string, r io.Reader, p *dailyPlan, opt DailyOptions) (*Windo
 		src = zr
 	}
 	d := &dailyReader{name: name, p: p, opt: opt, accs: make(map[string]*dailyAcc)}
-	cs := startChunks(src)
+	cs := startChunks(src, chunk)
 	err := d.run(cs)
 	cs.stop()
 	if err != nil {
@@ -100,11 +116,11 @@ type chunkSource struct {
 	err    error // the read error that ended the input (not io.EOF); set before ch is closed
 }
 
-func startChunks(r io.Reader) *chunkSource {
+func startChunks(r io.Reader, chunk int) *chunkSource {
 	cs := &chunkSource{ch: make(chan []byte, dailyChunks), free: make(chan []byte, dailyChunks),
 		done: make(chan struct{}), exited: make(chan struct{})}
 	for range dailyChunks {
-		cs.free <- make([]byte, dailyChunk)
+		cs.free <- make([]byte, chunk)
 	}
 	go func() {
 		defer close(cs.exited)
