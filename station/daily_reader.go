@@ -194,6 +194,8 @@ type dailyReader struct {
 	lastDate []byte
 	lastDay  Day
 	lastYear int
+	// Day of month of lastDate, and the number of days of its month.
+	lastDD, lastMonthDays int
 
 	after, afterLine int
 }
@@ -287,26 +289,31 @@ func (d *dailyReader) line(raw []byte) error {
 	if len(raw) == 0 {
 		return nil
 	}
+	// Split at the delimiter by hand (fields are short); a line with a
+	// double quote goes to encoding/csv instead. After nf fields the rest
+	// is one more field (a wrong count, counted again for the message).
 	f := d.fields[:0]
-	if bytes.IndexByte(raw, '"') >= 0 {
+	quote := false
+	start := 0
+	for i, c := range raw {
+		if c == d.delim {
+			f = append(f, raw[start:i])
+			start = i + 1
+			if len(f) == d.nf {
+				break
+			}
+		} else if c == '"' {
+			quote = true
+			break
+		}
+	}
+	if quote {
 		var err error
-		if f, err = d.quoted(raw, f); err != nil {
+		if f, err = d.quoted(raw, f[:0]); err != nil {
 			return err
 		}
 	} else {
-		rest := raw
-		for {
-			i := bytes.IndexByte(rest, d.delim)
-			if i < 0 {
-				f = append(f, rest)
-				break
-			}
-			f = append(f, rest[:i])
-			rest = rest[i+1:]
-			if len(f) > d.nf {
-				break
-			}
-		}
+		f = append(f, raw[start:])
 	}
 	d.fields = f
 	if len(f) != d.nf {
@@ -330,7 +337,20 @@ func (d *dailyReader) line(raw []byte) error {
 
 	ds := dailyTrim(f[d.dateC])
 	day, year := d.lastDay, d.lastYear
-	if !bytes.Equal(ds, d.lastDate) || len(ds) == 0 {
+	if len(ds) == 10 && len(d.lastDate) == 10 && string(ds[:8]) == string(d.lastDate[:8]) {
+		// The month of the row before (the common case): only the day
+		// changes, if at all.
+		if ds[8] != d.lastDate[8] || ds[9] != d.lastDate[9] {
+			dd := int(ds[8]-'0')*10 + int(ds[9]-'0')
+			if ds[8] < '0' || ds[8] > '9' || ds[9] < '0' || ds[9] > '9' || dd < 1 || dd > d.lastMonthDays {
+				_, _, err := parseDateBytes(ds)
+				return d.fieldErr(d.dateC, "date %v", err)
+			}
+			day += Day(dd - d.lastDD)
+			d.lastDate[8], d.lastDate[9] = ds[8], ds[9]
+			d.lastDay, d.lastDD = day, dd
+		}
+	} else {
 		if len(ds) == 0 {
 			return d.fieldErr(d.dateC, "missing date")
 		}
@@ -344,6 +364,11 @@ func (d *dailyReader) line(raw []byte) error {
 		}
 		d.lastDate = append(d.lastDate[:0], ds...)
 		d.lastDay, d.lastYear = day, year
+		if len(ds) == 10 {
+			m := int(ds[5]-'0')*10 + int(ds[6]-'0')
+			d.lastDD = int(ds[8]-'0')*10 + int(ds[9]-'0')
+			d.lastMonthDays = DaysInMonth(year, m)
+		}
 	}
 	if day > d.p.target {
 		if d.after == 0 {
@@ -370,7 +395,9 @@ func (d *dailyReader) line(raw []byte) error {
 	var q int64
 	reported := false
 	if !d.flagged(f) {
-		if v := dailyTrim(f[d.valC]); len(v) != 0 {
+		if v := dailyTrim(f[d.valC]); len(v) == 1 && v[0] == '0' {
+			reported = true // the common dry day
+		} else if len(v) != 0 {
 			mm, ok, err := d.value(v)
 			if err != nil {
 				return err
