@@ -33,7 +33,7 @@ var dailyChunk = 1 << 20
 
 // ReadDaily reads a long table of daily precipitation (station id, date,
 // precipitation, optional quality flag; CSV or TSV, delimiter sniffed,
-// optionally gzip-compressed) and computes the trailing-window totals of
+// optionally gzip-compressed; or a Parquet file, see readDailyParquet) and computes the trailing-window totals of
 // every station for every year from its first record year to the target's.
 //
 // Missing is not zero: a day without a row, with an empty or NA value, or
@@ -61,6 +61,9 @@ func ReadDaily(path string, opt DailyOptions) (*WindowTotals, error) {
 	size := int64(-1)
 	if st, err := f.Stat(); err == nil && st.Mode().IsRegular() {
 		size = st.Size()
+		if isParquet(f) {
+			return readDailyParquet(path, f, size, p, opt)
+		}
 	}
 	return readDaily(path, f, size, p, opt)
 }
@@ -71,6 +74,12 @@ func ReadDailyReader(name string, r io.Reader, opt DailyOptions) (*WindowTotals,
 	p, err := opt.plan()
 	if err != nil {
 		return nil, err
+	}
+	if ra, ok := r.(interface {
+		io.ReaderAt
+		Size() int64
+	}); ok && isParquet(ra) {
+		return readDailyParquet(name, ra, ra.Size(), p, opt)
 	}
 	size := int64(-1)
 	if l, ok := r.(interface{ Len() int }); ok {
@@ -87,6 +96,9 @@ func readDaily(name string, r io.Reader, size int64, p *dailyPlan, opt DailyOpti
 	chunk := dailyChunk
 	if size >= 0 && size < int64(chunk) {
 		chunk = max(int(size)+1, 16)
+	}
+	if magic, _ := br.Peek(4); bytes.Equal(magic, parquetMagic) {
+		return nil, fmt.Errorf("daily %s: %w", name, errParquetStream)
 	}
 	if magic, _ := br.Peek(2); len(magic) == 2 && magic[0] == 0x1f && magic[1] == 0x8b {
 		chunk = dailyChunk
@@ -185,8 +197,9 @@ type dailyReader struct {
 	idC, dateC, valC, flagC int
 	fields                  [][]byte
 
-	lineNo int // physical line last read (1-based)
-	rows   int
+	lineNo  int  // physical line last read (1-based); the row of a Parquet file
+	parquet bool // reading a Parquet file
+	rows    int
 
 	accs     map[string]*dailyAcc
 	cur      *dailyAcc
@@ -370,26 +383,13 @@ func (d *dailyReader) line(raw []byte) error {
 			d.lastMonthDays = DaysInMonth(year, m)
 		}
 	}
-	if day > d.p.target {
-		if d.after == 0 {
-			d.afterLine = d.lineNo
-		}
-		d.after++
+	if d.afterTarget(day) {
 		return nil
 	}
 
-	a := d.cur
-	if a == nil || !bytes.Equal(id, d.curID) {
-		a = d.accs[string(id)]
-		if a == nil {
-			if !utf8.Valid(id) {
-				return d.fieldErr(d.idC, "station id is not valid UTF-8 text")
-			}
-			a = d.newAcc(string(id), year)
-			d.accs[a.id] = a
-		}
-		d.cur = a
-		d.curID = append(d.curID[:0], id...)
+	a, err := d.station(id, year)
+	if err != nil {
+		return err
 	}
 
 	var q int64
@@ -409,9 +409,41 @@ func (d *dailyReader) line(raw []byte) error {
 		}
 	}
 	if !d.add(a, day, year, q, reported) {
-		return d.fieldErr(d.dateC, "station %s has a second row for %s (a station-day may be given once)", a.id, ds)
+		return d.fieldErr(d.dateC, "station %s has a second row for %s (a station-day may be given once)", a.id, day)
 	}
 	return nil
+}
+
+// station returns the accumulator of the station id (not empty), made
+// when the station is new; year is the row's.
+func (d *dailyReader) station(id []byte, year int) (*dailyAcc, error) {
+	a := d.cur
+	if a != nil && bytes.Equal(id, d.curID) {
+		return a, nil
+	}
+	a = d.accs[string(id)]
+	if a == nil {
+		if !utf8.Valid(id) {
+			return nil, d.fieldErr(d.idC, "station id is not valid UTF-8 text")
+		}
+		a = d.newAcc(string(id), year)
+		d.accs[a.id] = a
+	}
+	d.cur = a
+	d.curID = append(d.curID[:0], id...)
+	return a, nil
+}
+
+// afterTarget counts a row dated after the target and reports true for it.
+func (d *dailyReader) afterTarget(day Day) bool {
+	if day <= d.p.target {
+		return false
+	}
+	if d.after == 0 {
+		d.afterLine = d.lineNo
+	}
+	d.after++
+	return true
 }
 
 // header gathers the lines up to the first non-blank one and reads the
@@ -435,26 +467,42 @@ func (d *dailyReader) header(raw []byte) error {
 	d.delim = byte(t.Delim)
 	d.nf = len(t.Header)
 	d.fields = make([][]byte, 0, d.nf+1)
-	if d.idC, err = t.FindColumn("station id", d.opt.IDColumn, IDAliases); err != nil {
-		return fmt.Errorf("daily %w", err)
+	// The header is listed in messages up to 200 bytes (it may be junk).
+	header := strings.Join(t.Header, ", ")
+	if len(header) > 200 {
+		header = header[:200] + "..."
 	}
-	if d.dateC, err = t.FindColumn("date", d.opt.DateColumn, DateAliases); err != nil {
-		return fmt.Errorf("daily %w", err)
+	find := func(what, exact string, aliases []string) (int, error) {
+		i := -1
+		if exact != "" {
+			if i = t.Column(exact); i < 0 {
+				return -1, fmt.Errorf("daily %s line %d: no %s column named %q; the header has: %s", d.name, t.HeaderLine, what, exact, header)
+			}
+		} else if i = t.Column(aliases...); i < 0 {
+			return -1, fmt.Errorf("daily %s line %d: no %s column (looked for %s); the header has: %s", d.name, t.HeaderLine, what, strings.Join(aliases, "|"), header)
+		}
+		return i, nil
 	}
-	if d.valC, err = t.FindColumn("precipitation", d.opt.ValueColumn, PrecipAliases); err != nil {
-		return fmt.Errorf("daily %w", err)
+	if d.idC, err = find("station id", d.opt.IDColumn, IDAliases); err != nil {
+		return err
+	}
+	if d.dateC, err = find("date", d.opt.DateColumn, DateAliases); err != nil {
+		return err
+	}
+	if d.valC, err = find("precipitation", d.opt.ValueColumn, PrecipAliases); err != nil {
+		return err
 	}
 	d.flagC = -1
 	if d.opt.FlagColumn != "" {
-		if d.flagC, err = t.FindColumn("flag", d.opt.FlagColumn, FlagAliases); err != nil {
-			return fmt.Errorf("daily %w", err)
+		if d.flagC, err = find("flag", d.opt.FlagColumn, FlagAliases); err != nil {
+			return err
 		}
 	} else {
 		d.flagC = t.Column(FlagAliases...)
 	}
 	if d.flagC < 0 && len(d.p.flags) > 0 {
 		return fmt.Errorf("daily %s line %d: flags to exclude are given, but there is no flag column (looked for %s); the header has: %s",
-			d.name, t.HeaderLine, strings.Join(FlagAliases, "|"), strings.Join(t.Header, ", "))
+			d.name, t.HeaderLine, strings.Join(FlagAliases, "|"), header)
 	}
 	cols := []int{d.idC, d.dateC, d.valC, d.flagC}
 	names := []string{"station id", "date", "precipitation", "flag"}
@@ -490,7 +538,15 @@ func (d *dailyReader) quoted(raw []byte, f [][]byte) ([][]byte, error) {
 
 // fieldErr formats an error at column col of the current line.
 func (d *dailyReader) fieldErr(col int, format string, args ...any) error {
-	return fmt.Errorf("daily %s line %d column %d (%s): %s", d.name, d.lineNo, col+1, d.t.Header[col], fmt.Sprintf(format, args...))
+	return fmt.Errorf("daily %s %s %d column %d (%s): %s", d.name, d.where(), d.lineNo, col+1, d.t.Header[col], fmt.Sprintf(format, args...))
+}
+
+// where names what lineNo counts: lines of a table, rows of a Parquet file.
+func (d *dailyReader) where() string {
+	if d.parquet {
+		return "row"
+	}
+	return "line"
 }
 
 // flagged reports whether the row's flag is one of the excluded ones.
@@ -530,7 +586,14 @@ func (d *dailyReader) value(v []byte) (mm float64, ok bool, err error) {
 		}
 		x += 0 // -0 becomes 0
 	}
-	mm = x
+	mm, err = d.toMM(x, v)
+	return mm, err == nil, err
+}
+
+// toMM converts a value (finite, not negative) to mm and checks it against
+// MaxDailyMM; cell is the value as given, for the message.
+func (d *dailyReader) toMM(x float64, cell []byte) (float64, error) {
+	mm := x
 	switch d.p.units {
 	case UnitTenthMM:
 		mm = x / 10
@@ -538,9 +601,9 @@ func (d *dailyReader) value(v []byte) (mm float64, ok bool, err error) {
 		mm = x * 25.4
 	}
 	if mm > MaxDailyMM {
-		return 0, false, d.fieldErr(d.valC, "precipitation %s (%g mm) is more than %d mm in a day; check the units", v, mm, MaxDailyMM)
+		return 0, d.fieldErr(d.valC, "precipitation %s (%g mm) is more than %d mm in a day; check the units", cell, mm, MaxDailyMM)
 	}
-	return mm, true, nil
+	return mm, nil
 }
 
 // newAcc makes the accumulator of a station first seen in year.
@@ -631,8 +694,8 @@ func (d *dailyReader) result() (*WindowTotals, error) {
 		if d.after == 1 {
 			plural = ""
 		}
-		r.Warnings = append(r.Warnings, fmt.Sprintf("daily %s: ignored %d row%s dated after the target date %s (the first on line %d)",
-			d.name, d.after, plural, d.p.target, d.afterLine))
+		r.Warnings = append(r.Warnings, fmt.Sprintf("daily %s: ignored %d row%s dated after the target date %s (the first on %s %d)",
+			d.name, d.after, plural, d.p.target, d.where(), d.afterLine))
 	}
 	return r, nil
 }

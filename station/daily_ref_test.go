@@ -181,13 +181,45 @@ func mustDay(t testing.TB, s string) Day {
 // shuffled, by date, or in two runs per station.
 func TestDailyTotalsPython(t *testing.T) {
 	py := reftest.Python(t)
-	cases := []struct {
-		gen     dailyGen
-		target  string
-		windows []int
-		share   float64
-		flags   []string
-	}{
+	dir := t.TempDir()
+	for ci, c := range dailyRefCases(t) {
+		name := fmt.Sprintf("case%d-%s-%s", ci+1, c.target, c.gen.order)
+		path := filepath.Join(dir, name+".csv")
+		if err := os.WriteFile(path, dailyGenCSV(c.gen), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		res, err := ReadDaily(path, c.options())
+		if err != nil {
+			t.Fatalf("%s: %v", name, err)
+		}
+		n, missing := dailyCheckRef(t, name, res, dailyRunRef(t, py, path, c))
+		if c.gen.after > 0 && (res.AfterTarget == 0 || len(res.Warnings) != 1) {
+			t.Errorf("%s: %d rows after the target, warnings %q", name, res.AfterTarget, res.Warnings)
+		}
+		t.Logf("%s: %d rows, %d stations, %d totals (%d missing) equal to Python's", name, res.Rows, len(res.Stations), n, missing)
+	}
+}
+
+// dailyRefCase is one run of the reference comparison.
+type dailyRefCase struct {
+	gen     dailyGen
+	target  string
+	windows []int
+	share   float64
+	flags   []string
+}
+
+func (c dailyRefCase) options() DailyOptions {
+	return DailyOptions{Target: c.target, Windows: c.windows, MinShare: c.share, Units: c.gen.units, ExcludeFlags: c.flags}
+}
+
+// dailyRefCases: gaps, empty/NA values, excluded and kept flags, rows
+// after the target, leap years (29 February targets, 2000 leap, 1900 and
+// 2100 not), windows crossing into the year before, windows of 1 and 366
+// days, three units, comma and tab, and rows grouped, shuffled, by date,
+// or in two runs per station.
+func dailyRefCases(t *testing.T) []dailyRefCase {
+	return []dailyRefCase{
 		{dailyGen{seed: 1, stations: 12, from: mustDay(t, "2017-06-01"), to: mustDay(t, "2024-02-29"), delim: ',', order: "grouped", after: 40},
 			"2024-02-29", []int{30, 90, 180, 365, 366}, 0, []string{"X", "Y"}},
 		{dailyGen{seed: 2, stations: 10, from: mustDay(t, "1897-01-01"), to: mustDay(t, "1903-12-31"), delim: ',', order: "shuffled", units: UnitTenthMM},
@@ -201,87 +233,83 @@ func TestDailyTotalsPython(t *testing.T) {
 		{dailyGen{seed: 6, stations: 8, from: mustDay(t, "2019-11-01"), to: mustDay(t, "2023-12-31"), delim: ',', order: "grouped"},
 			"2023-12-31", []int{1, 2, 365}, 0.9, nil},
 	}
-	dir := t.TempDir()
-	for ci, c := range cases {
-		name := fmt.Sprintf("case%d-%s-%s", ci+1, c.target, c.gen.order)
-		data := dailyGenCSV(c.gen)
-		path := filepath.Join(dir, name+".csv")
-		if err := os.WriteFile(path, data, 0o644); err != nil {
-			t.Fatal(err)
-		}
-		opt := DailyOptions{Target: c.target, Windows: c.windows, MinShare: c.share, Units: c.gen.units, ExcludeFlags: c.flags}
-		res, err := ReadDaily(path, opt)
-		if err != nil {
-			t.Fatalf("%s: %v", name, err)
-		}
-		share := c.share
-		if share == 0 {
-			share = DefaultMinShare
-		}
-		units := c.gen.units
-		if units == "" {
-			units = UnitMM
-		}
-		delim := ","
-		if c.gen.delim == '\t' {
-			delim = "tab"
-		}
-		wins := make([]string, len(c.windows))
-		for i, n := range c.windows {
-			wins[i] = strconv.Itoa(n)
-		}
-		out := reftest.RunPython(t, py, dailyRefScript, nil, "totals", path, delim, c.target, strings.Join(wins, ","),
-			strconv.FormatFloat(share, 'g', -1, 64), units, strings.Join(c.flags, "|"))
-		var ref []dailyRefEntry
-		if err := json.Unmarshal(out, &ref); err != nil {
-			t.Fatalf("%s: decoding the reference: %v", name, err)
-		}
-		// Same stations, years and windows, in the same order.
-		var n, missing, present int
-		for si := range res.Stations {
-			s := &res.Stations[si]
-			for y := s.FirstYear; y <= s.LastYear; y++ {
-				for w := range res.Windows {
-					if n >= len(ref) {
-						t.Fatalf("%s: more entries than the reference (%d)", name, len(ref))
-					}
-					e := ref[n]
-					n++
-					got := res.Total(s, y, w)
-					i := (y-s.FirstYear)*len(res.Windows) + w
-					if s.ID != e.ID || y != e.Year || res.Windows[w] != e.N {
-						t.Fatalf("%s: entry %d is %s %d %dd, the reference's %s %d %dd", name, n, s.ID, y, res.Windows[w], e.ID, e.Year, e.N)
-					}
-					if got.Reported != e.Rep || got.Need != e.Need || s.Sum[i] != e.Sum {
-						t.Errorf("%s: %s %d %dd: %d days (need %d), sum %d; Python %d days (need %d), sum %d",
-							name, s.ID, y, e.N, got.Reported, got.Need, s.Sum[i], e.Rep, e.Need, e.Sum)
-					}
-					switch {
-					case e.Total == nil && !got.Missing():
-						t.Errorf("%s: %s %d %dd: total %v, Python missing", name, s.ID, y, e.N, got.Total)
-					case e.Total != nil && (got.Missing() || got.Total != *e.Total):
-						t.Errorf("%s: %s %d %dd: total %v (%s), Python %v", name, s.ID, y, e.N, got.Total, got.Reason(), *e.Total)
-					}
-					if got.Missing() {
-						missing++
-					} else {
-						present++
-					}
+}
+
+// dailyRunRef runs testdata/daily_ref.py on the daily table at path.
+func dailyRunRef(t *testing.T, py, path string, c dailyRefCase) []dailyRefEntry {
+	t.Helper()
+	share := c.share
+	if share == 0 {
+		share = DefaultMinShare
+	}
+	units := c.gen.units
+	if units == "" {
+		units = UnitMM
+	}
+	delim := ","
+	if c.gen.delim == '\t' {
+		delim = "tab"
+	}
+	wins := make([]string, len(c.windows))
+	for i, n := range c.windows {
+		wins[i] = strconv.Itoa(n)
+	}
+	out := reftest.RunPython(t, py, dailyRefScript, nil, "totals", path, delim, c.target, strings.Join(wins, ","),
+		strconv.FormatFloat(share, 'g', -1, 64), units, strings.Join(c.flags, "|"))
+	var ref []dailyRefEntry
+	if err := json.Unmarshal(out, &ref); err != nil {
+		t.Fatalf("%s: decoding the reference: %v", path, err)
+	}
+	return ref
+}
+
+// dailyCheckRef compares every entry of res with the reference's: the same
+// stations, years and windows in the same order, the same day counts,
+// exact sums and totals, the same missing decisions. It returns the number
+// of entries and of missing totals, and fails when the data did not give
+// both outcomes.
+func dailyCheckRef(t *testing.T, name string, res *WindowTotals, ref []dailyRefEntry) (n, missing int) {
+	t.Helper()
+	present := 0
+	for si := range res.Stations {
+		s := &res.Stations[si]
+		for y := s.FirstYear; y <= s.LastYear; y++ {
+			for w := range res.Windows {
+				if n >= len(ref) {
+					t.Fatalf("%s: more entries than the reference (%d)", name, len(ref))
+				}
+				e := ref[n]
+				n++
+				got := res.Total(s, y, w)
+				i := (y-s.FirstYear)*len(res.Windows) + w
+				if s.ID != e.ID || y != e.Year || res.Windows[w] != e.N {
+					t.Fatalf("%s: entry %d is %s %d %dd, the reference's %s %d %dd", name, n, s.ID, y, res.Windows[w], e.ID, e.Year, e.N)
+				}
+				if got.Reported != e.Rep || got.Need != e.Need || s.Sum[i] != e.Sum {
+					t.Errorf("%s: %s %d %dd: %d days (need %d), sum %d; Python %d days (need %d), sum %d",
+						name, s.ID, y, e.N, got.Reported, got.Need, s.Sum[i], e.Rep, e.Need, e.Sum)
+				}
+				switch {
+				case e.Total == nil && !got.Missing():
+					t.Errorf("%s: %s %d %dd: total %v, Python missing", name, s.ID, y, e.N, got.Total)
+				case e.Total != nil && (got.Missing() || got.Total != *e.Total):
+					t.Errorf("%s: %s %d %dd: total %v (%s), Python %v", name, s.ID, y, e.N, got.Total, got.Reason(), *e.Total)
+				}
+				if got.Missing() {
+					missing++
+				} else {
+					present++
 				}
 			}
 		}
-		if n != len(ref) {
-			t.Fatalf("%s: %d entries, the reference %d", name, n, len(ref))
-		}
-		// The data must exercise both outcomes.
-		if missing == 0 || present == 0 {
-			t.Errorf("%s: %d present and %d missing totals; the test data should give both", name, present, missing)
-		}
-		if c.gen.after > 0 && (res.AfterTarget == 0 || len(res.Warnings) != 1) {
-			t.Errorf("%s: %d rows after the target, warnings %q", name, res.AfterTarget, res.Warnings)
-		}
-		t.Logf("%s: %d rows, %d stations, %d totals (%d missing) equal to Python's", name, res.Rows, len(res.Stations), n, missing)
 	}
+	if n != len(ref) {
+		t.Fatalf("%s: %d entries, the reference %d", name, n, len(ref))
+	}
+	if missing == 0 || present == 0 {
+		t.Errorf("%s: %d present and %d missing totals; the test data should give both", name, present, missing)
+	}
+	return n, missing
 }
 
 // Window bounds and date parsing against Python's datetime (the calendar
