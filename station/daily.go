@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"sort"
+	"strconv"
 )
 
 // Column aliases of the daily precipitation table (the station id column
@@ -187,7 +188,8 @@ func (t WindowTotal) Reason() string {
 	if !t.Missing() {
 		return ""
 	}
-	return fmt.Sprintf("%d of %d days reported, %d needed (%g %%)", t.Reported, t.Length, t.Need, t.Share*100)
+	pct := strconv.FormatFloat(math.Round(t.Share*1e8)/1e6, 'f', -1, 64) // 0.333 is "33.3", not "33.300000000000004"
+	return fmt.Sprintf("%d of %d days reported, %d needed (%s %%)", t.Reported, t.Length, t.Need, pct)
 }
 
 // Years returns the number of years the station has totals for.

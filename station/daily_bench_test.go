@@ -10,6 +10,7 @@ import (
 	"testing"
 
 	"github.com/klauspost/compress/gzip"
+	"github.com/parquet-go/parquet-go"
 )
 
 // dailyBenchData is an invented daily table as bench/gendaily writes it
@@ -63,8 +64,8 @@ func dailyBenchData(stations, days int, byDate bool) []byte {
 }
 
 var dailyBench struct {
-	once              sync.Once
-	plain, gz, bydate []byte
+	once, pqOnce          sync.Once
+	plain, gz, bydate, pq []byte
 }
 
 func dailyBenchInputs() {
@@ -111,4 +112,44 @@ func BenchmarkDailyTotalsPlain(b *testing.B) {
 func BenchmarkDailyTotalsByDate(b *testing.B) {
 	dailyBenchInputs()
 	benchDaily(b, dailyBench.bydate, len(dailyBench.bydate))
+}
+
+// The grouped rows as Parquet (DATE column, double values, parquet-go's
+// default page size, row groups of 100,000 rows), read from memory.
+func BenchmarkDailyTotalsParquet(b *testing.B) {
+	dailyBenchInputs()
+	dailyBench.pqOnce.Do(func() {
+		var buf bytes.Buffer
+		w := parquet.NewGenericWriter[pqRowDate](&buf)
+		lines := bytes.Split(bytes.TrimSuffix(dailyBench.plain, []byte("\n")), []byte("\n"))[1:]
+		rows := make([]pqRowDate, 0, 1024)
+		for i, l := range lines {
+			f := bytes.Split(l, []byte(","))
+			d, _, err := parseDateBytes(f[1])
+			if err != nil {
+				b.Fatal(err)
+			}
+			r := pqRowDate{Station: string(f[0]), Date: int32(d), QFlag: string(f[3])}
+			if len(f[2]) > 0 {
+				x, err := strconv.ParseFloat(string(f[2]), 64)
+				if err != nil {
+					b.Fatal(err)
+				}
+				r.Prcp = &x
+			}
+			rows = append(rows, r)
+			if len(rows) == cap(rows) || i == len(lines)-1 {
+				w.Write(rows)
+				rows = rows[:0]
+			}
+			if i%100000 == 99999 {
+				w.Flush()
+			}
+		}
+		if err := w.Close(); err != nil {
+			b.Fatal(err)
+		}
+		dailyBench.pq = buf.Bytes()
+	})
+	benchDaily(b, dailyBench.pq, len(dailyBench.plain))
 }

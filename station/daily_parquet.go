@@ -315,15 +315,20 @@ func (d *dailyReader) parquetRow(id, date, val, flag parquet.Value, perDay int64
 			default:
 				x = float64(val.Int64())
 			}
-			show := []byte(strconv.FormatFloat(x, 'g', -1, 64))
-			if math.IsNaN(x) || math.IsInf(x, 0) {
-				return scratch, d.fieldErr(d.valC, "precipitation %s is not a finite number", show)
-			}
-			if x < 0 {
-				return scratch, d.fieldErr(d.valC, "precipitation %s is negative", show)
-			}
-			if mm, err = d.toMM(x+0, show); err != nil {
-				return scratch, err
+			if math.IsNaN(x) || math.IsInf(x, 0) || x < 0 || x > MaxDailyMM/25.4 {
+				// Rare: the value as text, for a message.
+				show := []byte(strconv.FormatFloat(x, 'g', -1, 64))
+				if math.IsNaN(x) || math.IsInf(x, 0) {
+					return scratch, d.fieldErr(d.valC, "precipitation %s is not a finite number", show)
+				}
+				if x < 0 {
+					return scratch, d.fieldErr(d.valC, "precipitation %s is negative", show)
+				}
+				if mm, err = d.toMM(x, show); err != nil {
+					return scratch, err
+				}
+			} else if mm, err = d.toMM(x+0, nil); err != nil {
+				return scratch, err // not reached: x is below every unit's limit
 			}
 		}
 		if ok {

@@ -69,7 +69,10 @@ func ReadDaily(path string, opt DailyOptions) (*WindowTotals, error) {
 }
 
 // ReadDailyReader is ReadDaily on a reader (standard input, tests); name
-// is used in messages.
+// is used in messages. A reader that is also an io.ReaderAt with a Size
+// (bytes.Reader) may hold a Parquet file; a stream may not. The reader is
+// read on a goroutine of its own, which ends before ReadDailyReader
+// returns (after an error, once its pending Read returns).
 func ReadDailyReader(name string, r io.Reader, opt DailyOptions) (*WindowTotals, error) {
 	p, err := opt.plan()
 	if err != nil {

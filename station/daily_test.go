@@ -378,4 +378,10 @@ func TestDailyCalendarByHand(t *testing.T) {
 	if got := (WindowTotal{Length: 30, Reported: 26, Need: 27, Share: 0.9, Total: math.NaN()}).Reason(); got != "26 of 30 days reported, 27 needed (90 %)" {
 		t.Errorf("reason %q", got)
 	}
+	if got := (WindowTotal{Length: 3, Reported: 0, Need: 1, Share: 0.333, Total: math.NaN()}).Reason(); got != "0 of 3 days reported, 1 needed (33.3 %)" {
+		t.Errorf("reason %q", got)
+	}
+	if got := (WindowTotal{Length: 3, Reported: 1, Need: 1, Share: 0.333, Total: 0}).Reason(); got != "" {
+		t.Errorf("reason of a total %q", got)
+	}
 }

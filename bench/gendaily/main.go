@@ -6,9 +6,11 @@
 // distribution (mean 6 mm, 0.1 mm steps); 1 % of the days have no row, 1 %
 // an empty value and 1 % the flag X. Fixed seed: the same file every run.
 // It prints the last date (the natural target) on standard output. It is a
-// benchmark helper, not part of drygrid.
+// benchmark helper, not part of drygrid. With "bydate" the same kind of rows
+// come ordered by date (every station's row of a day together), the common
+// ungrouped order.
 //
-//	gendaily STATIONS DAYS OUT.csv.gz
+//	gendaily STATIONS DAYS OUT.csv.gz [bydate]
 package main
 
 import (
@@ -31,9 +33,10 @@ func main() {
 }
 
 func run(a []string) error {
-	if len(a) != 3 {
-		return fmt.Errorf("usage: gendaily STATIONS DAYS OUT.csv.gz")
+	if len(a) != 3 && (len(a) != 4 || a[3] != "bydate") {
+		return fmt.Errorf("usage: gendaily STATIONS DAYS OUT.csv.gz [bydate]")
 	}
+	byDate := len(a) == 4
 	stations, err1 := strconv.Atoi(a[0])
 	days, err2 := strconv.Atoi(a[1])
 	if err1 != nil || err2 != nil || stations < 1 || days < 1 {
@@ -56,31 +59,45 @@ func run(a []string) error {
 	bw.WriteString("station,date,prcp,qflag\n")
 	rng := rand.New(rand.NewPCG(2026, 16))
 	var line []byte
+	ids := make([]string, stations+1)
 	for s := 1; s <= stations; s++ {
-		id := fmt.Sprintf("D%05d", s)
+		ids[s] = fmt.Sprintf("D%05d", s)
+	}
+	row := func(id, d string) {
+		r := rng.IntN(1000)
+		if r < 10 {
+			return // no row
+		}
+		line = append(line[:0], id...)
+		line = append(line, ',')
+		line = append(line, d...)
+		line = append(line, ',')
+		switch {
+		case r < 20: // empty value
+		case r < 720:
+			line = append(line, '0')
+		default:
+			v := math.Round(rng.ExpFloat64()*60) / 10
+			line = strconv.AppendFloat(line, v, 'f', 1, 64)
+		}
+		line = append(line, ',')
+		if r >= 990 {
+			line = append(line, 'X')
+		}
+		line = append(line, '\n')
+		bw.Write(line)
+	}
+	if byDate {
 		for _, d := range dates {
-			r := rng.IntN(1000)
-			if r < 10 {
-				continue // no row
+			for s := 1; s <= stations; s++ {
+				row(ids[s], d)
 			}
-			line = append(line[:0], id...)
-			line = append(line, ',')
-			line = append(line, d...)
-			line = append(line, ',')
-			switch {
-			case r < 20: // empty value
-			case r < 720:
-				line = append(line, '0')
-			default:
-				v := math.Round(rng.ExpFloat64()*60) / 10
-				line = strconv.AppendFloat(line, v, 'f', 1, 64)
+		}
+	} else {
+		for s := 1; s <= stations; s++ {
+			for _, d := range dates {
+				row(ids[s], d)
 			}
-			line = append(line, ',')
-			if r >= 990 {
-				line = append(line, 'X')
-			}
-			line = append(line, '\n')
-			bw.Write(line)
 		}
 	}
 	if err := bw.Flush(); err != nil {
