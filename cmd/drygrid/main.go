@@ -93,7 +93,6 @@ func run(args []string) int {
 }
 
 func main() {
-	adjustStartingHeap()
 	stop := startProfile()
 	code := run(os.Args[1:])
 	stop()
