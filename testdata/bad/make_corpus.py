@@ -98,3 +98,10 @@ w("j_bad_totals.toml", '[inputs]\nstations = "../index/stations.csv"\ntotals = "
 w("j_bom_unknown.toml", "\ufeff" + J + "[grid]\nresolution = 0.1\n")
 w("j_empty.toml", "")
 w("j_type.toml", J + "[interpolation]\nneighbors = \"twelve\"\n")
+
+# inputs that look valid but are not (station tables)
+TT = T + "".join("ST01,%d,%d.5\n" % (y, 20 + y % 37) for y in range(1961, 2021))
+w("t_double_gzip.csv.gz", gzip.compress(gzip.compress(TT.encode(), mtime=0), mtime=0))
+bad = bytearray(gzip.compress(TT.encode(), mtime=0))
+bad[len(bad) // 2] ^= 0x55  # one byte of the deflate data damaged
+w("t_corrupt_gzip.csv.gz", bytes(bad))
