@@ -113,17 +113,34 @@ func ParseValues(name string, r io.Reader, opt ValueOptions) (*Values, error) {
 }
 
 // FindColumn returns the column named exactly name (case-insensitive) when
-// name is given, else the first matching an alias. The error names the file,
-// the header line and lists the header.
+// name is given, else the one matching an alias. The error names the file,
+// the header line and lists the header. Two columns that both match (the
+// same name twice, or two aliases of one role such as lat and latitude) are
+// refused as ambiguous, naming both: taking either would be a guess.
 func (t *Table) FindColumn(what, name string, aliases []string) (int, error) {
+	names := aliases
 	if name != "" {
-		if i := t.Column(name); i >= 0 {
-			return i, nil
-		}
-		return -1, fmt.Errorf("%s line %d: no %s column named %q; the header has: %s", t.Path, t.HeaderLine, what, name, strings.Join(t.Header, ", "))
+		names = []string{name}
 	}
-	if i := t.Column(aliases...); i >= 0 {
-		return i, nil
+	found := -1
+	for i, h := range t.Header {
+		for _, a := range names {
+			if !strings.EqualFold(h, strings.TrimSpace(a)) {
+				continue
+			}
+			if found >= 0 {
+				return -1, fmt.Errorf("%s line %d: columns %d (%s) and %d (%s) are both a %s column, which is ambiguous; rename or remove one of them",
+					t.Path, t.HeaderLine, found+1, t.Header[found], i+1, h, what)
+			}
+			found = i
+			break
+		}
+	}
+	switch {
+	case found >= 0:
+		return found, nil
+	case name != "":
+		return -1, fmt.Errorf("%s line %d: no %s column named %q; the header has: %s", t.Path, t.HeaderLine, what, name, strings.Join(t.Header, ", "))
 	}
 	return -1, fmt.Errorf("%s line %d: no %s column (looked for %s); the header has: %s", t.Path, t.HeaderLine, what, strings.Join(aliases, "|"), strings.Join(t.Header, ", "))
 }

@@ -105,3 +105,7 @@ w("t_double_gzip.csv.gz", gzip.compress(gzip.compress(TT.encode(), mtime=0), mti
 bad = bytearray(gzip.compress(TT.encode(), mtime=0))
 bad[len(bad) // 2] ^= 0x55  # one byte of the deflate data damaged
 w("t_corrupt_gzip.csv.gz", bytes(bad))
+w("v_ambiguous_lat.csv", "station,lat,latitude,longitude,spi\nKLV-01,-40.1,-40.1,-125.2,-1.2\n")
+w("v_duplicate_column.csv", "station,latitude,longitude,spi,SPI\nKLV-01,-40.1,-125.2,-1.2,0.4\n")
+w("t_ambiguous_total.csv", "station,year,total_mm,precip\nST01,1961,31.0,31.0\n")
+w("s_ambiguous_id.csv", "station,id,latitude,longitude\nST01,1,45.1,7.2\n")

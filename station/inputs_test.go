@@ -1,0 +1,64 @@
+package station
+
+import (
+	"strings"
+	"testing"
+)
+
+// Two columns for one role, by the same name (in any case) or by two of its
+// aliases, are refused as ambiguous, naming both columns, for every role
+// of every table: id, latitude, longitude, value, year and total.
+func TestAmbiguousColumns(t *testing.T) {
+	const shdr = "station,latitude,longitude\nST01,1,2\n"
+	const thdr = "station,year,total_mm\nST01,1961,3\n"
+	cases := []struct {
+		name, kind, data string
+		opt              ValueOptions
+		want             string
+	}{
+		{"lat and latitude", "values", "station,lat,latitude,lon,spi\nA,1,1,2,0.5\n", ValueOptions{},
+			"x.csv line 1: columns 2 (lat) and 3 (latitude) are both a latitude column, which is ambiguous; rename or remove one of them"},
+		{"station and id", "values", "id,lat,lon,spi,station\nA,1,2,0.5,B\n", ValueOptions{},
+			"x.csv line 1: columns 1 (id) and 5 (station) are both a station id column, which is ambiguous; rename or remove one of them"},
+		{"lon and lng", "values", "id,lat,lng,spi,lon\nA,1,2,0.5,2\n", ValueOptions{},
+			"x.csv line 1: columns 3 (lng) and 5 (lon) are both a longitude column, which is ambiguous; rename or remove one of them"},
+		{"spi twice, other case", "values", "station,lat,lon,spi,SPI\nA,1,2,0.5,-1.5\n", ValueOptions{},
+			"x.csv line 1: columns 4 (spi) and 5 (SPI) are both a spi value column, which is ambiguous; rename or remove one of them"},
+		{"percentile and pct", "values", "station,lat,lon,pct,percentile\nA,1,2,5,50\n", ValueOptions{Kind: KindPercentile},
+			"x.csv line 1: columns 4 (pct) and 5 (percentile) are both a percentile value column, which is ambiguous; rename or remove one of them"},
+		{"named value column twice", "values", "station,lat,lon,spi3,spi3\nA,1,2,0.5,1\n", ValueOptions{ValueColumn: "spi3"},
+			"x.csv line 1: columns 4 (spi3) and 5 (spi3) are both a spi value column, which is ambiguous; rename or remove one of them"},
+		{"named id column twice", "values", "code,lat,lon,spi,Code\nA,1,2,0.5,B\n", ValueOptions{IDColumn: "code"},
+			"x.csv line 1: columns 1 (code) and 5 (Code) are both a station id column, which is ambiguous; rename or remove one of them"},
+		{"year twice", "totals", "station,year,total_mm,Year\nST01,1961,3,1962\n", ValueOptions{},
+			"x.csv line 1: columns 2 (year) and 4 (Year) are both a year column, which is ambiguous; rename or remove one of them"},
+		{"total and precip", "totals", "station,year,total,precip\nST01,1961,3,4\n", ValueOptions{},
+			"x.csv line 1: columns 3 (total) and 4 (precip) are both a total column, which is ambiguous; rename or remove one of them"},
+		{"totals station and site", "totals", "site,year,total_mm,station\nST01,1961,3,ST01\n", ValueOptions{},
+			"x.csv line 1: columns 1 (site) and 4 (station) are both a station id column, which is ambiguous; rename or remove one of them"},
+		{"station list lat and latitude", "stations", "station,lat,longitude,latitude\nST01,1,2,1\n", ValueOptions{},
+			"x.csv line 1: columns 2 (lat) and 4 (latitude) are both a latitude column, which is ambiguous; rename or remove one of them"},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			var err error
+			switch c.kind {
+			case "values":
+				_, err = ParseValues("x.csv", strings.NewReader(c.data), c.opt)
+			case "totals":
+				_, err = ComputeIndexReaders("s.csv", strings.NewReader(shdr), "x.csv", strings.NewReader(c.data), IndexOptions{MinYears: 1})
+			case "stations":
+				_, err = ComputeIndexReaders("x.csv", strings.NewReader(c.data), "t.csv", strings.NewReader(thdr), IndexOptions{MinYears: 1})
+			}
+			if err == nil || err.Error() != c.want {
+				t.Fatalf("error\n got %v\nwant %s", err, c.want)
+			}
+		})
+	}
+	// A column named by the caller is not ambiguous with an alias of its
+	// role, and other columns may repeat.
+	v, err := ParseValues("x.csv", strings.NewReader("code,station,lat,lon,spi,note,note\nK1,zz,1,2,0.5,a,b\n"), ValueOptions{IDColumn: "code"})
+	if err != nil || len(v.Stations) != 1 || v.Stations[0].ID != "K1" {
+		t.Fatalf("named id column: %v", err)
+	}
+}
