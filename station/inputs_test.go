@@ -62,3 +62,36 @@ func TestAmbiguousColumns(t *testing.T) {
 		t.Fatalf("named id column: %v", err)
 	}
 }
+
+// A percentile column whose values all lie in [0, 1] (not all 0) holds
+// fractions: refused with the line of the largest and the hint, for a
+// percentile kind given or inferred; one value above 1 (or all zero, which
+// is the same as a fraction or a percent) is read as percents.
+func TestFractionPercentiles(t *testing.T) {
+	const h = "station,lat,lon,percentile\n"
+	const want = "x.csv line 3 column 4 (percentile): every percentile lies in [0, 1] (the largest, 0.92, is on this line): these look like fractions; percentiles are 0-100; multiply by 100"
+	for _, opt := range []ValueOptions{{Kind: KindPercentile}, {}} {
+		_, err := ParseValues("x.csv", strings.NewReader(h+"A,1,2,0.0231\nB,3,4,0.92\nC,5,6,NA\nD,7,8,0\n"), opt)
+		if err == nil || err.Error() != want {
+			t.Errorf("kind %q: error\n got %v\nwant %s", opt.Kind, err, want)
+		}
+	}
+	_, err := ParseValues("x.csv", strings.NewReader(h+"A,1,2,1\n"), ValueOptions{Kind: KindPercentile})
+	if err == nil || !strings.Contains(err.Error(), "x.csv line 2 column 4 (percentile): every percentile lies in [0, 1] (the largest, 1, is on this line)") {
+		t.Errorf("a lone 1: %v", err)
+	}
+	v, err := ParseValues("x.csv", strings.NewReader(h+"A,1,2,0.0231\nB,3,4,0.92\nC,5,6,2.5\n"), ValueOptions{Kind: KindPercentile})
+	if err != nil || len(v.Stations) != 3 || v.Stations[0].Value != 0.0231 || v.Stations[2].Value != 2.5 {
+		t.Fatalf("with a value above 1: %v", err)
+	}
+	v, err = ParseValues("x.csv", strings.NewReader(h+"A,1,2,0\nB,3,4,0\n"), ValueOptions{Kind: KindPercentile})
+	// Percentile 0 is clamped to 0.1 %: Phi^-1(0.001) = -3.090232 (A&S
+	// 1964 table 26.5).
+	if err != nil || len(v.Stations) != 2 || v.Stations[0].Z > -3.09023 || v.Stations[0].Z < -3.09024 {
+		t.Fatalf("all zero: %v %+v", err, v)
+	}
+	// An spi column of small values is not a percentile column.
+	if _, err := ParseValues("x.csv", strings.NewReader("station,lat,lon,spi\nA,1,2,0.5\n"), ValueOptions{}); err != nil {
+		t.Fatal(err)
+	}
+}

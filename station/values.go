@@ -241,6 +241,9 @@ func readValues(t *Table, opt ValueOptions) (*Values, error) {
 	// before them here; the errors come in file order either way.
 	rd := newValuesReader(t, kind, idC, latC, lonC, valC)
 	defer rd.stop()
+	var maxValue float64 // the largest value, on line maxLine (0 = no value yet)
+	var maxLine int
+	var maxRaw string
 	for {
 		r, ok, err := rd.next()
 		if err != nil {
@@ -250,6 +253,9 @@ func readValues(t *Table, opt ValueOptions) (*Values, error) {
 			break
 		}
 		idb, line, lat, lon := r.id, r.line, r.lat, r.lon
+		if !r.missing && (maxLine == 0 || r.value > maxValue) {
+			maxValue, maxLine, maxRaw = r.value, line, string(r.raw)
+		}
 		row := valuesRow{line: line, lat: lat, lon: lon, missing: r.missing, value: r.value}
 		if first, dup := byID[string(idb)]; dup {
 			id := string(idb)
@@ -298,6 +304,11 @@ func readValues(t *Table, opt ValueOptions) (*Values, error) {
 		})
 	}
 	v.Read = rd.read
+	if kind == KindPercentile && maxLine > 0 && maxValue > 0 && maxValue <= 1 {
+		// Every percentile in [0, 1], not all 0: fractions (0.0231 for
+		// 2.31 %), which read as percents would map everything driest.
+		return nil, t.FieldError(maxLine, valC, "every percentile lies in [0, 1] (the largest, %s, is on this line): these look like fractions; percentiles are 0-100; multiply by 100", maxRaw)
+	}
 	v.Stations = make([]Station, len(sites))
 	for i, s := range sites {
 		st := s.st

@@ -109,3 +109,4 @@ w("v_ambiguous_lat.csv", "station,lat,latitude,longitude,spi\nKLV-01,-40.1,-40.1
 w("v_duplicate_column.csv", "station,latitude,longitude,spi,SPI\nKLV-01,-40.1,-125.2,-1.2,0.4\n")
 w("t_ambiguous_total.csv", "station,year,total_mm,precip\nST01,1961,31.0,31.0\n")
 w("s_ambiguous_id.csv", "station,id,latitude,longitude\nST01,1,45.1,7.2\n")
+w("v_fraction_percentiles.csv", "station,latitude,longitude,percentile\nKLV-01,-40.1,-125.2,0.0231\nKLV-02,-40.3,-124.6,0.4712\nKLV-03,-40.5,-124.1,0.1\n")
