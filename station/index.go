@@ -159,11 +159,14 @@ func idxCompute(st, tt *Table, opt IndexOptions) (*IndexResult, error) {
 		return nil, err
 	}
 	year := opt.Year
+	if tot.latest == 0 {
+		return nil, fmt.Errorf("%s: no total for any station of %s", tt.Path, st.Path)
+	}
 	if year == 0 {
 		year = tot.latest
-		if year == 0 {
-			return nil, fmt.Errorf("%s: no total for any station of %s", tt.Path, st.Path)
-		}
+	} else if !idxHasYear(tot.series, year) {
+		// A table of empty rows would be no answer at all.
+		return nil, fmt.Errorf("%s: no station of %s has a total for %d; the latest year with a total is %d", tt.Path, st.Path, year, tot.latest)
 	}
 	res := &IndexResult{
 		Year: year, RefStart: opt.RefStart, RefEnd: opt.RefEnd, MinYears: opt.minYears(),
@@ -182,6 +185,18 @@ func idxCompute(st, tt *Table, opt IndexOptions) (*IndexResult, error) {
 	}
 	res.Rows = spec.finish(sites, tot.series, year, opt)
 	return res, nil
+}
+
+// idxHasYear reports whether any series has a total for year.
+func idxHasYear(series [][]idxEntry, year int) bool {
+	for _, s := range series {
+		for _, e := range s {
+			if int(e.year) == year && !math.IsNaN(e.total) {
+				return true
+			}
+		}
+	}
+	return false
 }
 
 // idxSpec computes station rows while the totals are still being read: a

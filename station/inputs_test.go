@@ -1,6 +1,8 @@
 package station
 
 import (
+	"fmt"
+	"math"
 	"strings"
 	"testing"
 )
@@ -93,5 +95,56 @@ func TestFractionPercentiles(t *testing.T) {
 	// An spi column of small values is not a percentile column.
 	if _, err := ParseValues("x.csv", strings.NewReader("station,lat,lon,spi\nA,1,2,0.5\n"), ValueOptions{}); err != nil {
 		t.Fatal(err)
+	}
+}
+
+// Totals beyond the plausibility bound MaxTotal (100,000 mm) are refused
+// with their file, line and column, in either number path; the bound itself
+// is accepted, and totals near it give finite statistics.
+func TestAbsurdTotals(t *testing.T) {
+	const st = "station,latitude,longitude\nA,1,2\n"
+	for _, c := range []struct{ cell, want string }{
+		{"1e308", "t.csv line 3 column 3 (total): total 1e308 is above 100000 mm, more than any window total on record; check the unit and the column"},
+		{"100000.01", "t.csv line 3 column 3 (total): total 100000.01 is above 100000 mm"},
+		{"999999999999999", "t.csv line 3 column 3 (total): total 999999999999999 is above 100000 mm"},
+		{"1.5E+5", "t.csv line 3 column 3 (total): total 1.5E+5 is above 100000 mm"},
+	} {
+		_, err := ComputeIndexReaders("s.csv", strings.NewReader(st), "t.csv", strings.NewReader("station,year,total\nA,2001,5\nA,2002,"+c.cell+"\n"), IndexOptions{MinYears: 1})
+		if err == nil || !strings.HasPrefix(err.Error(), c.want) {
+			t.Errorf("%s: error\n got %v\nwant %s", c.cell, err, c.want)
+		}
+	}
+	var b strings.Builder
+	b.WriteString("station,year,total\n")
+	for y := 1971; y <= 2020; y++ {
+		fmt.Fprintf(&b, "A,%d,%d\n", y, 1+(y%7)*(y%7)*(y%7))
+	}
+	b.WriteString("A,2021,100000\n")
+	res, err := ComputeIndexReaders("s.csv", strings.NewReader(st), "t.csv", strings.NewReader(b.String()), IndexOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	r := res.Rows[0]
+	// The median of the 51 totals is 28 (1 + 3^3, the 26th smallest).
+	if !r.Fitted || math.IsInf(r.Scale, 0) || math.IsNaN(r.Scale) || r.PctOfMedian != 100*100000.0/28 || r.Total != 100000 {
+		t.Errorf("at the bound: %+v", r)
+	}
+}
+
+// A target year that no station has a total for is refused, naming the
+// year and the latest year with a total, instead of a table of empty rows.
+func TestIndexYearWithoutTotals(t *testing.T) {
+	const st = "station,latitude,longitude\nA,1,2\nB,3,4\n"
+	const tt = "station,year,total\nA,2001,5\nA,2002,6\nB,2003,\nB,2002,4\n"
+	for _, y := range []int{2030, 2000, 2003} {
+		_, err := ComputeIndexReaders("s.csv", strings.NewReader(st), "t.csv", strings.NewReader(tt), IndexOptions{Year: y, MinYears: 1})
+		want := fmt.Sprintf("t.csv: no station of s.csv has a total for %d; the latest year with a total is 2002", y)
+		if err == nil || err.Error() != want {
+			t.Errorf("year %d: error\n got %v\nwant %s", y, err, want)
+		}
+	}
+	res, err := ComputeIndexReaders("s.csv", strings.NewReader(st), "t.csv", strings.NewReader(tt), IndexOptions{Year: 2001, MinYears: 1})
+	if err != nil || res.Year != 2001 || !res.Rows[0].HasTotal || res.Rows[1].HasTotal {
+		t.Fatalf("year 2001: %v", err)
 	}
 }

@@ -110,3 +110,5 @@ w("v_duplicate_column.csv", "station,latitude,longitude,spi,SPI\nKLV-01,-40.1,-1
 w("t_ambiguous_total.csv", "station,year,total_mm,precip\nST01,1961,31.0,31.0\n")
 w("s_ambiguous_id.csv", "station,id,latitude,longitude\nST01,1,45.1,7.2\n")
 w("v_fraction_percentiles.csv", "station,latitude,longitude,percentile\nKLV-01,-40.1,-125.2,0.0231\nKLV-02,-40.3,-124.6,0.4712\nKLV-03,-40.5,-124.1,0.1\n")
+w("t_absurd_total.csv", T + "ST01,1961,31.0\nST01,1962,1e308\n")
+w("j_year_without_totals.toml", 'year = 2030\n[inputs]\nstations = "../index/stations.csv"\ntotals = "../index/totals.csv"\n[output]\ndir = "never-written"\nlayers = ["index"]\n')
