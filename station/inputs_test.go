@@ -1,6 +1,7 @@
 package station
 
 import (
+	"drygrid/spi"
 	"fmt"
 	"math"
 	"strings"
@@ -148,3 +149,60 @@ func TestIndexYearWithoutTotals(t *testing.T) {
 		t.Fatalf("year 2001: %v", err)
 	}
 }
+
+// The poor-fit rules on the fixture's bimodal station ST07, whose gamma
+// fit Anderson-Darling rejects (TestIndexSciPy checks that against
+// SciPy): empirical (the default) gives it the SPI of the empirical
+// distribution, keep the gamma SPI, drop none (its percentile stays);
+// each other station is untouched, and the summary counts the stations
+// the rule changed.
+func TestPoorFitRules(t *testing.T) {
+	run := func(opt IndexOptions) *IndexResult {
+		t.Helper()
+		res, err := ComputeIndex(idxFixStations, idxFixTotals, opt)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return res
+	}
+	keep, emp, drop, def := run(IndexOptions{PoorFit: PoorFitKeep}), run(IndexOptions{Distribution: DistEmpirical}),
+		run(IndexOptions{PoorFit: PoorFitDrop}), run(IndexOptions{})
+	const st07 = 6
+	if keep.Rows[st07].Station != "ST07" || keep.Rows[st07].FitOK || !keep.Rows[st07].FitTested {
+		t.Fatalf("ST07: %+v", keep.Rows[st07])
+	}
+	for i := range keep.Rows {
+		k, e, d, f := keep.Rows[i], emp.Rows[i], drop.Rows[i], def.Rows[i]
+		if i != st07 {
+			if !sameFloat(f.SPI, k.SPI) || !sameFloat(d.SPI, k.SPI) || f.PoorFit || d.PoorFit || k.Note != f.Note {
+				t.Errorf("%s changed: keep %v, default %v, drop %v", k.Station, k.SPI, f.SPI, d.SPI)
+			}
+			continue
+		}
+		if k.PoorFit || !k.HasIndex || k.SPI != spi.SPI(k.Total, k.Shape, k.Scale, float64(k.Zeros)/float64(k.Years)) {
+			t.Errorf("keep: %+v", k)
+		}
+		if !f.PoorFit || !f.HasIndex || f.SPI != e.SPI || f.SPI == k.SPI {
+			t.Errorf("empirical: SPI %v, empirical run %v, gamma %v", f.SPI, e.SPI, k.SPI)
+		}
+		if !d.PoorFit || d.HasIndex || !math.IsNaN(d.SPI) || d.Percentile != k.Percentile ||
+			!strings.HasSuffix(d.Note, "; no spi (poor fit: drop)") {
+			t.Errorf("drop: %+v", d)
+		}
+	}
+	for _, c := range []struct {
+		res             *IndexResult
+		rule            string
+		poor, withIndex int
+	}{{keep, PoorFitKeep, 0, 5}, {def, PoorFitEmpirical, 1, 5}, {drop, PoorFitDrop, 1, 4}} {
+		s := c.res.Summary()
+		if s.PoorFitRule != c.rule || s.PoorFit != c.poor || s.WithIndex != c.withIndex || s.NoIndexOther != 1 || s.FitRejected != 1 {
+			t.Errorf("%s: summary %+v", c.rule, s)
+		}
+	}
+	if err := (IndexOptions{PoorFit: "maybe"}).Validate(); err == nil || err.Error() != `poor-fit "maybe" is not empirical, keep or drop` {
+		t.Errorf("Validate: %v", err)
+	}
+}
+
+func sameFloat(a, b float64) bool { return a == b || math.IsNaN(a) && math.IsNaN(b) }
