@@ -1,8 +1,11 @@
 package station
 
 import (
+	"bytes"
+	"compress/gzip"
 	"drygrid/spi"
 	"fmt"
+	"io"
 	"math"
 	"strings"
 	"testing"
@@ -206,3 +209,76 @@ func TestPoorFitRules(t *testing.T) {
 }
 
 func sameFloat(a, b float64) bool { return a == b || math.IsNaN(a) && math.IsNaN(b) }
+
+// FuzzTableGzip: arbitrary bytes, gzip-compressed once or twice, or with a
+// damaged byte, never panic; an accepted table's rows have the header's
+// width, and every error names the file.
+func FuzzTableGzip(f *testing.F) {
+	f.Add([]byte("station,lat,lon\nA,1,2\n"), uint8(1), uint16(0))
+	f.Add([]byte("a\tb\n1\t\"2\n"), uint8(2), uint16(0))
+	f.Add([]byte("x,y\n"+strings.Repeat("1,2\n", 300)), uint8(1), uint16(40))
+	f.Fuzz(func(t *testing.T, data []byte, times uint8, flip uint16) {
+		for range times % 3 {
+			var b bytes.Buffer
+			w := gzip.NewWriter(&b)
+			w.Write(data)
+			w.Close()
+			data = b.Bytes()
+		}
+		if flip > 0 && len(data) > 0 {
+			data = append([]byte{}, data...)
+			data[int(flip)%len(data)] ^= 0x5a
+		}
+		tb, err := NewTable("fz.csv", bytes.NewReader(data))
+		for err == nil {
+			var rec []string
+			rec, _, err = tb.Next()
+			if err == nil && len(rec) != len(tb.Header) {
+				t.Fatalf("record of %d fields, header of %d", len(rec), len(tb.Header))
+			}
+		}
+		if err != io.EOF && !strings.Contains(err.Error(), "fz.csv") {
+			t.Fatalf("error without the file: %v", err)
+		}
+	})
+}
+
+// FuzzValuesColumns: any header and rows read as a percentile table never
+// panic; what is accepted has one column per role (no two columns of the
+// header match the value column's aliases) and is not a column of
+// fractions.
+func FuzzValuesColumns(f *testing.F) {
+	f.Add("station,lat,lon,percentile", "A,1,2,0.5\nB,3,4,50\n")
+	f.Add("id,latitude,lat,lon,pct", "A,1,1,2,0.02\n")
+	f.Add("site,lat,lng,PCT,percent", "A,1,2,3,4\n")
+	f.Fuzz(func(t *testing.T, header, rows string) {
+		v, err := ParseValues("fz.csv", strings.NewReader(header+"\n"+rows), ValueOptions{Kind: KindPercentile})
+		if err != nil {
+			if !strings.Contains(err.Error(), "fz.csv") {
+				t.Fatalf("error without the file: %v", err)
+			}
+			return
+		}
+		tb, _ := NewTable("fz.csv", strings.NewReader(header+"\n"))
+		n := 0
+		for _, h := range tb.Header {
+			for _, a := range PercentileAliases {
+				if strings.EqualFold(h, a) {
+					n++
+				}
+			}
+		}
+		if n != 1 {
+			t.Fatalf("accepted with %d percentile columns: %q", n, tb.Header)
+		}
+		// (Sites of several ids hold means, which may be fractions of
+		// percents that were not.)
+		most, merged := 0.0, false
+		for _, s := range v.Stations {
+			most, merged = max(most, s.Value), merged || len(s.Merged) > 0
+		}
+		if !merged && most > 0 && most <= 1 {
+			t.Fatalf("fractions accepted: largest %v", most)
+		}
+	})
+}
