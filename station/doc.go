@@ -28,7 +28,9 @@
 // has, the target year included); it needs IndexOptions.MinYears of them
 // (DefaultMinYears, 30) and a target-year total, else its SPI and percentile
 // are empty with a reason.
-// An SPI beyond +/-5 is held there and noted. Results do not depend on the
+// A station whose gamma fit Anderson-Darling rejects at 5 % takes the SPI
+// of its empirical distribution instead (IndexOptions.PoorFit: empirical,
+// keep or drop). An SPI beyond +/-5 is held there and noted. Results do not depend on the
 // number of workers.
 //
 // See docs/design.md for the command line that uses these tables.

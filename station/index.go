@@ -21,6 +21,14 @@ const (
 	DistEmpirical = "empirical"
 )
 
+// Rules for a station whose gamma fit the goodness-of-fit test rejects
+// (IndexOptions.PoorFit, `drygrid index --poor-fit`).
+const (
+	PoorFitEmpirical = "empirical" // its SPI from the plotting position (the default)
+	PoorFitKeep      = "keep"      // its gamma SPI all the same
+	PoorFitDrop      = "drop"      // no SPI, with a note
+)
+
 // DefaultMinYears is the default least number of reference years.
 const DefaultMinYears = 30
 
@@ -36,6 +44,12 @@ type IndexOptions struct {
 	Distribution     string // DistGamma (default when "") or DistEmpirical
 	TotalColumn      string // exact total column name; "" = by TotalAliases
 	Workers          int    // parallel workers; 0 = GOMAXPROCS (output never depends on it)
+	// PoorFit is what the gamma distribution does for a station whose fit
+	// Anderson-Darling rejects at 5 %: PoorFitEmpirical (default when "")
+	// takes the Gringorten SPI of the empirical distribution instead,
+	// PoorFitKeep the gamma SPI, PoorFitDrop no SPI. Untested fits (too
+	// few non-zero totals) keep their gamma SPI.
+	PoorFit string
 }
 
 // Validate checks the options on their own (before any file is read).
@@ -59,7 +73,19 @@ func (o IndexOptions) Validate() error {
 	default:
 		return fmt.Errorf("distribution %q is not %s or %s", o.Distribution, DistGamma, DistEmpirical)
 	}
+	switch o.PoorFit {
+	case "", PoorFitEmpirical, PoorFitKeep, PoorFitDrop:
+	default:
+		return fmt.Errorf("poor-fit %q is not %s, %s or %s", o.PoorFit, PoorFitEmpirical, PoorFitKeep, PoorFitDrop)
+	}
 	return nil
+}
+
+func (o IndexOptions) poorFit() string {
+	if o.PoorFit == "" {
+		return PoorFitEmpirical
+	}
+	return o.PoorFit
 }
 
 func (o IndexOptions) minYears() int {
@@ -91,6 +117,7 @@ type IndexRow struct {
 	FitTested    bool    // enough non-zero totals to test the fit (ADMinCount)
 	FitOK        bool    // fitted, and tested without rejection at 5 %
 	Capped       bool    // SPI was beyond +/-SPILimit and was held there
+	PoorFit      bool    // the poor-fit rule changed the SPI (empirical instead, or dropped)
 
 	Note string // why values are missing, and fit problems; "; "-separated
 }
@@ -101,6 +128,7 @@ type IndexResult struct {
 	RefStart, RefEnd int // as given (0 = open)
 	MinYears         int
 	Distribution     string
+	PoorFit          string     // the poor-fit rule applied (IndexOptions.PoorFit)
 	Rows             []IndexRow // in station-table order
 	TotalsRows       int        // data rows read from the totals table
 	SkippedUnknown   int        // totals rows of stations missing from the station table
@@ -159,11 +187,14 @@ func idxCompute(st, tt *Table, opt IndexOptions) (*IndexResult, error) {
 		return nil, err
 	}
 	year := opt.Year
+	if tot.latest == 0 {
+		return nil, fmt.Errorf("%s: no total for any station of %s", tt.Path, st.Path)
+	}
 	if year == 0 {
 		year = tot.latest
-		if year == 0 {
-			return nil, fmt.Errorf("%s: no total for any station of %s", tt.Path, st.Path)
-		}
+	} else if !idxHasYear(tot.series, year) {
+		// A table of empty rows would be no answer at all.
+		return nil, fmt.Errorf("%s: no station of %s has a total for %d; the latest year with a total is %d", tt.Path, st.Path, year, tot.latest)
 	}
 	res := &IndexResult{
 		Year: year, RefStart: opt.RefStart, RefEnd: opt.RefEnd, MinYears: opt.minYears(),
@@ -172,6 +203,7 @@ func idxCompute(st, tt *Table, opt IndexOptions) (*IndexResult, error) {
 	if res.Distribution == "" {
 		res.Distribution = DistGamma
 	}
+	res.PoorFit = opt.poorFit()
 	if tot.skippedUnknown > 0 {
 		plural := "s"
 		if tot.unknownIDs == 1 {
@@ -182,6 +214,18 @@ func idxCompute(st, tt *Table, opt IndexOptions) (*IndexResult, error) {
 	}
 	res.Rows = spec.finish(sites, tot.series, year, opt)
 	return res, nil
+}
+
+// idxHasYear reports whether any series has a total for year.
+func idxHasYear(series [][]idxEntry, year int) bool {
+	for _, s := range series {
+		for _, e := range s {
+			if int(e.year) == year && !math.IsNaN(e.total) {
+				return true
+			}
+		}
+	}
+	return false
 }
 
 // idxSpec computes station rows while the totals are still being read: a
@@ -368,19 +412,25 @@ func idxStationRow(site idxSite, s []idxEntry, year int, opt IndexOptions, scrat
 			notes = append(notes, fmt.Sprintf("gamma rejected by Anderson-Darling at 5 %% (A2 %.3f > %.3f)", a2, spi.ADCritical5(shape)))
 		}
 	}
-	switch opt.Distribution {
-	case DistEmpirical:
-		// Gringorten position of x among the reference totals, x counted
-		// once more when its year lies outside the reference period.
+	// Gringorten position of x among the reference totals, x counted once
+	// more when its year lies outside the reference period.
+	empirical := func() float64 {
 		if targetInRef {
-			r.SPI = spi.GringortenCounts(below, equal, len(ref))
-		} else {
-			r.SPI = spi.GringortenCounts(below, equal+1, len(ref)+1)
+			return spi.GringortenCounts(below, equal, len(ref))
 		}
-	default:
-		if r.Fitted {
-			r.SPI = spi.SPI(x, shape, scale, float64(r.Zeros)/n)
-		}
+		return spi.GringortenCounts(below, equal+1, len(ref)+1)
+	}
+	switch {
+	case opt.Distribution == DistEmpirical:
+		r.SPI = empirical()
+	case r.Fitted && r.FitTested && !r.FitOK && opt.poorFit() == PoorFitEmpirical:
+		r.SPI, r.PoorFit = empirical(), true
+		notes = append(notes, "spi from the empirical plotting position instead (poor fit: empirical)")
+	case r.Fitted && r.FitTested && !r.FitOK && opt.poorFit() == PoorFitDrop:
+		r.PoorFit = true
+		notes = append(notes, "no spi (poor fit: drop)")
+	case r.Fitted:
+		r.SPI = spi.SPI(x, shape, scale, float64(r.Zeros)/n)
 	}
 	if !math.IsNaN(r.SPI) {
 		if math.Abs(r.SPI) > SPILimit {
@@ -401,24 +451,28 @@ type IndexSummary struct {
 	FitFailed, FitRejected     int // gamma not fitted; rejected by Anderson-Darling
 	FitUntested, Capped        int
 	NoIndexOther               int // without index for another reason (gamma not fitted)
+	PoorFit                    int // stations whose SPI the poor-fit rule changed (PoorFitRule)
 	SkippedUnknown             int
 	Year                       int
-	Distribution               string
+	Distribution, PoorFitRule  string
 	RefStart, RefEnd, MinYears int
 }
 
 // Summary counts the rows by outcome for a closing report.
 func (r *IndexResult) Summary() IndexSummary {
 	s := IndexSummary{Stations: len(r.Rows), SkippedUnknown: r.SkippedUnknown, Year: r.Year,
-		Distribution: r.Distribution, RefStart: r.RefStart, RefEnd: r.RefEnd, MinYears: r.MinYears}
+		Distribution: r.Distribution, PoorFitRule: r.PoorFit, RefStart: r.RefStart, RefEnd: r.RefEnd, MinYears: r.MinYears}
 	for _, row := range r.Rows {
 		tooFew := row.Years < r.MinYears
 		switch {
 		case row.HasIndex:
 			s.WithIndex++
-		case !row.HasTotal || tooFew:
+		case !row.HasTotal || tooFew || row.PoorFit:
 		default:
 			s.NoIndexOther++
+		}
+		if row.PoorFit {
+			s.PoorFit++
 		}
 		if !row.HasTotal {
 			s.NoTotal++

@@ -37,6 +37,10 @@ type idxRefRow struct {
 // 0.1 mm rounding), a short record (ST03), a missing target (ST04), missing
 // cells (ST08), a bimodal station (ST07), an empty station (ST09), unknown
 // stations, and reference periods including and excluding the target year.
+// A station whose gamma fit SciPy's A^2 rejects (above the 5 % critical
+// value of ADCritical5; ST07, bimodal) follows the poor-fit rule: by
+// default the SPI of SciPy's empirical (Gringorten) run, with keep SciPy's
+// gamma SPI, with drop none.
 func TestIndexSciPy(t *testing.T) {
 	runs := []IndexOptions{
 		{},
@@ -45,7 +49,24 @@ func TestIndexSciPy(t *testing.T) {
 		{Distribution: DistEmpirical},
 		{Year: 2020, RefStart: 1981, RefEnd: 2010, MinYears: 25, Distribution: DistEmpirical},
 		{Year: 2000, RefStart: 1991},
+		{PoorFit: PoorFitKeep},
+		{Year: 2015, RefStart: 1991, RefEnd: 2020, PoorFit: PoorFitDrop},
+		{Year: 2000, RefStart: 1991, PoorFit: PoorFitEmpirical},
 	}
+	refs := map[string][]idxRefRow{}
+	runRef := func(opt IndexOptions, dist string) []idxRefRow {
+		args := []string{"index", idxFixStations, idxFixTotals, strconv.Itoa(opt.Year),
+			strconv.Itoa(opt.RefStart), strconv.Itoa(opt.RefEnd), strconv.Itoa(opt.MinYears), dist}
+		key := fmt.Sprint(args)
+		if r, ok := refs[key]; ok {
+			return r
+		}
+		var ref []idxRefRow
+		idxRunRef(t, &ref, nil, args...)
+		refs[key] = ref
+		return ref
+	}
+	rejected := 0
 	for _, opt := range runs {
 		res, err := ComputeIndex(idxFixStations, idxFixTotals, opt)
 		if err != nil {
@@ -55,15 +76,28 @@ func TestIndexSciPy(t *testing.T) {
 		if dist == "" {
 			dist = DistGamma
 		}
-		var ref []idxRefRow
-		idxRunRef(t, &ref, nil, "index", idxFixStations, idxFixTotals, strconv.Itoa(opt.Year),
-			strconv.Itoa(opt.RefStart), strconv.Itoa(opt.RefEnd), strconv.Itoa(opt.MinYears), dist)
+		ref := runRef(opt, dist)
 		if len(ref) != len(res.Rows) {
 			t.Fatalf("%+v: %d rows, SciPy %d", opt, len(res.Rows), len(ref))
 		}
 		for i, r := range res.Rows {
 			w := ref[i]
-			tag := func() string { return r.Station + " " + strconv.Itoa(r.Year) + " " + dist }
+			tag := func() string { return r.Station + " " + strconv.Itoa(r.Year) + " " + dist + " " + opt.PoorFit }
+			if dist == DistGamma && r.FitTested && w.A2 != nil && *w.A2 > spi.ADCritical5(r.Shape) {
+				rejected++
+				if !r.PoorFit && opt.PoorFit != PoorFitKeep || r.PoorFit && opt.PoorFit == PoorFitKeep {
+					t.Errorf("%s: poor fit %v", tag(), r.PoorFit)
+				}
+				switch opt.PoorFit {
+				case "", PoorFitEmpirical:
+					e := runRef(opt, DistEmpirical)[i]
+					w.SPI, w.HasIndex = e.SPI, e.HasIndex
+				case PoorFitDrop:
+					w.SPI, w.HasIndex = nil, false
+				}
+			} else if r.PoorFit {
+				t.Errorf("%s: poor fit, but SciPy's A2 %v does not reject", tag(), w.A2)
+			}
 			if r.Station != w.Station || r.Year != w.Year || r.Years != w.Years || r.Zeros != w.Zeros || r.HasIndex != w.HasIndex {
 				t.Errorf("%s: station %s year %d years %d zeros %d index %v; SciPy %+v", tag(), r.Station, r.Year, r.Years, r.Zeros, r.HasIndex, w)
 				continue
@@ -81,6 +115,9 @@ func TestIndexSciPy(t *testing.T) {
 		if res.SkippedUnknown != 3 {
 			t.Errorf("%+v: skipped %d unknown-station rows, fixture has 3", opt, res.SkippedUnknown)
 		}
+	}
+	if rejected < 5 {
+		t.Errorf("%d rejected fits over the runs, want ST07's in each gamma run", rejected)
 	}
 }
 
@@ -121,7 +158,7 @@ func TestIndexFixtureOutcomes(t *testing.T) {
 			if !(r.AD > spi.ADCritical5(r.Shape)) {
 				t.Errorf("ST07: A2 %v not above the critical %v", r.AD, spi.ADCritical5(r.Shape))
 			}
-			want["ST07"] = fmt.Sprintf("gamma rejected by Anderson-Darling at 5 %% (A2 %.3f > %.3f)", r.AD, spi.ADCritical5(r.Shape))
+			want["ST07"] = fmt.Sprintf("gamma rejected by Anderson-Darling at 5 %% (A2 %.3f > %.3f); spi from the empirical plotting position instead (poor fit: empirical)", r.AD, spi.ADCritical5(r.Shape))
 		}
 	}
 	for _, r := range res.Rows {
@@ -134,7 +171,8 @@ func TestIndexFixtureOutcomes(t *testing.T) {
 		t.Errorf("ST08 (lon 200.5, 30 totals): %+v", st08)
 	}
 	s := res.Summary()
-	if s.Stations != 9 || s.WithIndex != 5 || s.NoTotal != 2 || s.TooFewYears != 2 || s.FitFailed != 1 || s.FitRejected != 1 || s.SkippedUnknown != 3 {
+	if s.Stations != 9 || s.WithIndex != 5 || s.NoTotal != 2 || s.TooFewYears != 2 || s.FitFailed != 1 || s.FitRejected != 1 || s.SkippedUnknown != 3 ||
+		s.PoorFit != 1 || s.PoorFitRule != PoorFitEmpirical || s.NoIndexOther != 1 {
 		t.Errorf("summary %+v", s)
 	}
 }

@@ -3,6 +3,7 @@ package station
 import (
 	"bufio"
 	"bytes"
+	"compress/flate"
 	"compress/gzip"
 	"encoding/csv"
 	"errors"
@@ -16,9 +17,22 @@ import (
 )
 
 // tableSniffLimit caps how many bytes are read ahead to find the header line
-// (and so the delimiter); a header longer than this is an error rather than
-// a reason to load a whole file into memory.
+// (and so the delimiter), blank lines before it included; more is an error
+// rather than a reason to load a whole file into memory.
 const tableSniffLimit = 1 << 20
+
+// MaxLineBytes bounds every physical line of a table, the header included,
+// and every record (a quoted field may span lines): 1 MiB, far above any
+// real station table's line (tens of bytes) yet small enough that a file
+// without line ends (a 10 MB line, a gzip stream that expands to gigabytes
+// of one line, /dev/zero) fails within the first MiB instead of filling
+// memory. The error names the line and the limit, never the line itself.
+const MaxLineBytes = 1 << 20
+
+// gzipCheckLimit bounds how much of a gzip stream is decompressed, after a
+// row error, to tell a corrupt stream from a bad row (a checksum is known
+// only at the end of the stream).
+const gzipCheckLimit = 256 << 20
 
 // Table streams a CSV or TSV table (delimiter sniffed from the header line:
 // tab, comma or semicolon), optionally gzip-compressed (detected by magic
@@ -49,6 +63,24 @@ type Table struct {
 	fast int      // physical lines consumed by the fast path (csv does not count them)
 	rec  [][]byte // fields of the last record from nextFields (trimmed)
 	size int64    // bytes of the input, when it could be told (0 otherwise)
+
+	// A gzip-compressed table: the decompressor, the compressed bytes read
+	// so far and the length of the gzip header (to place a corrupt byte).
+	gz     *gzip.Reader
+	gzRead *countReader
+	gzHead int64
+}
+
+// countReader counts the bytes read through it.
+type countReader struct {
+	r io.Reader
+	n int64
+}
+
+func (c *countReader) Read(p []byte) (int, error) {
+	n, err := c.r.Read(p)
+	c.n += int64(n)
+	return n, err
 }
 
 // OpenTable opens the file at path and reads its header. Errors name the file.
@@ -94,14 +126,22 @@ func newTable(name string, r io.Reader, c io.Closer) (*Table, error) {
 	if c != nil {
 		t.closers = append(t.closers, c)
 	}
-	br := bufio.NewReaderSize(r, 64<<10)
-	if magic, _ := br.Peek(2); len(magic) == 2 && magic[0] == 0x1f && magic[1] == 0x8b {
+	cr0 := &countReader{r: r}
+	br := bufio.NewReaderSize(cr0, 64<<10)
+	if isGzip(br) {
 		zr, err := gzip.NewReader(br)
 		if err != nil {
 			return nil, fmt.Errorf("%s: reading gzip header: %w", name, err)
 		}
 		t.closers = append([]io.Closer{zr}, t.closers...)
+		t.gz, t.gzRead, t.gzHead = zr, cr0, cr0.n-int64(br.Buffered())
 		br = bufio.NewReaderSize(zr, 64<<10)
+		if isGzip(br) {
+			return nil, fmt.Errorf("%s: the file is gzip inside gzip: decompress it once (gunzip it, and give drygrid the .gz it holds)", name)
+		}
+		if _, err := br.Peek(1); err != nil && err != io.EOF {
+			return nil, t.wrapErr(err, 1)
+		}
 	}
 	if bom, _ := br.Peek(3); bytes.Equal(bom, []byte{0xef, 0xbb, 0xbf}) {
 		br.Discard(3)
@@ -113,21 +153,24 @@ func newTable(name string, r io.Reader, c io.Closer) (*Table, error) {
 	// those of the file.
 	var prefix []byte
 	var headerRaw []byte
-	for {
-		line, err := tableReadLine(br, tableSniffLimit-len(prefix))
+	for n := 1; ; n++ {
+		line, err := tableReadLine(br, MaxLineBytes+1) // the line end may follow the limit
+		if err == errTableLineTooLong {
+			return nil, tableLineTooLong(name, n)
+		}
 		prefix = append(prefix, line...)
 		if len(bytes.TrimSpace(line)) > 0 {
 			headerRaw = line
 			break
 		}
-		if err == errTableLineTooLong {
-			return nil, fmt.Errorf("%s: no header line within the first %d bytes", name, tableSniffLimit)
+		if len(prefix) > tableSniffLimit {
+			return nil, fmt.Errorf("%s: no header line within the first %d bytes (line %d is still blank)", name, tableSniffLimit, n)
 		}
 		if err != nil {
 			if err == io.EOF {
 				return nil, fmt.Errorf("%s: empty table, no header row", name)
 			}
-			return nil, fmt.Errorf("%s: reading header: %w", name, err)
+			return nil, t.wrapErr(err, n)
 		}
 	}
 	if bytes.IndexByte(bytes.TrimRight(headerRaw, "\r\n"), '\r') >= 0 {
@@ -157,7 +200,24 @@ func newTable(name string, r io.Reader, c io.Closer) (*Table, error) {
 	return t, nil
 }
 
-var errTableLineTooLong = errors.New("line too long")
+var (
+	errTableLineTooLong   = errors.New("line too long")
+	errTableRecordTooLong = errors.New("record too long")
+)
+
+// tableLineTooLong is the error of line n beyond MaxLineBytes.
+func tableLineTooLong(name string, n int) error {
+	return fmt.Errorf("%s: line %d is longer than the limit of %s; a station table has short lines, so this is not one (or its line ends are missing)", name, n, tableLimitText)
+}
+
+// tableLimitText is MaxLineBytes in words.
+const tableLimitText = "1 MiB"
+
+// isGzip reports whether br starts with the gzip magic bytes.
+func isGzip(br *bufio.Reader) bool {
+	magic, _ := br.Peek(2)
+	return len(magic) == 2 && magic[0] == 0x1f && magic[1] == 0x8b
+}
 
 // tableReadLine reads one physical line (with its newline) of at most limit
 // bytes.
@@ -309,12 +369,13 @@ func (t *Table) nextFields() ([][]byte, int, error) {
 				raw = raw[i+1:]
 			}
 		} else {
+			t.gate.reset()
 			rec, err := t.csv.Read()
 			if err != nil {
 				if err == io.EOF {
 					return nil, 0, io.EOF
 				}
-				return nil, 0, t.wrapErr(err, t.last+1)
+				return nil, 0, t.structErr(t.wrapErr(err, t.last+1))
 			}
 			line, _ = t.csv.FieldPos(0)
 			line += t.fast
@@ -326,7 +387,7 @@ func (t *Table) nextFields() ([][]byte, int, error) {
 		blank := true
 		for i, f := range t.rec {
 			if !valid && !utf8.Valid(f) {
-				return nil, line, t.FieldError(line, tableCol(i, len(t.Header)), "not valid UTF-8 text")
+				return nil, line, t.structErr(t.FieldError(line, tableCol(i, len(t.Header)), "not valid UTF-8 text"))
 			}
 			f = bytes.TrimSpace(f)
 			t.rec[i] = f
@@ -338,7 +399,7 @@ func (t *Table) nextFields() ([][]byte, int, error) {
 			continue
 		}
 		if len(t.rec) != len(t.Header) {
-			return nil, line, fmt.Errorf("%s line %d: %d fields, but the header (line %d) has %d", t.Path, line, len(t.rec), t.HeaderLine, len(t.Header))
+			return nil, line, t.structErr(fmt.Errorf("%s line %d: %d fields, but the header (line %d) has %d", t.Path, line, len(t.rec), t.HeaderLine, len(t.Header)))
 		}
 		return t.rec, line, nil
 	}
@@ -377,13 +438,22 @@ func (t *Table) fastLine() ([]byte, bool) {
 
 // tableGate feeds the csv reader: first the replayed lines before the
 // header, then the buffered input, one physical line per Read, so that csv
-// never reads ahead of the record it parses. It counts the LFs it hands out.
+// never reads ahead of the record it parses. It counts the LFs it hands out,
+// and holds every line, and every record (from reset to reset), to
+// MaxLineBytes: beyond it, Read fails with errTableLineTooLong or
+// errTableRecordTooLong, and errLine is the line it was reading.
 type tableGate struct {
-	prefix []byte
-	br     *bufio.Reader
-	err    error // a read error met by the fast path, returned once after the buffered bytes
-	lines  int
+	prefix  []byte
+	br      *bufio.Reader
+	err     error // a read error met by the fast path, returned once after the buffered bytes
+	lines   int
+	lineLen int // bytes handed out of the current line
+	recLen  int // bytes handed out since reset
+	errLine int
 }
+
+// reset starts a record.
+func (g *tableGate) reset() { g.recLen = 0 }
 
 // Read implements io.Reader.
 func (g *tableGate) Read(p []byte) (int, error) {
@@ -406,14 +476,33 @@ func (g *tableGate) Read(p []byte) (int, error) {
 	if i := bytes.IndexByte(src, '\n'); i >= 0 {
 		src = src[:i+1]
 	}
-	n := copy(p, src)
-	if n > 0 && p[n-1] == '\n' {
-		g.lines++
+	src = src[:min(len(src), len(p))]
+	n, lf := len(src), src[len(src)-1] == '\n'
+	// Nothing of a line or record beyond the limit is handed out, so csv
+	// never holds more than MaxLineBytes of it.
+	content := g.lineLen + n
+	if lf {
+		content--
 	}
+	switch {
+	case content > MaxLineBytes:
+		g.errLine = g.lines + 1
+		return 0, errTableLineTooLong
+	case g.recLen+n > MaxLineBytes+1:
+		g.errLine = g.lines + 1
+		return 0, errTableRecordTooLong
+	}
+	copy(p, src)
 	if len(g.prefix) > 0 {
 		g.prefix = g.prefix[n:]
 	} else {
 		g.br.Discard(n)
+	}
+	g.lineLen += n
+	g.recLen += n
+	if lf {
+		g.lines++
+		g.lineLen = 0
 	}
 	return n, nil
 }
@@ -429,13 +518,38 @@ func tableCol(i, n int) int {
 // wrapErr turns a CSV or read error into one naming the file and line.
 func (t *Table) wrapErr(err error, line int) error {
 	var pe *csv.ParseError
-	if errors.As(err, &pe) {
+	var ce flate.CorruptInputError
+	switch {
+	case errors.Is(err, errTableLineTooLong):
+		return tableLineTooLong(t.Path, t.gate.errLine+t.fast)
+	case errors.Is(err, errTableRecordTooLong):
+		return fmt.Errorf("%s: the record running to line %d is longer than the limit of %s; is a double quote left open?", t.Path, t.gate.errLine+t.fast, tableLimitText)
+	case errors.As(err, &pe):
 		return fmt.Errorf("%s line %d (byte %d of the line): %w", t.Path, pe.Line+t.fast, pe.Column, pe.Err)
-	}
-	if errors.Is(err, io.ErrUnexpectedEOF) || errors.Is(err, gzip.ErrChecksum) || errors.Is(err, gzip.ErrHeader) {
+	case errors.As(err, &ce) && t.gz != nil:
+		return fmt.Errorf("%s: gzip data corrupt at byte %d of the file (decompressed as far as line %d); the file is damaged: fetch or compress it again", t.Path, t.gzHead+int64(ce), line)
+	case errors.Is(err, gzip.ErrChecksum):
+		return fmt.Errorf("%s: gzip data corrupt: the checksum at the end of the stream (byte %d) does not match the data; the file is damaged: fetch or compress it again", t.Path, t.gzRead.n)
+	case errors.Is(err, io.ErrUnexpectedEOF) || errors.Is(err, gzip.ErrHeader):
 		return fmt.Errorf("%s line %d: truncated or corrupt compressed data: %w", t.Path, line, err)
 	}
 	return fmt.Errorf("%s line %d: %w", t.Path, line, err)
+}
+
+// structErr returns err, a row that does not parse, unless the table is
+// gzip-compressed and the stream turns out corrupt: then garbage was
+// decompressed, and the corruption is the error. The rest of the stream
+// (up to gzipCheckLimit) is read to find out.
+func (t *Table) structErr(err error) error {
+	if t.gz == nil {
+		return err
+	}
+	_, cerr := io.Copy(io.Discard, io.LimitReader(t.gz, gzipCheckLimit))
+	var ce flate.CorruptInputError
+	if errors.As(cerr, &ce) || errors.Is(cerr, gzip.ErrChecksum) {
+		return t.wrapErr(cerr, t.last)
+	}
+	return err
 }
 
 // Close releases the file and decompressor opened for the table.

@@ -15,6 +15,14 @@ var (
 	YearAliases  = []string{"year"}
 )
 
+// MaxTotal is the largest window total accepted, in mm: a plausibility
+// bound (common practice in data quality control), above any recorded
+// window total (the wettest year on record, Cherrapunji 1860-61, is about
+// 26,500 mm). A larger total is a unit, column or data error; taken as it
+// is it would make the fit and the share of the median overflow (1e308
+// gave an infinite gamma scale).
+const MaxTotal = 100000
+
 // Years a totals table may hold; anything else is an impossible year.
 const (
 	MinTotalYear = 1000
@@ -115,7 +123,8 @@ func idxReadSites(t *Table) ([]idxSite, map[string]int, error) {
 // zero. Rows of stations missing from the station table are counted and
 // skipped before their cells are checked. Errors (file, line, column): a year
 // that is not an integer in [1000, 3000], a total that is not a finite
-// number, a negative total, and the same station-year on two lines.
+// number, a negative total, a total above MaxTotal, and the same
+// station-year on two lines.
 func idxReadTotals(t *Table, byID map[string]int, ids []string, totalColumn string) (*idxTotals, error) {
 	return idxReadTotalsRuns(t, byID, ids, totalColumn, nil)
 }
@@ -212,6 +221,9 @@ func idxReadTotalsRuns(t *Table, byID map[string]int, ids []string, totalColumn 
 		}
 		total := math.NaN()
 		if v, ok := idxDecimal(rec[totC]); ok {
+			if v > MaxTotal {
+				return nil, idxTooLarge(t, line, totC, rec[totC])
+			}
 			total = v
 			if year > tt.latest {
 				tt.latest = year
@@ -226,6 +238,9 @@ func idxReadTotalsRuns(t *Table, byID map[string]int, ids []string, totalColumn 
 			}
 			if v < 0 {
 				return nil, t.FieldError(line, totC, "total %s is negative", s)
+			}
+			if v > MaxTotal {
+				return nil, idxTooLarge(t, line, totC, rec[totC])
 			}
 			total = v + 0 // -0 becomes 0
 			if year > tt.latest {
@@ -259,6 +274,11 @@ func idxReadTotalsRuns(t *Table, byID map[string]int, ids []string, totalColumn 
 		return nil, t.FieldError(dupB, yearC, "station %s year %d appears twice, on lines %d and %d", dupID, dupYear, dupA, dupB)
 	}
 	return tt, nil
+}
+
+// idxTooLarge is the error of a total above MaxTotal.
+func idxTooLarge(t *Table, line, col int, cell []byte) error {
+	return t.FieldError(line, col, "total %s is above %d mm, more than any window total on record; check the unit and the column", cell, MaxTotal)
 }
 
 // idxEntryLess orders entries by year, then by line.

@@ -72,10 +72,11 @@ func TestIndexBadInput(t *testing.T) {
 
 // Missing totals (empty, NA) are missing, never zero; unknown stations are
 // skipped (even with bad cells) with a count and a warning; -0 is 0; a
-// 0-360 longitude is normalised; --total-column picks the column.
+// 0-360 longitude is normalised; --total-column picks the column (two
+// total columns, total and precip, are ambiguous unless one is named).
 func TestIndexTotalsParsing(t *testing.T) {
 	totals := "station,year,total,precip\nA,2001,,5\nA,2002,NA,5\nA,2003,-0,5\nA,2004,2.5,5\nZ,2004,-7,x\nZ,1,1,1\nB,2004,1,\n"
-	res, err := ComputeIndexReaders("stations.csv", strings.NewReader(idxTestStations), "totals.csv", strings.NewReader(totals), IndexOptions{MinYears: 1})
+	res, err := ComputeIndexReaders("stations.csv", strings.NewReader(idxTestStations), "totals.csv", strings.NewReader(totals), IndexOptions{MinYears: 1, TotalColumn: "total"})
 	if err != nil {
 		t.Fatal(err)
 	}

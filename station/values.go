@@ -3,9 +3,11 @@ package station
 import (
 	"drygrid/spi"
 	"fmt"
+	"hash/maphash"
 	"io"
 	"math"
 	"strings"
+	"unsafe"
 )
 
 // Kind names what a station value table holds.
@@ -113,51 +115,135 @@ func ParseValues(name string, r io.Reader, opt ValueOptions) (*Values, error) {
 }
 
 // FindColumn returns the column named exactly name (case-insensitive) when
-// name is given, else the first matching an alias. The error names the file,
-// the header line and lists the header.
+// name is given, else the one matching an alias. The error names the file,
+// the header line and lists the header. Two columns that both match (the
+// same name twice, or two aliases of one role such as lat and latitude) are
+// refused as ambiguous, naming both: taking either would be a guess.
 func (t *Table) FindColumn(what, name string, aliases []string) (int, error) {
+	names := aliases
 	if name != "" {
-		if i := t.Column(name); i >= 0 {
-			return i, nil
-		}
-		return -1, fmt.Errorf("%s line %d: no %s column named %q; the header has: %s", t.Path, t.HeaderLine, what, name, strings.Join(t.Header, ", "))
+		names = []string{name}
 	}
-	if i := t.Column(aliases...); i >= 0 {
-		return i, nil
+	found := -1
+	for i, h := range t.Header {
+		for _, a := range names {
+			if !strings.EqualFold(h, strings.TrimSpace(a)) {
+				continue
+			}
+			if found >= 0 {
+				return -1, fmt.Errorf("%s line %d: columns %d (%s) and %d (%s) are both a %s column, which is ambiguous; rename or remove one of them",
+					t.Path, t.HeaderLine, found+1, t.Header[found], i+1, h, what)
+			}
+			found = i
+			break
+		}
+	}
+	switch {
+	case found >= 0:
+		return found, nil
+	case name != "":
+		return -1, fmt.Errorf("%s line %d: no %s column named %q; the header has: %s", t.Path, t.HeaderLine, what, name, strings.Join(t.Header, ", "))
 	}
 	return -1, fmt.Errorf("%s line %d: no %s column (looked for %s); the header has: %s", t.Path, t.HeaderLine, what, strings.Join(aliases, "|"), strings.Join(t.Header, ", "))
 }
 
-// valuesSite accumulates the rows averaged into one site.
-type valuesSite struct {
-	st         Station
+// MaxStations is the most stations (distinct ids) a value table may hold:
+// five million, about a hundred times the largest station networks in use,
+// and at about 150 bytes a station while reading (the station itself, its
+// id and two hash-table entries) under a gigabyte. A larger table is
+// refused rather than left to exhaust memory.
+const MaxStations = 5_000_000
+
+// valuesMaxStations is MaxStations (lowered by tests).
+var valuesMaxStations = MaxStations
+
+// valuesMerged accumulates the rows averaged into one site of several ids.
+type valuesMerged struct {
 	sumZ, sumV float64
 	n          int
-	next       int32 // the next site of the same point cell, -1 for none
 }
 
 // valuesCell is the first and last site of a point cell (valuesKey); the
-// sites between follow valuesSite.next, in file order.
+// sites between follow the next links, in file order.
 type valuesCell struct{ first, last int32 }
 
-// valuesRow is the first appearance of an id.
+// valuesRow is the first appearance of an id that is not a site's own: a
+// row without value, or a row averaged into another site.
 type valuesRow struct {
+	id       string
 	line     int
 	lat, lon float64
 	missing  bool
 	value    float64
 }
 
+// valuesIDTable maps a station id to its site (>= 0) or to another row
+// (-1 - its index in others). It is keyed by a 64-bit hash of the id, 16
+// bytes an entry rather than the 24 of a string key; the id found is
+// compared, and the ids whose hash another id took first (in practice
+// none) are kept by string in overflow.
+type valuesIDTable struct {
+	seed     maphash.Seed
+	byHash   map[uint64]int32
+	overflow map[string]int32
+	n        int
+}
+
+func (m *valuesIDTable) get(id []byte, idOf func(int32) string) (int32, bool) {
+	at, ok := m.byHash[maphash.Bytes(m.seed, id)]
+	if !ok {
+		return 0, false
+	}
+	if idOf(at) == string(id) {
+		return at, true
+	}
+	at, ok = m.overflow[string(id)]
+	return at, ok
+}
+
+// put adds an id that get did not find.
+func (m *valuesIDTable) put(id string, at int32) {
+	m.n++
+	h := maphash.String(m.seed, id)
+	if _, taken := m.byHash[h]; taken {
+		m.overflow[id] = at
+		return
+	}
+	m.byHash[h] = at
+}
+
+// valuesIDs holds the station ids in chunks of one allocation each: an id
+// costs its bytes, not an object of its own.
+type valuesIDs struct{ buf []byte }
+
+// add returns b as a string in the arena. The arena's bytes are never
+// written again once handed out.
+func (a *valuesIDs) add(b []byte) string {
+	if len(b) == 0 {
+		return ""
+	}
+	if cap(a.buf)-len(a.buf) < len(b) {
+		a.buf = make([]byte, 0, max(64<<10, len(b)))
+	}
+	start := len(a.buf)
+	a.buf = append(a.buf, b...)
+	return unsafe.String(&a.buf[start], len(b))
+}
+
 // valuesPointKey is a cell of 1e-6 degree used to find sites at the same
 // point; the site lists of the (at most four) cells within 1e-9 degree of a
 // point are checked exactly with valuesSamePoint.
-type valuesPointKey struct{ lat, lon int64 }
+// The cell's two coordinates (at most 540e6 in magnitude, longitudes
+// shifted by 360 included) are packed exactly into one word, which keeps
+// the table of cells at 16 bytes an entry.
+type valuesPointKey uint64
 
 func valuesKey(lat, lon float64) valuesPointKey {
 	if math.Abs(lat) == 90 {
 		lon = 0 // every longitude is the same point at a pole
 	}
-	return valuesPointKey{int64(math.Floor(lat * 1e6)), int64(math.Floor(lon * 1e6))}
+	la, lo := int64(math.Floor(lat*1e6)), int64(math.Floor(lon*1e6))
+	return valuesPointKey(uint64(uint32(la+1<<31))<<32 | uint64(uint32(lo+1<<31)))
 }
 
 // valuesSamePoint: coordinates equal to 1e-9 degree after normalisation.
@@ -208,9 +294,23 @@ func readValues(t *Table, opt ValueOptions) (*Values, error) {
 	}
 	v := &Values{Path: t.Path, Kind: kind, Column: t.ColumnName(valC)}
 	hint := t.rowsHint()
-	byID := make(map[string]valuesRow, hint)
+	// Memory goes with the stations: an id maps to its site (>= 0) or to
+	// another row (-1 - its index in others: no value, or averaged into a
+	// site); the sites are the result's stations themselves, linked per
+	// point cell by next; the sums of a site of several ids are kept aside.
+	byID := &valuesIDTable{seed: maphash.MakeSeed(), byHash: make(map[uint64]int32, hint), overflow: map[string]int32{}}
 	byPoint := make(map[valuesPointKey]valuesCell, hint)
-	sites := make([]valuesSite, 0, hint)
+	stations := make([]Station, 0, hint)
+	next := make([]int32, 0, hint)
+	var others []valuesRow
+	idOf := func(at int32) string {
+		if at >= 0 {
+			return stations[at].ID
+		}
+		return others[-1-at].id
+	}
+	merged := map[int32]*valuesMerged{}
+	var ids valuesIDs
 	dropped := 0
 	warn := func(format string, args ...any) {
 		if len(v.Warnings) < valuesMaxWarnings {
@@ -224,6 +324,9 @@ func readValues(t *Table, opt ValueOptions) (*Values, error) {
 	// before them here; the errors come in file order either way.
 	rd := newValuesReader(t, kind, idC, latC, lonC, valC)
 	defer rd.stop()
+	var maxValue float64 // the largest value, on line maxLine (0 = no value yet)
+	var maxLine int
+	var maxRaw string
 	for {
 		r, ok, err := rd.next()
 		if err != nil {
@@ -233,8 +336,19 @@ func readValues(t *Table, opt ValueOptions) (*Values, error) {
 			break
 		}
 		idb, line, lat, lon := r.id, r.line, r.lat, r.lon
-		row := valuesRow{line: line, lat: lat, lon: lon, missing: r.missing, value: r.value}
-		if first, dup := byID[string(idb)]; dup {
+		if !r.missing && (maxLine == 0 || r.value > maxValue) {
+			maxValue, maxLine, maxRaw = r.value, line, string(r.raw)
+		}
+		if at, dup := byID.get(idb, idOf); dup {
+			var first valuesRow
+			if at >= 0 {
+				s := &stations[at]
+				// A site's Value is its own row's until the end (averages
+				// are taken after the last row).
+				first = valuesRow{line: s.Line, lat: s.Lat, lon: s.Lon, value: s.Value}
+			} else {
+				first = others[-1-at]
+			}
 			id := string(idb)
 			if !valuesSamePoint(first.lat, first.lon, lat, lon) {
 				col := latC
@@ -243,15 +357,20 @@ func readValues(t *Table, opt ValueOptions) (*Values, error) {
 				}
 				return nil, t.FieldError(line, col, "station %s is at %g, %g here but at %g, %g on line %d", id, lat, lon, first.lat, first.lon, first.line)
 			}
-			if first.missing != row.missing || first.value != row.value {
+			if first.missing != r.missing || first.value != r.value {
 				return nil, t.FieldError(line, valC, "station %s has %s %q here but another value on line %d", id, kind, r.raw, first.line)
 			}
 			warn("%s line %d: repeats station %s of line %d exactly; kept once", t.Path, line, id, first.line)
 			continue
 		}
-		id := string(idb)
-		byID[id] = row
+		if byID.n >= valuesMaxStations {
+			return nil, t.FieldError(line, idC, "more than %d stations; the limit keeps memory bounded: split the table, or grid fewer stations", valuesMaxStations)
+		}
+		id := ids.add(idb)
+		row := valuesRow{id: id, line: line, lat: lat, lon: lon, missing: r.missing, value: r.value}
 		if row.missing {
+			byID.put(id, int32(-1-len(others)))
+			others = append(others, row)
 			v.Rejected = append(v.Rejected, Rejection{Line: line, ID: id, Reason: ReasonNoValue})
 			continue
 		}
@@ -259,37 +378,45 @@ func readValues(t *Table, opt ValueOptions) (*Values, error) {
 		if kind == KindPercentile {
 			z = spi.PercentileToZ(row.value)
 		}
-		if si, ok := valuesFindPoint(byPoint, sites, lat, lon); ok {
-			s := &sites[si]
-			s.sumZ += z
-			s.sumV += row.value
-			s.n++
-			s.st.Merged = append(s.st.Merged, id)
-			warn("%s line %d: station %s is at the same point as %s (line %d); their values are averaged into one site", t.Path, line, id, s.st.ID, s.st.Line)
+		if si, ok := valuesFindPoint(byPoint, stations, next, lat, lon); ok {
+			byID.put(id, int32(-1-len(others)))
+			others = append(others, row)
+			s := &stations[si]
+			m := merged[int32(si)]
+			if m == nil {
+				m = &valuesMerged{sumZ: s.Z, sumV: s.Value, n: 1}
+				merged[int32(si)] = m
+			}
+			m.sumZ += z
+			m.sumV += row.value
+			m.n++
+			s.Merged = append(s.Merged, id)
+			warn("%s line %d: station %s is at the same point as %s (line %d); their values are averaged into one site", t.Path, line, id, s.ID, s.Line)
 			continue
 		}
-		k, at := valuesKey(lat, lon), int32(len(sites))
+		k, at := valuesKey(lat, lon), int32(len(stations))
 		if c, ok := byPoint[k]; ok {
-			sites[c.last].next = at
+			next[c.last] = at
 			byPoint[k] = valuesCell{c.first, at}
 		} else {
 			byPoint[k] = valuesCell{at, at}
 		}
-		sites = append(sites, valuesSite{
-			st:   Station{ID: id, Lon: lon, Lat: lat, Value: row.value, Z: z, Line: line},
-			sumZ: z, sumV: row.value, n: 1, next: -1,
-		})
+		byID.put(id, at)
+		stations = append(stations, Station{ID: id, Lon: lon, Lat: lat, Value: row.value, Z: z, Line: line})
+		next = append(next, -1)
 	}
 	v.Read = rd.read
-	v.Stations = make([]Station, len(sites))
-	for i, s := range sites {
-		st := s.st
-		if s.n > 1 {
-			st.Z = s.sumZ / float64(s.n)
-			st.Value = s.sumV / float64(s.n)
-		}
-		v.Stations[i] = st
+	if kind == KindPercentile && maxLine > 0 && maxValue > 0 && maxValue <= 1 {
+		// Every percentile in [0, 1], not all 0: fractions (0.0231 for
+		// 2.31 %), which read as percents would map everything driest.
+		return nil, t.FieldError(maxLine, valC, "every percentile lies in [0, 1] (the largest, %s, is on this line): these look like fractions; percentiles are 0-100; multiply by 100", maxRaw)
 	}
+	for si, m := range merged {
+		s := &stations[si]
+		s.Z = m.sumZ / float64(m.n)
+		s.Value = m.sumV / float64(m.n)
+	}
+	v.Stations = stations
 	if dropped > 0 {
 		v.Warnings = append(v.Warnings, fmt.Sprintf("%s: %d more warnings not shown", t.Path, dropped))
 	}
@@ -298,7 +425,7 @@ func readValues(t *Table, opt ValueOptions) (*Values, error) {
 
 // valuesFindPoint looks up a site at the same point (1e-9 degree): the cells
 // of the points 1e-9 degree around, and across the antimeridian seam.
-func valuesFindPoint(m map[valuesPointKey]valuesCell, sites []valuesSite, lat, lon float64) (int, bool) {
+func valuesFindPoint(m map[valuesPointKey]valuesCell, sites []Station, next []int32, lat, lon float64) (int, bool) {
 	const eps = 1e-9
 	lons := [...]float64{lon - eps, lon + eps, lon - eps + 360, lon + eps - 360}
 	nl := 2
@@ -320,8 +447,8 @@ func valuesFindPoint(m map[valuesPointKey]valuesCell, sites []valuesSite, lat, l
 			seen[ns] = k
 			ns++
 			c, ok := m[k]
-			for i := c.first; ok && i >= 0; i = sites[i].next {
-				if valuesSamePoint(sites[i].st.Lat, sites[i].st.Lon, lat, lon) {
+			for i := c.first; ok && i >= 0; i = next[i] {
+				if valuesSamePoint(sites[i].Lat, sites[i].Lon, lat, lon) {
 					return int(i), true
 				}
 			}

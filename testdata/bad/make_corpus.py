@@ -98,3 +98,17 @@ w("j_bad_totals.toml", '[inputs]\nstations = "../index/stations.csv"\ntotals = "
 w("j_bom_unknown.toml", "\ufeff" + J + "[grid]\nresolution = 0.1\n")
 w("j_empty.toml", "")
 w("j_type.toml", J + "[interpolation]\nneighbors = \"twelve\"\n")
+
+# inputs that look valid but are not (station tables)
+TT = T + "".join("ST01,%d,%d.5\n" % (y, 20 + y % 37) for y in range(1961, 2021))
+w("t_double_gzip.csv.gz", gzip.compress(gzip.compress(TT.encode(), mtime=0), mtime=0))
+bad = bytearray(gzip.compress(TT.encode(), mtime=0))
+bad[len(bad) // 2] ^= 0x55  # one byte of the deflate data damaged
+w("t_corrupt_gzip.csv.gz", bytes(bad))
+w("v_ambiguous_lat.csv", "station,lat,latitude,longitude,spi\nKLV-01,-40.1,-40.1,-125.2,-1.2\n")
+w("v_duplicate_column.csv", "station,latitude,longitude,spi,SPI\nKLV-01,-40.1,-125.2,-1.2,0.4\n")
+w("t_ambiguous_total.csv", "station,year,total_mm,precip\nST01,1961,31.0,31.0\n")
+w("s_ambiguous_id.csv", "station,id,latitude,longitude\nST01,1,45.1,7.2\n")
+w("v_fraction_percentiles.csv", "station,latitude,longitude,percentile\nKLV-01,-40.1,-125.2,0.0231\nKLV-02,-40.3,-124.6,0.4712\nKLV-03,-40.5,-124.1,0.1\n")
+w("t_absurd_total.csv", T + "ST01,1961,31.0\nST01,1962,1e308\n")
+w("j_year_without_totals.toml", 'year = 2030\n[inputs]\nstations = "../index/stations.csv"\ntotals = "../index/totals.csv"\n[output]\ndir = "never-written"\nlayers = ["index"]\n')
