@@ -627,25 +627,28 @@ func regOutside(ring, exterior orb.Ring) (int, bool) {
 	return 0, false
 }
 
+// regInsideOrOn reports whether p lies inside ring r or on its boundary, by
+// the crossing number of a ray running east from p. Each test is an exact
+// orientation sign (regOrient), so a position a hair's breadth inside an
+// edge is inside, however thin the margin.
 func regInsideOrOn(p orb.Point, r orb.Ring) bool {
 	in := false
 	for i := 0; i+1 < len(r); i++ {
 		a, b := r[i], r[i+1]
-		if regOrient(a, b, p) == 0 && regOnSegment(a, b, p) {
+		o := regOrient(a, b, p)
+		if o == 0 && regOnSegment(a, b, p) {
 			return true
 		}
-		if (a[1] > p[1]) != (b[1] > p[1]) {
-			x := a[0] + (p[1]-a[1])*(b[0]-a[0])/(b[1]-a[1])
-			if p[0] < x {
-				in = !in
-			}
+		// An edge crossing the ray's latitude (half-open, so a corner at
+		// p's latitude counts once) crosses east of p when p is left of
+		// the edge running north, or right of it running south.
+		if a[1] <= p[1] && b[1] > p[1] && o > 0 {
+			in = !in
+		} else if b[1] <= p[1] && a[1] > p[1] && o < 0 {
+			in = !in
 		}
 	}
 	return in
-}
-
-func regOrient(a, b, c orb.Point) float64 {
-	return (b[0]-a[0])*(c[1]-a[1]) - (b[1]-a[1])*(c[0]-a[0])
 }
 
 func regOnSegment(a, b, p orb.Point) bool {
@@ -673,7 +676,7 @@ func regSegmentsMeet(a, b, c, d orb.Point, adjacent, wrap bool) bool {
 	}
 	o1, o2 := regOrient(a, b, c), regOrient(a, b, d)
 	o3, o4 := regOrient(c, d, a), regOrient(c, d, b)
-	if ((o1 > 0 && o2 < 0) || (o1 < 0 && o2 > 0)) && ((o3 > 0 && o4 < 0) || (o3 < 0 && o4 > 0)) {
+	if o1*o2 < 0 && o3*o4 < 0 {
 		return true
 	}
 	return (o1 == 0 && regOnSegment(a, b, c)) || (o2 == 0 && regOnSegment(a, b, d)) ||

@@ -10,6 +10,10 @@ mode "area": {"mode": "area", "polygons": [[ring, ...], ...]} -> [km2, ...]
   geodesic polygon follows the straight lon-lat edges drygrid assumes
   (parallels stay parallels instead of bulging poleward).
 
+mode "validity": {"mode": "validity", "polygons": [[ring, ...], ...]}
+  -> [[valid, reason], ...]: shapely 1.8's is_valid and explain_validity
+  (GEOS, whose orientation tests are exact), for each polygon as given.
+
 mode "shares": {"mode": "shares", "spec": {west, north, res, cols, rows},
   "polygon": [ring, ...]} -> [[cell, frac], ...]
   For every grid cell, shapely 1.8's exact planar intersection area of the
@@ -44,6 +48,15 @@ def area(req):
     return res
 
 
+def validity(req):
+    from shapely.validation import explain_validity
+    res = []
+    for rings in req["polygons"]:
+        poly = Polygon(rings[0], rings[1:])
+        res.append([bool(poly.is_valid), explain_validity(poly)])
+    return res
+
+
 def shares(req):
     s = req["spec"]
     rings = req["polygon"]
@@ -70,7 +83,7 @@ def shares(req):
 
 def main():
     req = json.load(sys.stdin)
-    out = {"area": area, "shares": shares}[req["mode"]](req)
+    out = {"area": area, "shares": shares, "validity": validity}[req["mode"]](req)
     json.dump(out, sys.stdout)
 
 
