@@ -526,6 +526,9 @@ func regCheckRing(r orb.Ring) error {
 				i, a[0], a[1], i+1, b[0], b[1], regPastAntimeridian(a[0], b[0]))
 		}
 	}
+	if b := r.Bound(); b.Max[0]-b.Min[0] > 360 {
+		return fmt.Errorf("spans %g degrees of longitude (%g to %g), more than once round the Earth", b.Max[0]-b.Min[0], b.Min[0], b.Max[0])
+	}
 	d := regDedup(r)
 	if len(d) < 4 {
 		return errors.New("has fewer than 3 distinct corners")
