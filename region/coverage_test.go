@@ -5,6 +5,7 @@ import (
 	"math"
 	"math/rand/v2"
 	"runtime"
+	"strings"
 	"testing"
 
 	"drygrid/grid"
@@ -91,12 +92,16 @@ func TestCoverageAlignedRectangle(t *testing.T) {
 	}
 }
 
-// TestCoverageVsShapely: shares against shapely 1.8's exact intersection area
-// of the polygon and each cell box (testdata/regions_ref.py "shares"), for
+// TestCoverageVsShapely: shares of each cell's area on the WGS84 ellipsoid
+// against shapely 1.8's exact intersection of the polygon and each cell box,
+// measured by pyproj 3.4's geodesic area with edges densified along lon-lat
+// lines every 0.002 degrees (testdata/regions_ref.py "shares"; the reference
+// converges on our shares as the step shrinks, to within 6e-10 at this step,
+// while shares planar in degrees are off by up to 2e-4 here), for
 // triangles in both windings, a concave polygon with a hole, many-vertex
 // rings and regions smaller than one cell.
 func TestCoverageVsShapely(t *testing.T) {
-	py := reftest.Python(t, "shapely", "numpy")
+	py := reftest.Python(t, "shapely", "pyproj")
 	s, err := grid.NewSpec(-10, -10, 10, 10, 1)
 	if err != nil {
 		t.Fatal(err)
@@ -120,6 +125,7 @@ func TestCoverageVsShapely(t *testing.T) {
 			"mode":    "shares",
 			"spec":    map[string]any{"west": s.West, "north": s.North, "res": s.Res, "cols": s.Cols, "rows": s.Rows},
 			"polygon": ringsJSON(p),
+			"step":    0.002,
 		})
 		var ref [][2]float64
 		if err := json.Unmarshal(reftest.RunPython(t, py, "../testdata/regions_ref.py", req), &ref); err != nil {
@@ -152,10 +158,10 @@ func regionAreaKm2(s grid.Spec, g orb.MultiPolygon) float64 {
 	return a
 }
 
-// TestRegionAreaVsPyproj: region areas (ellipsoidal cell area x planar share)
+// TestRegionAreaVsPyproj: region areas (ellipsoidal cell area x share)
 // against pyproj 3.4's geodesic polygon area on WGS84 (Karney 2013), edges
-// densified along lon-lat lines (testdata/regions_ref.py "area"); within
-// 0.1 % for regions of 100+ cells.
+// densified every 0.002 degrees along lon-lat lines (testdata/regions_ref.py
+// "area"); within 1e-8 for regions of 100+ cells.
 func TestRegionAreaVsPyproj(t *testing.T) {
 	py := reftest.Python(t, "pyproj", "shapely")
 	s, err := grid.Global(0.1)
@@ -175,7 +181,7 @@ func TestRegionAreaVsPyproj(t *testing.T) {
 	for _, p := range polys {
 		arg = append(arg, ringsJSON(p))
 	}
-	req, _ := json.Marshal(map[string]any{"mode": "area", "polygons": arg})
+	req, _ := json.Marshal(map[string]any{"mode": "area", "polygons": arg, "step": 0.002})
 	var ref []float64
 	if err := json.Unmarshal(reftest.RunPython(t, py, "../testdata/regions_ref.py", req), &ref); err != nil {
 		t.Fatal(err)
@@ -186,11 +192,80 @@ func TestRegionAreaVsPyproj(t *testing.T) {
 			t.Fatalf("polygon %d covers %d cells, want 100+", i, n)
 		}
 		got := regionAreaKm2(s, g)
-		if rel := math.Abs(got-ref[i]) / ref[i]; rel > 1e-3 {
-			t.Errorf("polygon %d: area %.3f km2, pyproj %.3f km2 (%.4f %%)", i, got, ref[i], 100*rel)
+		if rel := math.Abs(got-ref[i]) / ref[i]; rel > 1e-8 {
+			t.Errorf("polygon %d: area %.3f km2, pyproj %.3f km2 (relative error %.2g)", i, got, ref[i], rel)
 		} else {
-			t.Logf("polygon %d: area %.3f km2, pyproj %.3f km2 (%.5f %%)", i, got, ref[i], 100*rel)
+			t.Logf("polygon %d: area %.3f km2, pyproj %.3f km2 (relative error %.2g)", i, got, ref[i], rel)
 		}
+	}
+}
+
+// TestSmallRegionAreaVsPyproj: regions smaller than a cell, or straddling
+// a few, at latitudes 0, 45, 80, 89 and 89.95, north and south, on 0.1 and
+// 1 degree grids, against pyproj 3.4's geodesic area (edges densified every
+// 2e-5 degrees along lon-lat lines, testdata/regions_ref.py "area"; near the
+// pole the reference needs that step: it converges on our area as the step
+// squared, from 1.7e-4 off at a step of 1e-3 at 89.95 degrees), within 1e-6
+// relative. A share taken planar in degrees of latitude is 1 % off at
+// 80 degrees and over 10 % at 89; the share on the ellipsoid is exact.
+func TestSmallRegionAreaVsPyproj(t *testing.T) {
+	py := reftest.Python(t, "pyproj", "shapely")
+	var polys []orb.Polygon
+	for _, lat := range []float64{0.013, 45.021, 80.037, 89.011, 89.951, -45.067, -89.043} {
+		x := 20.0 + lat/1000
+		polys = append(polys,
+			orb.Polygon{{{x + 0.011, lat + 0.004}, {x + 0.063, lat + 0.019}, {x + 0.027, lat + 0.041}, {x + 0.011, lat + 0.004}}},
+			orb.Polygon{{{x + 0.071, lat - 0.006}, {x + 0.133, lat + 0.011}, {x + 0.118, lat + 0.044}, {x + 0.062, lat + 0.038}, {x + 0.071, lat - 0.006}}},
+		)
+	}
+	var arg [][][][2]float64
+	for _, p := range polys {
+		arg = append(arg, ringsJSON(p))
+	}
+	req, _ := json.Marshal(map[string]any{"mode": "area", "polygons": arg, "step": 2e-5})
+	var ref []float64
+	if err := json.Unmarshal(reftest.RunPython(t, py, "../testdata/regions_ref.py", req), &ref); err != nil {
+		t.Fatal(err)
+	}
+	for _, res := range []float64{0.1, 1} {
+		s, _ := grid.Global(res)
+		for i, p := range polys {
+			got := regionAreaKm2(s, mustNorm(t, p))
+			if rel := math.Abs(got-ref[i]) / ref[i]; rel > 1e-6 {
+				t.Errorf("%g deg grid, polygon %d (lat %.2f): area %.9f km2, pyproj %.9f km2 (relative error %.2g)", res, i, p[0][0][1], got, ref[i], rel)
+			} else {
+				t.Logf("%g deg grid, polygon %d (lat %.2f): area %.6f km2, pyproj %.6f km2 (relative error %.2g)", res, i, p[0][0][1], got, ref[i], rel)
+			}
+		}
+	}
+}
+
+// TestAntimeridianAreaVsPyproj: a region drawn across 180 degrees as the
+// error message asks (longitudes running past 180) has the area pyproj 3.4
+// gives its two halves split at the antimeridian (RFC 7946 section 3.1.9),
+// about 11,815 km2; the same ring jumping from 179.5 to -179.5, which read
+// literally runs the long way round (over 4 million km2), is refused.
+func TestAntimeridianAreaVsPyproj(t *testing.T) {
+	py := reftest.Python(t, "pyproj", "shapely")
+	east, west := rect(179.5, -17.5, 180, -16.5), rect(-180, -17.5, -179.5, -16.5)
+	req, _ := json.Marshal(map[string]any{"mode": "area", "polygons": [][][][2]float64{ringsJSON(east), ringsJSON(west)}, "step": 1e-3})
+	var ref []float64
+	if err := json.Unmarshal(reftest.RunPython(t, py, "../testdata/regions_ref.py", req), &ref); err != nil {
+		t.Fatal(err)
+	}
+	want := ref[0] + ref[1]
+	past := feat(`"fiji"`, `{}`, poly(`[[179.5,-17.5],[180.5,-17.5],[180.5,-16.5],[179.5,-16.5],[179.5,-17.5]]`))
+	jump := feat(`"fiji"`, `{}`, poly(`[[179.5,-17.5],[-179.5,-17.5],[-179.5,-16.5],[179.5,-16.5],[179.5,-17.5]]`))
+	rs, err := ParseRegions("f", []byte(past), "")
+	if err != nil {
+		t.Fatal(err)
+	}
+	s, _ := grid.Global(0.1)
+	if got := regionAreaKm2(s, rs[0].Geom); math.Abs(got-want) > 1e-8*want {
+		t.Errorf("past 180: %.6f km2, pyproj %.6f km2", got, want)
+	}
+	if _, err := ParseRegions("f", []byte(jump), ""); err == nil || !strings.Contains(err.Error(), "jumps across the antimeridian") {
+		t.Errorf("ring jumping across 180: %v", err)
 	}
 }
 

@@ -12,7 +12,9 @@
 // run past 180 for a region drawn across the antimeridian.
 //
 // Coverage is exact, not sampled at cell centres: each ring is clipped to
-// each cell, so a region smaller than one cell gets its true share. Areas
+// each cell, so a region smaller than one cell gets its true share, taken
+// of the cell's area on the ellipsoid (not in degrees), so exact at any
+// latitude. Areas
 // are in km^2 on the WGS84 ellipsoid (grid's cell areas), each cell weighted
 // by the share of it inside the region; shares in drought are percent of the
 // covered (not no-data) area. Results do not depend on the number of cores.
