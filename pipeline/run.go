@@ -407,7 +407,12 @@ func regionsErrPos(path string, err error) error {
 	}
 	before := data[:off]
 	line := bytes.Count(before, []byte{'\n'}) + 1
-	col := utf8.RuneCount(before[bytes.LastIndexByte(before, '\n')+1:]) + 1
+	lineStart := before[bytes.LastIndexByte(before, '\n')+1:]
+	if line == 1 {
+		// A byte-order mark (skipped by the reader) is no column.
+		lineStart = bytes.TrimPrefix(lineStart, []byte("\uFEFF"))
+	}
+	col := utf8.RuneCount(lineStart) + 1
 	msg := strings.TrimPrefix(err.Error(), "regions "+path+": ")
 	return fmt.Errorf("regions %s line %d column %d: %s", path, line, col, msg)
 }

@@ -85,6 +85,7 @@ w("r_antimeridian_jump.geojson", fc(feat("fiji", "[[[179.5,-17.5],[-179.5,-17.5]
 w("r_top_level_array.geojson", "[" + feat("a", sq) + "]\n")
 w("r_object_key.geojson", fc('{"type":"Feature","properties":{"name":{"en":"North","fr":"Nord"}},"geometry":{"type":"Polygon","coordinates":%s}}' % sq))
 w("r_bom_null_position.geojson", "\ufeff" + fc(feat("a", "[[[-126,-41],[-124,-41],[null,null],[-126,-39],[-126,-41]]]")))
+w("r_bom_syntax.geojson", "\ufeff" + "{\"type\": x}\n")
 
 # band schemes (drygrid grid --scheme)
 band = lambda k, c, d="false": '[[band]]\nkey = "%s"\nlabel = "%s"\ncolor = "%s"\ndrought = %s\n' % (k, k.title(), c, d)
