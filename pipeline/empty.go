@@ -16,7 +16,7 @@ import (
 // all the same.
 
 // allowEmptyHint says how to ask for an empty map.
-const allowEmptyHint = "to publish an empty map all the same, use --allow-empty (allow_empty = true in a job file's [grid])"
+const allowEmptyHint = "To publish it all the same, use --allow-empty (in a job file: allow_empty = true in [grid])"
 
 // checkInside refuses a grid holding none of the stations, before any
 // cell is computed. A bbox with west > east is named as the likely cause:
@@ -30,8 +30,8 @@ func checkInside(job *Job, vals *station.Values, spec grid.Spec, pts []interp.Po
 			return nil
 		}
 	}
-	what := "the grid " + spec.String()
-	hint := "check --bbox and the stations' coordinates"
+	what := "the grid (" + spec.String() + ")"
+	hint := "check the bbox and the stations' coordinates."
 	if b := job.BBox; b != nil {
 		what = "the grid of bbox " + fmtBBox(*b)
 		if b[0] > b[2] {
@@ -39,7 +39,7 @@ func checkInside(job *Job, vals *station.Values, spec grid.Spec, pts []interp.Po
 				strconv.FormatFloat(b[2]+360-b[0], 'f', -1, 64))
 		}
 	}
-	return fmt.Errorf("none of the %d stations of %s lies inside %s, so the map would be empty; %s (%s)",
+	return fmt.Errorf("none of the %d stations of %s lies inside %s, so the map would show none of them; %s %s",
 		len(pts), vals.Path, what, hint, allowEmptyHint)
 }
 
@@ -50,7 +50,7 @@ func checkCovered(job *Job, res *Result) error {
 		return nil
 	}
 	p := job.Params
-	return fmt.Errorf("no cell of the grid %s has a value: every cell has fewer than %d stations (min stations) within %g km (the search radius), so the map would be empty and read 0.0 %% in drought; lower the min stations or widen the radius (%s)",
+	return fmt.Errorf("no cell of the grid (%s) has a value: every cell has fewer than %d stations (min stations) within %g km (the search radius), so the map would be empty and read 0.0 %% in drought; lower the min stations or widen the radius. %s",
 		res.Spec, p.MinStations, p.RadiusKm, allowEmptyHint)
 }
 
