@@ -18,6 +18,8 @@
 // date order. The header fixes the band scheme: a file written with another
 // scheme is refused and left untouched. The file is rewritten through a
 // temporary name renamed at the end, so a failure leaves the earlier file
-// whole. Reading finds the date, region and in_drought_pct columns by name,
+// whole, and Append holds a lock beside the file (.NAME.drygrid-lock,
+// removed when done) from its read to its rename, so two runs appending to
+// one history at once both keep their rows. Reading finds the date, region and in_drought_pct columns by name,
 // whatever the scheme.
 package history

@@ -9,6 +9,7 @@ import (
 	"io/fs"
 	"math"
 	"os"
+	"path/filepath"
 	"slices"
 	"sort"
 	"strconv"
@@ -40,7 +41,9 @@ func histCheckDate(date string) error {
 // replaces that date's rows instead of duplicating them. Rows are kept in
 // date order (regions in the order given within a date). A history whose
 // header differs from this scheme's (another scheme, another format) is an
-// error and the file is left untouched; the file is rewritten atomically.
+// error and the file is left untouched; the file is rewritten atomically,
+// under an exclusive lock on .NAME.drygrid-lock beside it (waited for,
+// removed when done), so concurrent appends to one file lose no date.
 func Append(path, date string, stats []region.ZonalStats, s *bands.Scheme) error {
 	if err := histCheckDate(date); err != nil {
 		return fmt.Errorf("history %s: %w", path, err)
@@ -52,6 +55,15 @@ func Append(path, date string, stats []region.ZonalStats, s *bands.Scheme) error
 		}
 		seen[z.Key] = true
 	}
+	// The read, the change and the rewrite are one step under a lock
+	// beside the file, so that two runs appending to the same history
+	// (another output directory, drygrid stats) both keep their rows.
+	dir, base := filepath.Split(path)
+	release, err := publish.Lock(filepath.Join(dir, "."+base+publish.LockTag), true)
+	if err != nil {
+		return fmt.Errorf("history %s: lock: %w", path, err)
+	}
+	defer release()
 	header := Header(s)
 	var rows [][]string
 	f, err := os.Open(path)

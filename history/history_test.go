@@ -1,6 +1,7 @@
 package history
 
 import (
+	"fmt"
 	"math"
 	"os"
 	"path/filepath"
@@ -111,4 +112,37 @@ func FuzzParseHistory(f *testing.F) {
 			}
 		}
 	})
+}
+
+// TestAppendConcurrent: appends of different dates to one history at the
+// same time all end up in the file, and no lock file stays beside it
+// (issue 17: two jobs with the same history file lost one date's rows).
+func TestAppendConcurrent(t *testing.T) {
+	dir := t.TempDir()
+	path := filepath.Join(dir, "history.csv")
+	s := bands.Default()
+	const days = 16
+	errs := make(chan error, days)
+	for d := range days {
+		go func() {
+			date := fmt.Sprintf("2026-05-%02d", d+1)
+			errs <- Append(path, date, []region.ZonalStats{histStats("north", 20, 80), histStats("south", 5, 50)}, s)
+		}()
+	}
+	for range days {
+		if err := <-errs; err != nil {
+			t.Fatal(err)
+		}
+	}
+	h, err := Read(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(h.Dates) != days {
+		t.Errorf("%d dates in the history, want %d", len(h.Dates), days)
+	}
+	entries, _ := os.ReadDir(dir)
+	if len(entries) != 1 {
+		t.Errorf("files beside the history: %v", entries)
+	}
 }

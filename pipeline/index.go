@@ -30,8 +30,8 @@ func runIndex(job *Job, start time.Time) (*station.IndexResult, error) {
 	}
 	s := res.Summary()
 	if job.Note != nil {
-		job.Note(fmt.Sprintf("index %d: %d stations, %d with percentile and SPI, %d without (%d too few years, %d no total)",
-			s.Year, s.Stations, s.WithIndex, s.Stations-s.WithIndex, s.TooFewYears, s.NoTotal))
+		job.Note(fmt.Sprintf("index %d: %d stations, %d with percentile and SPI, %d without (%d too few years, %d no total); poor fit (%s): %d stations touched",
+			s.Year, s.Stations, s.WithIndex, s.Stations-s.WithIndex, s.TooFewYears, s.NoTotal, s.PoorFitRule, s.PoorFit))
 	}
 	job.StationsData = buf.Bytes()
 	job.Extra = cloneMap(job.Extra)
@@ -46,13 +46,13 @@ func runIndex(job *Job, start time.Time) (*station.IndexResult, error) {
 	job.ExtraParams = cloneMap(job.ExtraParams)
 	job.ExtraParams["index"] = map[string]any{
 		"year": s.Year, "ref_start": s.RefStart, "ref_end": s.RefEnd, "min_years": s.MinYears,
-		"distribution": s.Distribution, "total_column": step.Options.TotalColumn,
+		"distribution": s.Distribution, "total_column": step.Options.TotalColumn, "poor_fit": s.PoorFitRule,
 	}
 	job.ExtraCounts = cloneMap(job.ExtraCounts)
 	job.ExtraCounts["index"] = map[string]any{
 		"stations": s.Stations, "with_index": s.WithIndex, "no_total": s.NoTotal,
 		"too_few_years": s.TooFewYears, "not_fitted": s.NoIndexOther, "fit_failed": s.FitFailed,
-		"fit_rejected": s.FitRejected, "fit_untested": s.FitUntested, "capped": s.Capped,
+		"fit_rejected": s.FitRejected, "fit_untested": s.FitUntested, "capped": s.Capped, "poor_fit": s.PoorFit,
 		"totals_rows": res.TotalsRows, "totals_rows_unknown_station": s.SkippedUnknown,
 	}
 	job.extraTimings = map[string]float64{"index_s": seconds(job.now().Sub(start))}

@@ -45,6 +45,10 @@ type Job struct {
 	Title      string   // picture and page title ("" = from the kind)
 	Subtitle   string   // picture and page subtitle ("" = from the parameters)
 	Out        string   // output directory, replaced atomically
+	// AllowEmpty publishes a map all the same when no station lies inside
+	// the grid or no cell has a value (otherwise an error: an empty map
+	// would read "0.0 % in drought").
+	AllowEmpty bool
 
 	// History, when set, is the history CSV the day's region rows are added
 	// to once the layers are published, dated Date (YYYY-MM-DD; "" = today,

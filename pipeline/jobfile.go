@@ -42,10 +42,12 @@ type jobFile struct {
 		RefEnd       int    `toml:"ref_end"`
 		MinYears     int    `toml:"min_years"`
 		Distribution string `toml:"distribution"`
+		PoorFit      string `toml:"poor_fit"`
 	} `toml:"index"`
 	Grid struct {
-		Res  float64   `toml:"res"`
-		BBox []float64 `toml:"bbox"`
+		Res        float64   `toml:"res"`
+		BBox       []float64 `toml:"bbox"`
+		AllowEmpty bool      `toml:"allow_empty"`
 	} `toml:"grid"`
 	Interp struct {
 		Power       float64 `toml:"power"`
@@ -76,8 +78,8 @@ type jobFile struct {
 var jobKnownKeys = map[string][]string{
 	"":              {"window", "date", "year", "title", "inputs", "index", "grid", "interpolation", "bands", "regions", "output", "history"},
 	"inputs":        {"stations", "totals", "kind", "value_column", "id_column", "lat_column", "lon_column", "total_column"},
-	"index":         {"ref_start", "ref_end", "min_years", "distribution"},
-	"grid":          {"res", "bbox"},
+	"index":         {"ref_start", "ref_end", "min_years", "distribution", "poor_fit"},
+	"grid":          {"res", "bbox", "allow_empty"},
 	"interpolation": {"power", "neighbors", "radius_km", "min_stations", "sectors", "crossval"},
 	"bands":         {"scheme"},
 	"regions":       {"file", "key"},
@@ -278,7 +280,8 @@ func (p *jobParser) build(f *jobFile, md *toml.MetaData) (*Job, error) {
 	if totals != "" {
 		step := &IndexStep{Totals: totals, StationList: stations}
 		step.Options = station.IndexOptions{Year: year, RefStart: f.Index.RefStart, RefEnd: f.Index.RefEnd,
-			MinYears: f.Index.MinYears, Distribution: strings.ToLower(f.Index.Distribution), TotalColumn: in.TotalColumn}
+			MinYears: f.Index.MinYears, Distribution: strings.ToLower(f.Index.Distribution), TotalColumn: in.TotalColumn,
+			PoorFit: strings.ToLower(f.Index.PoorFit)}
 		if def("index.min_years") && f.Index.MinYears < 1 {
 			return nil, p.errAt("index.min_years", "%d: must be 1 or more", f.Index.MinYears)
 		}
@@ -287,6 +290,8 @@ func (p *jobParser) build(f *jobFile, md *toml.MetaData) (*Job, error) {
 			switch {
 			case strings.Contains(err.Error(), "distribution"):
 				key = "index.distribution"
+			case strings.HasPrefix(err.Error(), "poor-fit"):
+				key = "index.poor_fit"
 			case strings.Contains(err.Error(), "reference"):
 				key = "index.ref_start"
 			case strings.HasPrefix(err.Error(), "year"):
@@ -346,6 +351,7 @@ func (p *jobParser) build(f *jobFile, md *toml.MetaData) (*Job, error) {
 		return nil, p.usage(err)
 	}
 	j.CrossVal = f.Interp.CrossVal
+	j.AllowEmpty = f.Grid.AllowEmpty
 	if j.Scheme, err = p.path("bands.scheme", f.Bands.Scheme, md); err != nil {
 		return nil, err
 	}
@@ -364,6 +370,9 @@ func (p *jobParser) build(f *jobFile, md *toml.MetaData) (*Job, error) {
 	}
 	if j.Out, err = p.path("output.dir", f.Output.Dir, md); err != nil {
 		return nil, err
+	}
+	if def("output.layers") && strings.TrimSpace(strings.Join(f.Output.Layers, "")) == "" {
+		return nil, p.errAt("output.layers", "the list names no layer; list the layers (%s) or write [\"all\"]", strings.Join(AllLayers, ", "))
 	}
 	layers, err := ParseLayers(strings.Join(f.Output.Layers, ","))
 	if err != nil {
@@ -441,11 +450,13 @@ min_years = 30                          # least number of reference totals
 # ref_start = 1991                      # reference period (default: every year a station has)
 # ref_end = 2020
 distribution = "gamma"                  # gamma or empirical
+# poor_fit = "empirical"                # a gamma fit Anderson-Darling rejects: empirical (Gringorten) SPI, keep, or drop
 
 [grid]
 res = 0.05                              # cell size in degrees
 bbox = [-128.0, -45.0, -116.0, -38.0]   # W, S, E, N; W > E crosses the antimeridian
                                         # (default: the stations' extent widened by radius_km)
+# allow_empty = false                   # true: publish a map with no station inside or no covered cell
 
 [interpolation]
 power = 2.0                             # IDW weights distance^-power

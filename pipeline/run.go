@@ -78,14 +78,24 @@ type inputs struct {
 // the manifest written into a staging directory beside Job.Out, which is
 // published in place of Job.Out only when every file is complete (package
 // publish), so a failed run leaves earlier outputs untouched; then the
-// history rows (with Job.History). The context is checked between row
-// blocks.
+// history rows (with Job.History). The output directory is locked, checked
+// for writing and recovered from an earlier crash (publish.Begin) before
+// any input is read, and stays locked until the history is written. The
+// context is checked between row blocks.
 func Run(ctx context.Context, job Job) (*Result, error) {
+	if err := job.Validate(); err != nil {
+		return nil, err
+	}
+	stage, err := publish.Begin(job.Out, publish.Options{})
+	if err != nil {
+		return nil, err
+	}
+	defer stage.Close()
 	res, in, start, err := compute(ctx, &job, streamable(job))
 	if err != nil {
 		return nil, err
 	}
-	if err := writeLayers(ctx, &job, res, in.regions, start); err != nil {
+	if err := writeLayers(ctx, &job, res, in.regions, start, stage); err != nil {
 		return nil, err
 	}
 	res.Elapsed = job.now().Sub(start)
@@ -144,6 +154,9 @@ func compute(ctx context.Context, job *Job, stream bool) (*Result, *inputs, time
 	if err != nil {
 		return nil, nil, start, err
 	}
+	if err := checkInside(job, vals, spec, pts); err != nil {
+		return nil, nil, start, err
+	}
 	ip, err := interp.New(pts, job.Params)
 	if err != nil {
 		return nil, nil, start, err
@@ -184,6 +197,9 @@ func compute(ctx context.Context, job *Job, stream bool) (*Result, *inputs, time
 		res.tally = bands.NewTally(spec)
 		res.tally.Add(0, spec.Rows, res.Bands.Data)
 		res.shares()
+		if err := checkCovered(job, &res); err != nil {
+			return nil, nil, start, err
+		}
 		if len(in.regions) > 0 {
 			res.Regions = region.Zonal(res.Bands, index, in.regions)
 		}
@@ -337,9 +353,9 @@ func previousOutputs(dir string) []string {
 }
 
 // writeLayers writes the chosen layers, the extra files and the manifest
-// into a staging directory beside job.Out and publishes it in place of
-// job.Out once all are written.
-func writeLayers(ctx context.Context, job *Job, res *Result, regions []region.Region, start time.Time) error {
+// into the stage's directory beside job.Out and swaps it in place of
+// job.Out once all are written (the stage stays locked until closed).
+func writeLayers(ctx context.Context, job *Job, res *Result, regions []region.Region, start time.Time, stage *publish.Stage) error {
 	inputs := []string{job.Scheme, job.Regions}
 	if job.StationsData == nil {
 		inputs = append(inputs, job.Stations)
@@ -350,8 +366,8 @@ func writeLayers(ctx context.Context, job *Job, res *Result, regions []region.Re
 	for _, in := range job.extraInputs {
 		inputs = append(inputs, in.Path)
 	}
-	opt := publish.Options{Owned: owned(job), Inputs: inputs, Previous: previousOutputs}
-	return publish.Dir(job.Out, opt, func(dir string) error {
+	stage.SetOptions(publish.Options{Owned: owned(job), Inputs: inputs, Previous: previousOutputs})
+	err := func(dir string) error {
 		writeStart := job.now()
 		w := &layerWriter{job: job, res: res, regions: regions, dir: dir}
 		for _, name := range AllLayers {
@@ -363,6 +379,11 @@ func writeLayers(ctx context.Context, job *Job, res *Result, regions []region.Re
 			}
 			if err := w.write(name); err != nil {
 				return fmt.Errorf("layer %s: %w", name, err)
+			}
+		}
+		if res.rows != nil { // streamed: the band shares are known now
+			if err := checkCovered(job, res); err != nil {
+				return err
 			}
 		}
 		for _, name := range sortedKeys(job.Extra) {
@@ -384,7 +405,11 @@ func writeLayers(ctx context.Context, job *Job, res *Result, regions []region.Re
 		}
 		res.Files = append(res.Files, manifest.Name)
 		return nil
-	})
+	}(stage.Dir())
+	if err != nil {
+		return err
+	}
+	return stage.Swap()
 }
 
 // regionsErrPos adds the line and column to a JSON syntax error in the

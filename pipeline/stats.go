@@ -3,12 +3,14 @@ package pipeline
 import (
 	"fmt"
 	"os"
+	"path/filepath"
 
 	"drygrid/bands"
 	"drygrid/geotiff"
 	"drygrid/grid"
 	"drygrid/history"
 	"drygrid/layer/regions"
+	"drygrid/manifest"
 	"drygrid/region"
 )
 
@@ -20,7 +22,7 @@ type StatsJob struct {
 	Regions   string // regions GeoJSON
 	RegionKey string
 	Scheme    string // band scheme file ("" = the default bands)
-	Out       string // directory for regions.csv and regions.json
+	Out       string // directory for regions.csv and regions.json (required; not a run's output directory)
 	History   string // history CSV the day's rows are added to (needs Date)
 	Date      string // the day the band raster describes, YYYY-MM-DD
 }
@@ -50,7 +52,10 @@ func Stats(job StatsJob) (*StatsResult, error) {
 		}
 	}
 	if job.Out == "" {
-		job.Out = "."
+		return nil, Usagef("stats needs --out DIR, the directory for regions.csv and regions.json")
+	}
+	if err := checkStatsOut(job.Out); err != nil {
+		return nil, err
 	}
 	scheme, err := LoadScheme(job.Scheme)
 	if err != nil {
@@ -96,6 +101,20 @@ func Stats(job StatsJob) (*StatsResult, error) {
 		}
 	}
 	return res, nil
+}
+
+// checkStatsOut refuses an output directory that holds a manifest.json: it
+// is the output directory of a run, whose regions.csv and regions.json the
+// manifest lists with their SHA-256; writing new ones there would make the
+// manifest wrong (issue 17). It is a usage error (exit code 2): the
+// command asks for the wrong place, and another --out is the remedy.
+func checkStatsOut(out string) error {
+	path := filepath.Join(out, manifest.Name)
+	if _, err := os.Lstat(path); err == nil {
+		return Usagef("--out %s holds %s: it is the output directory of a drygrid run, whose manifest lists its own regions.csv and regions.json with their SHA-256; write the statistics into another directory (e.g. --out %s)",
+			out, path, filepath.Join(out, "stats"))
+	}
+	return nil
 }
 
 // checkCodes refuses a band raster holding codes the scheme lacks: its

@@ -14,19 +14,34 @@ package publish
 //     hard-linked (another file system mounted inside OUT, a file system
 //     without hard links, a device or socket) makes the run stop with an
 //     error before anything is touched, rather than being copied or dropped;
-//  2. OUT is renamed aside to .OUT.drygrid-old-PID-RANDOM;
-//  3. the temporary directory is renamed to OUT;
-//  4. the old directory is removed (it holds only drygrid's earlier files
-//     and the second links of the carried-over ones).
+//  2. the temporary directory and OUT are exchanged in one step
+//     (renameat2 with RENAME_EXCHANGE, Linux 3.15 and most local file
+//     systems), so OUT is never missing; the previous contents, now under
+//     the temporary name, are removed. Where the exchange is not available
+//     it is two renames: OUT aside to .OUT.drygrid-old-PID-RANDOM, then
+//     the temporary directory to OUT, and the old directory removed;
+//  3. the parent directory is synced, so the renames are on disk.
 //
-// Steps 2 and 3 are two renames. A crash between them leaves no OUT, the
-// previous contents complete in .OUT.drygrid-old-* and the new ones in
-// .OUT.drygrid-tmp-*; the next run on OUT renames the old directory back
-// before it starts (or do it by hand: mv .OUT.drygrid-old-* OUT). A crash
-// after step 3 leaves the old directory beside OUT; the next run removes it.
-// A crash or an error before step 2 leaves OUT byte-identical. Temporary
-// directories whose process is gone, or older than an hour, are
-// removed at the next run on the same OUT.
+// OUT keeps its owner and group (as far as the process may set them: root
+// always, a user the group of a directory it owns if a member), its mode
+// bits with setgid and sticky, and so do the user's subdirectories
+// carried over.
+//
+// A crash between the two renames leaves no OUT, the previous contents
+// complete in .OUT.drygrid-old-* and the new ones in .OUT.drygrid-tmp-*;
+// the next run on OUT renames the old directory back in Begin, before it
+// reads its inputs, so even a run that then fails on bad input restores it
+// (or do it by hand: mv .OUT.drygrid-old-* OUT). A crash after the swap
+// leaves the previous directory beside OUT; the next run removes it
+// (making its directories writable if needed, so none stays behind). A
+// crash or an error before the swap leaves OUT byte-identical. Temporary
+// directories whose process is gone, or older than an hour, are removed
+// at the next run on the same OUT.
+//
+// Begin refuses, before any work, an OUT whose parent is not writable and
+// an existing OUT that is read-only: one whose owner lacks the write bit
+// (the rule holds for root too, whom access(2) lets write anything) or
+// that access(2) says the process may not write.
 //
 // drygrid's own files are the names in Options.Owned (the layers' files,
 // manifest.json and the run's extra files) and those its previous
@@ -34,12 +49,15 @@ package publish
 // --layers choice) disappears, so OUT always matches its manifest. A file
 // this run reads as an input is always carried over.
 //
-// Two runs never publish to the same OUT at the same time: a run holds an
-// exclusive lock (flock) on the empty file .OUT.drygrid-lock beside OUT from
-// before it recovers or writes anything until the swap is done, and a
-// second run on OUT stops at once with an error (exit code 1) naming the
-// lock. The system drops the lock when the process ends, however it ends,
-// so a crash leaves no stale lock; the file itself stays, harmless.
+// Two runs never work on the same OUT at the same time: a run holds an
+// exclusive lock (flock) on the file .OUT.drygrid-lock beside OUT from
+// Begin, before it reads or computes anything, until the swap is done, and
+// a second run on OUT stops at once with an error (exit code 1) naming the
+// holder's pid and the lock file. The lock file holds the pid and is
+// removed when the lock is released (Lock), so nothing stays beside OUT;
+// the system drops the lock when the process ends, however it ends, so a
+// crash leaves no stale lock, only the file, which the next run takes over
+// and removes.
 
 import (
 	"crypto/rand"
@@ -88,12 +106,18 @@ type Stage struct {
 	opt    Options
 	unlock func()
 	done   bool
+	// swapped: the staging directory has become the output directory
+	swapped bool
 }
 
-// Begin locks the output directory out (creating its parent), recovers
-// from an earlier crash and makes a fresh staging directory beside out.
-// Write the new files into Dir, then Commit to swap them in or Abort to
-// drop them; either releases the lock.
+// Begin checks that the output directory out (and its parent, created if
+// missing) can be written, locks it, recovers from an earlier crash and
+// makes a fresh staging directory beside out. Call it before the work, so
+// that a second run on out, a read-only directory or the remains of a
+// crash are dealt with before anything is read or computed. Write the new
+// files into Dir, then Commit to swap them in or Abort to drop them;
+// either releases the lock (Swap and Close split Commit, to do more under
+// the lock after the swap).
 func Begin(out string, opt Options) (*Stage, error) {
 	abs, err := target(out)
 	if err != nil {
@@ -103,7 +127,10 @@ func Begin(out string, opt Options) (*Stage, error) {
 	if err := os.MkdirAll(parent, 0o755); err != nil {
 		return nil, fmt.Errorf("output directory %s: %w", out, err)
 	}
-	unlock, err := lock(parent, base, out)
+	if err := checkWritable(parent, abs, out); err != nil {
+		return nil, err
+	}
+	unlock, err := lockOut(parent, base, out)
 	if err != nil {
 		return nil, err
 	}
@@ -122,31 +149,47 @@ func Begin(out string, opt Options) (*Stage, error) {
 // Dir is the staging directory the new files go into.
 func (s *Stage) Dir() string { return s.dir }
 
+// SetOptions replaces the options given to Begin (what the writer owns
+// is often known only once the work is done); the swap uses them.
+func (s *Stage) SetOptions(opt Options) { s.opt = opt }
+
 // Abort removes the staging directory and releases the lock, leaving the
 // output directory as it was. It does nothing after Commit or Abort.
-func (s *Stage) Abort() {
+func (s *Stage) Abort() { s.Close() }
+
+// Close releases the lock; before a swap it also removes the staging
+// directory, leaving the output directory as it was. Again does nothing.
+func (s *Stage) Close() {
 	if s.done {
 		return
 	}
 	s.done = true
-	os.RemoveAll(s.dir)
+	if !s.swapped {
+		os.RemoveAll(s.dir)
+	}
 	s.unlock()
 }
 
-// Commit carries the files the writer does not own over into the staging
-// directory (as hard links) and swaps it in place of the output directory
-// (see the file comment). On an error before the swap the output
-// directory is left as it was and the staging directory is removed.
+// Commit swaps the staging directory in (Swap) and releases the lock.
 func (s *Stage) Commit() error {
 	if s.done {
 		return fmt.Errorf("publish %s: already committed or aborted", s.out)
 	}
-	swapped, err := s.swap()
-	if !swapped {
-		os.RemoveAll(s.dir)
+	err := s.Swap()
+	s.Close()
+	return err
+}
+
+// Swap carries the files the writer does not own over into the staging
+// directory (as hard links) and swaps it in place of the output directory
+// (see the file comment), keeping the lock until Close. On an error before
+// the swap the output directory is left as it was.
+func (s *Stage) Swap() error {
+	if s.done || s.swapped {
+		return fmt.Errorf("publish %s: already committed or aborted", s.out)
 	}
-	s.done = true
-	s.unlock()
+	swapped, err := s.swap()
+	s.swapped = swapped
 	return err
 }
 
@@ -164,7 +207,14 @@ func Dir(out string, opt Options, write func(dir string) error) error {
 	return s.Commit()
 }
 
-// swap is Commit's work; swapped reports whether the staging directory
+// Fault, for tests only, when not nil, is called at the named points of a
+// swap; an error it returns stops the swap there as a crash would, with
+// nothing undone. Its one point is "aside": the output directory has been
+// renamed aside and the staging directory not yet renamed in its place (a
+// Fault forces the two renames instead of an exchange).
+var Fault func(point string) error
+
+// swap is Swap's work; swapped reports whether the staging directory
 // has become the output directory.
 func (s *Stage) swap() (swapped bool, err error) {
 	out, tmp := s.abs, s.dir
@@ -173,29 +223,53 @@ func (s *Stage) swap() (swapped bool, err error) {
 	for _, name := range s.opt.Owned {
 		owned[name] = true
 	}
-	mode := fs.FileMode(0o755)
 	st, err := os.Stat(out)
-	exists := err == nil
-	if exists {
-		mode = st.Mode().Perm()
-		if err := carryOver(out, tmp, owned, s.opt); err != nil {
-			return false, err
+	if errors.Is(err, fs.ErrNotExist) {
+		mode := fs.FileMode(0o755)
+		if st, err := os.Stat(tmp); err == nil {
+			mode |= st.Mode() & fs.ModeSetgid // inherited from a setgid parent
 		}
-	} else if !errors.Is(err, fs.ErrNotExist) {
-		return false, fmt.Errorf("output directory %s: %w", s.out, err)
-	}
-	if err := os.Chmod(tmp, mode); err != nil {
-		return false, fmt.Errorf("output directory %s: %w", s.out, err)
-	}
-	if !exists {
+		if err := os.Chmod(tmp, mode); err != nil {
+			return false, fmt.Errorf("output directory %s: %w", s.out, err)
+		}
 		if err := os.Rename(tmp, out); err != nil {
 			return false, fmt.Errorf("publish %s: %w", s.out, err)
 		}
+		syncDir(parent)
 		return true, nil
+	}
+	if err != nil {
+		return false, fmt.Errorf("output directory %s: %w", s.out, err)
+	}
+	if err := carryOver(out, tmp, owned, s.opt); err != nil {
+		return false, err
+	}
+	// The directory's owner, group and mode bits (setgid, sticky) are kept.
+	if err := keepAttrs(tmp, st); err != nil {
+		return false, fmt.Errorf("output directory %s: %w", s.out, err)
+	}
+	if Fault == nil {
+		// One atomic exchange where the kernel and the file system have
+		// it: the output directory is never missing, and the previous one
+		// ends up under the staging name, removed next.
+		if ok, err := exchange(tmp, out); ok {
+			syncDir(parent)
+			if err := removeTree(tmp); err != nil {
+				return true, fmt.Errorf("publish %s: published, but the previous directory (now %s) was not removed: %w", s.out, tmp, err)
+			}
+			return true, nil
+		} else if err != nil {
+			return false, fmt.Errorf("publish %s: %w", s.out, err)
+		}
 	}
 	old := filepath.Join(parent, "."+base+oldTag+strconv.Itoa(os.Getpid())+"-"+random())
 	if err := os.Rename(out, old); err != nil {
 		return false, fmt.Errorf("publish %s: moving the previous directory aside: %w", s.out, err)
+	}
+	if Fault != nil {
+		if err := Fault("aside"); err != nil {
+			return false, err
+		}
 	}
 	if err := os.Rename(tmp, out); err != nil {
 		if rerr := os.Rename(old, out); rerr != nil {
@@ -203,31 +277,101 @@ func (s *Stage) swap() (swapped bool, err error) {
 		}
 		return false, fmt.Errorf("publish %s: %w", s.out, err)
 	}
-	if err := os.RemoveAll(old); err != nil {
+	syncDir(parent)
+	if err := removeTree(old); err != nil {
 		return true, fmt.Errorf("publish %s: published, but the previous directory %s was not removed: %w", s.out, old, err)
 	}
 	return true, nil
 }
 
-// lock takes the lock of the output directory base in parent (see
-// the file comment) and returns the function that releases it.
-func lock(parent, base, out string) (unlock func(), err error) {
-	path := filepath.Join(parent, "."+base+LockTag)
-	f, err := os.OpenFile(path, os.O_RDWR|os.O_CREATE, 0o644)
-	if err != nil {
-		return nil, fmt.Errorf("output directory %s: lock: %w", out, err)
+// syncDir puts a directory's entries (the renames in it) on disk; an
+// error is ignored (some file systems cannot sync a directory).
+func syncDir(dir string) {
+	if d, err := os.Open(dir); err == nil {
+		d.Sync()
+		d.Close()
 	}
-	if err := syscall.Flock(int(f.Fd()), syscall.LOCK_EX|syscall.LOCK_NB); err != nil {
-		f.Close()
-		if errors.Is(err, syscall.EWOULDBLOCK) {
-			return nil, fmt.Errorf("output directory %s: another drygrid run is writing it (it holds %s); run again when that one has ended", out, path)
-		}
+}
+
+// lockOut takes the lock of the output directory base in parent (see
+// the file comment) and returns the function that releases it.
+func lockOut(parent, base, out string) (unlock func(), err error) {
+	path := filepath.Join(parent, "."+base+LockTag)
+	unlock, err = Lock(path, false)
+	var busy *BusyError
+	if errors.As(err, &busy) {
+		return nil, fmt.Errorf("another drygrid run is writing %s (%s); run again when that one has ended", out, busy.holder())
+	}
+	if err != nil {
 		return nil, fmt.Errorf("output directory %s: lock %s: %w", out, path, err)
 	}
-	return func() {
-		syscall.Flock(int(f.Fd()), syscall.LOCK_UN)
-		f.Close()
-	}, nil
+	return unlock, nil
+}
+
+// checkWritable refuses, before any work, an output directory that could
+// not be replaced: the directory it is in must be writable, and an
+// existing output directory too. The rule is the directory's mode bits
+// as well as access(2): a directory whose owner has no write permission
+// is read-only, even for root (who could write it regardless), since its
+// owner marked it so.
+func checkWritable(parent, abs, out string) error {
+	if err := writableDir(parent); err != nil {
+		return fmt.Errorf("output directory %s: the directory it is in, %s, %v; drygrid writes beside the output directory: make it writable or choose another output directory", out, parent, err)
+	}
+	if st, err := os.Stat(abs); err == nil && st.IsDir() {
+		if err := writableDir(abs); err != nil {
+			return fmt.Errorf("output directory %s %v; drygrid replaces it as a whole: make it writable (chmod u+w %s) or choose another output directory", out, err, out)
+		}
+	}
+	return nil
+}
+
+// writableDir checks a directory's owner write bit and access(2) for
+// writing and searching.
+func writableDir(dir string) error {
+	st, err := os.Stat(dir)
+	if err != nil {
+		return err
+	}
+	if st.Mode().Perm()&0o200 == 0 {
+		return fmt.Errorf("is read-only (mode %v)", st.Mode().Perm())
+	}
+	if err := access(dir); err != nil {
+		return fmt.Errorf("is not writable (%v)", err)
+	}
+	return nil
+}
+
+// removeTree removes a directory tree; where that fails (a directory
+// without write permission, for a user other than root) it makes the
+// directories writable and tries again, so that no previous directory is
+// left behind.
+func removeTree(path string) error {
+	if err := os.RemoveAll(path); err == nil {
+		return nil
+	}
+	filepath.WalkDir(path, func(p string, d fs.DirEntry, err error) error {
+		if err == nil && d.IsDir() {
+			if st, err := os.Lstat(p); err == nil {
+				os.Chmod(p, st.Mode().Perm()|0o700)
+			}
+		}
+		return nil
+	})
+	return os.RemoveAll(path)
+}
+
+// keepAttrs gives dir the owner, group and mode bits (with setuid, setgid
+// and sticky) of st, as far as the process may: only root may give a file
+// away, and a user only to a group of its own; what is not permitted is
+// left as made.
+func keepAttrs(dir string, st fs.FileInfo) error {
+	if sys, ok := st.Sys().(*syscall.Stat_t); ok {
+		if err := os.Lchown(dir, int(sys.Uid), int(sys.Gid)); err != nil {
+			os.Lchown(dir, -1, int(sys.Gid)) // the group alone, if a member
+		}
+	}
+	return os.Chmod(dir, st.Mode()&(fs.ModePerm|fs.ModeSetuid|fs.ModeSetgid|fs.ModeSticky))
 }
 
 // target is the absolute directory to replace: Out itself, or the
@@ -286,13 +430,15 @@ func recoverDir(parent, base string) error {
 			if !strings.HasPrefix(name, prefix) || !e.IsDir() {
 				continue
 			}
-			if !stale(filepath.Join(parent, name), name[len(prefix):]) {
+			// With OUT missing every old directory is a candidate: the lock
+			// is held, so no run is between its renames now.
+			if !(tag == oldTag && outMissing) && !stale(filepath.Join(parent, name), name[len(prefix):]) {
 				continue
 			}
 			if tag == oldTag {
 				olds = append(olds, name)
 			} else {
-				os.RemoveAll(filepath.Join(parent, name))
+				removeTree(filepath.Join(parent, name))
 			}
 		}
 	}
@@ -311,11 +457,12 @@ func recoverDir(parent, base string) error {
 			if err := os.Rename(path, out); err != nil {
 				return fmt.Errorf("output directory %s: restoring %s: %w", out, path, err)
 			}
+			syncDir(parent)
 		}
 		return nil
 	}
 	for _, name := range olds {
-		os.RemoveAll(filepath.Join(parent, name))
+		removeTree(filepath.Join(parent, name))
 	}
 	return nil
 }
@@ -385,8 +532,8 @@ func carryOver(out, tmp string, owned map[string]bool, opt Options) error {
 // directory: the staging directories of earlier versions and temporary files
 // of an interrupted atomic write of one of its files.
 func leftover(name string, owned map[string]bool) bool {
-	if strings.HasPrefix(name, ".drygrid-staging-") {
-		return true
+	if strings.HasPrefix(name, ".drygrid-staging-") || strings.HasSuffix(name, LockTag) {
+		return true // a lock file of a history kept there is the lock's, not the user's
 	}
 	for f := range owned {
 		if strings.HasPrefix(name, "."+f+".tmp-") {
@@ -409,7 +556,13 @@ func link(src, dst string) error {
 		if err != nil {
 			return err
 		}
-		return os.Symlink(target, dst)
+		if err := os.Symlink(target, dst); err != nil {
+			return err
+		}
+		if sys, ok := st.Sys().(*syscall.Stat_t); ok {
+			os.Lchown(dst, int(sys.Uid), int(sys.Gid)) // as far as permitted
+		}
+		return nil
 	case st.IsDir():
 		if err := os.Mkdir(dst, st.Mode().Perm()|0o700); err != nil {
 			return err
@@ -423,7 +576,7 @@ func link(src, dst string) error {
 				return err
 			}
 		}
-		if err := os.Chmod(dst, st.Mode().Perm()); err != nil {
+		if err := keepAttrs(dst, st); err != nil {
 			return err
 		}
 		return os.Chtimes(dst, st.ModTime(), st.ModTime())

@@ -7,6 +7,7 @@ import (
 	"os"
 	"path/filepath"
 	"strings"
+	"sync/atomic"
 	"syscall"
 	"testing"
 	"time"
@@ -63,8 +64,8 @@ func hashDir(t *testing.T, dir string) map[string]string {
 
 var all = []string{"index.tif", "bands.tif", "map.png"}
 
-// parentLeftovers lists the hidden publish directories beside out (not the
-// lock file, which stays by design).
+// parentLeftovers lists the hidden publish files beside out: staging and
+// old directories, and the lock file, which is removed with the lock.
 func parentLeftovers(t *testing.T, out string) []string {
 	t.Helper()
 	entries, err := os.ReadDir(filepath.Dir(out))
@@ -73,7 +74,7 @@ func parentLeftovers(t *testing.T, out string) []string {
 	}
 	var left []string
 	for _, e := range entries {
-		if strings.HasPrefix(e.Name(), "."+filepath.Base(out)+".drygrid-") && e.Name() != "."+filepath.Base(out)+LockTag {
+		if strings.HasPrefix(e.Name(), "."+filepath.Base(out)+".drygrid-") {
 			left = append(left, e.Name())
 		}
 	}
@@ -269,7 +270,7 @@ func TestPublishLock(t *testing.T) {
 		t.Fatal(err)
 	}
 	err = publishFiles(out, []string{"index.tif", "bands.tif"}, nil)
-	if err == nil || !strings.Contains(err.Error(), "another drygrid run is writing it") || !strings.Contains(err.Error(), lock) {
+	if err == nil || !strings.Contains(err.Error(), "another drygrid run is writing "+out) || !strings.Contains(err.Error(), lock) {
 		t.Errorf("locked run: %v", err)
 	}
 	if after, _ := os.ReadFile(filepath.Join(out, "outputs")); string(after) != string(before) {
@@ -291,7 +292,7 @@ func TestPublishLock(t *testing.T) {
 }
 
 // TestStageAbort: a stage aborted leaves the output directory as it was,
-// nothing beside it but the lock file, and the lock free for the next run;
+// nothing beside it (not even the lock file), and the lock free for the next run;
 // a stage ends once.
 func TestStageAbort(t *testing.T) {
 	out := filepath.Join(t.TempDir(), "layers")
@@ -325,3 +326,214 @@ func TestStageAbort(t *testing.T) {
 		t.Errorf("after Abort: %v", err)
 	}
 }
+
+// TestPublishKeepsOwnerAndModes: the output directory's group, its setgid
+// bit and a carried subdirectory's sticky bit and group survive a run
+// (issue 17: they were lost). The group is set by chown, which only root
+// may do for any group: elsewhere that part is skipped.
+func TestPublishKeepsOwnerAndModes(t *testing.T) {
+	out := filepath.Join(t.TempDir(), "layers")
+	if err := publishFiles(out, all, nil); err != nil {
+		t.Fatal(err)
+	}
+	shared := filepath.Join(out, "shared")
+	if err := os.Mkdir(shared, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	os.WriteFile(filepath.Join(shared, "a.txt"), []byte("a"), 0o644)
+	const gid = 1 // a group other than root's (daemon on Debian)
+	chowned := os.Getuid() == 0
+	if chowned {
+		if err := os.Chown(out, -1, gid); err != nil {
+			t.Fatal(err)
+		}
+		if err := os.Chown(shared, -1, gid); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if err := os.Chmod(out, 0o775|os.ModeSetgid); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.Chmod(shared, 0o777|os.ModeSticky); err != nil {
+		t.Fatal(err)
+	}
+	if err := publishFiles(out, all, nil); err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		path string
+		mode os.FileMode
+	}{{out, 0o775 | os.ModeSetgid}, {shared, 0o777 | os.ModeSticky}} {
+		st, err := os.Stat(c.path)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if got := st.Mode() & (os.ModePerm | os.ModeSetgid | os.ModeSticky | os.ModeSetuid); got != c.mode {
+			t.Errorf("%s: mode %v, want %v", c.path, got, c.mode)
+		}
+		if g := st.Sys().(*syscall.Stat_t).Gid; chowned && g != gid {
+			t.Errorf("%s: group %d, want %d", c.path, g, gid)
+		}
+	}
+	if b, err := os.ReadFile(filepath.Join(shared, "a.txt")); err != nil || string(b) != "a" {
+		t.Errorf("shared/a.txt: %q, %v", b, err)
+	}
+	if !chowned {
+		t.Skip("not root: the group part (chown to group 1) is not checked")
+	}
+}
+
+// TestPublishRefusesReadOnly: a read-only output directory (its owner has
+// no write bit; root could write it all the same) and an output directory
+// whose parent is read-only are refused before anything is written, with
+// nothing left beside them (issue 17: it was replaced anyway and left
+// .OUT.drygrid-old-* behind).
+func TestPublishRefusesReadOnly(t *testing.T) {
+	dir := t.TempDir()
+	out := filepath.Join(dir, "layers")
+	if err := publishFiles(out, all, nil); err != nil {
+		t.Fatal(err)
+	}
+	before := hashDir(t, out)
+	if err := os.Chmod(out, 0o555); err != nil {
+		t.Fatal(err)
+	}
+	defer os.Chmod(out, 0o755)
+	wrote := false
+	err := Dir(out, Options{Owned: layerNames}, func(string) error { wrote = true; return nil })
+	if err == nil || !strings.Contains(err.Error(), "is read-only (mode -r-xr-xr-x)") || !strings.Contains(err.Error(), "chmod u+w") {
+		t.Errorf("read-only output directory: %v", err)
+	}
+	if wrote {
+		t.Error("the work ran before the refusal")
+	}
+	if after := hashDir(t, out); len(after) != len(before) {
+		t.Errorf("output changed: %v -> %v", before, after)
+	}
+	if left := parentLeftovers(t, out); len(left) > 0 {
+		t.Errorf("left behind %v", left)
+	}
+	os.Chmod(out, 0o755)
+	roParent := filepath.Join(dir, "ro")
+	os.Mkdir(roParent, 0o555)
+	defer os.Chmod(roParent, 0o755)
+	err = Dir(filepath.Join(roParent, "layers"), Options{}, func(string) error { wrote = true; return nil })
+	if err == nil || !strings.Contains(err.Error(), "the directory it is in") || wrote {
+		t.Errorf("read-only parent: %v (work ran: %v)", err, wrote)
+	}
+	if entries, _ := os.ReadDir(roParent); len(entries) > 0 {
+		t.Errorf("left in the read-only parent: %v", entries)
+	}
+}
+
+// TestRemoveTreeReadOnly: the previous directory is removed even when a
+// user's subdirectory in it has no write permission (for a user other than
+// root the plain removal fails there).
+func TestRemoveTreeReadOnly(t *testing.T) {
+	d := filepath.Join(t.TempDir(), "old")
+	os.MkdirAll(filepath.Join(d, "ro"), 0o755)
+	os.WriteFile(filepath.Join(d, "ro", "f"), []byte("x"), 0o444)
+	os.Chmod(filepath.Join(d, "ro"), 0o555)
+	if err := removeTree(d); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := os.Lstat(d); !errors.Is(err, os.ErrNotExist) {
+		t.Errorf("still there: %v", err)
+	}
+}
+
+// TestPublishCrashBetweenRenames: a crash between the two renames (the
+// fault point "aside") leaves no output directory; the next Begin puts the
+// previous one back before its work even starts, and the work failing
+// then leaves it in place.
+func TestPublishCrashBetweenRenames(t *testing.T) {
+	out := filepath.Join(t.TempDir(), "layers")
+	if err := publishFiles(out, all, nil); err != nil {
+		t.Fatal(err)
+	}
+	before := hashDir(t, out)
+	crash := errors.New("crash")
+	Fault = func(string) error { return crash }
+	err := publishFiles(out, []string{"index.tif"}, nil)
+	Fault = nil
+	if !errors.Is(err, crash) {
+		t.Fatalf("fault: %v", err)
+	}
+	if _, err := os.Stat(out); !errors.Is(err, os.ErrNotExist) {
+		t.Fatalf("output directory after the crash: %v", err)
+	}
+	s, err := Begin(out, Options{Owned: layerNames})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if after := hashDir(t, out); len(after) != len(before) {
+		t.Errorf("not restored by Begin: %v", after)
+	}
+	s.Abort()
+	if left := parentLeftovers(t, out); len(left) > 0 {
+		t.Errorf("left behind %v", left)
+	}
+	// The two renames to the end (a Fault that lets them go on), as where
+	// the kernel has no exchange: published, nothing left beside.
+	Fault = func(string) error { return nil }
+	err = publishFiles(out, []string{"index.tif"}, nil)
+	Fault = nil
+	if err != nil {
+		t.Fatal(err)
+	}
+	if b, err := os.ReadFile(filepath.Join(out, "outputs")); err != nil || string(b) != "index.tif" {
+		t.Errorf("after the two renames: %q, %v", b, err)
+	}
+	if left := parentLeftovers(t, out); len(left) > 0 {
+		t.Errorf("left behind %v", left)
+	}
+}
+
+// TestLockWaitsAndLeavesNothing: holders of Lock with wait take turns
+// (never two at once), and the lock file is gone when the last releases;
+// without wait a held lock is an error naming the holder's pid.
+func TestLockWaitsAndLeavesNothing(t *testing.T) {
+	path := filepath.Join(t.TempDir(), ".h.csv"+LockTag)
+	release, err := Lock(path, true)
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, err = Lock(path, false)
+	var busy *BusyError
+	if !errors.As(err, &busy) || busy.Pid != os.Getpid() || !errors.Is(err, ErrBusy) {
+		t.Errorf("second lock without wait: %v", err)
+	}
+	release()
+	var inside, most int32
+	done := make(chan error)
+	for range 8 {
+		go func() {
+			rel, err := Lock(path, true)
+			if err != nil {
+				done <- err
+				return
+			}
+			n := atomicAdd(&inside, 1)
+			if n > most {
+				most = n
+			}
+			time.Sleep(time.Millisecond)
+			atomicAdd(&inside, -1)
+			rel()
+			done <- nil
+		}()
+	}
+	for range 8 {
+		if err := <-done; err != nil {
+			t.Fatal(err)
+		}
+	}
+	if most != 1 {
+		t.Errorf("%d holders at once", most)
+	}
+	if _, err := os.Lstat(path); !errors.Is(err, os.ErrNotExist) {
+		t.Errorf("lock file left: %v", err)
+	}
+}
+
+func atomicAdd(p *int32, d int32) int32 { return atomic.AddInt32(p, d) }

@@ -26,6 +26,7 @@ type gridFlags struct {
 	history    string
 	date       string
 	out        string
+	allowEmpty bool
 }
 
 func newGridCmd() *cobra.Command {
@@ -52,7 +53,12 @@ interpolation, so index.tif always holds z.
 
 The files are written into a temporary directory beside --out and swapped in only when
 every layer is complete, so a failed run leaves the previous layers untouched (the parent
-of --out must be writable). Files of your own in --out are kept.
+of --out must be writable, and an existing --out not read-only). Files of your own in --out
+are kept. A second run on the same --out stops at once while the first is running.
+
+A grid holding none of the stations (a bbox with west and east swapped is a grid across the
+antimeridian), or whose cells all lack a value, is refused rather than published as an empty
+map reading "0.0 % in drought"; --allow-empty publishes it all the same.
 
 The layers are interpolated estimates, not official drought declarations.`,
 		Example: `  # SPI per station to all layers at 0.1 deg over the stations' extent
@@ -96,6 +102,7 @@ The layers are interpolated estimates, not official drought declarations.`,
 	fl.StringVar(&f.history, "history", "", "append the day's region rows to this CSV (with --regions); re-running a date replaces its rows")
 	fl.StringVar(&f.date, "date", "", "date of the history rows, YYYY-MM-DD (default: today, UTC)")
 	fl.StringVar(&f.out, "out", "", "output directory (required; created if missing)")
+	fl.BoolVar(&f.allowEmpty, "allow-empty", false, "publish the map even when no station lies inside the grid or no cell has a value")
 	return cmd
 }
 
@@ -112,7 +119,7 @@ func (f gridFlags) job() (pipeline.Job, error) {
 		Stations: f.stations, Values: values,
 		Res: f.res, Params: f.params(), Scheme: f.scheme, Regions: f.regions, RegionKey: f.regionKey,
 		SimplifyKm: f.simplifyKm, Title: f.title, Out: f.out,
-		History: f.history, Date: f.date, CrossVal: f.crossval, Command: "grid",
+		History: f.history, Date: f.date, CrossVal: f.crossval, Command: "grid", AllowEmpty: f.allowEmpty,
 	}
 	layers, layersErr := pipeline.ParseLayers(f.layers)
 	if layersErr != nil {

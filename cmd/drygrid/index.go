@@ -19,6 +19,7 @@ type indexFlags struct {
 	refStart, refEnd int
 	minYears         int
 	distribution     string
+	poorFit          string
 	out              string
 }
 
@@ -42,6 +43,11 @@ held within +/-5. Each fit is checked by the Anderson-Darling test at 5 % (criti
 Stephens for the gamma with estimated parameters, D'Agostino and Stephens 1986); fit_ok is
 false when it rejects. --distribution empirical gives SPI = Phi^-1 of the Gringorten
 plotting position (i - 0.44) / (n + 0.12) with mid-ranks for ties, for comparison.
+
+A station whose gamma fit the test rejects gets, by default, the empirical (Gringorten
+plotting-position) SPI instead of its gamma SPI (--poor-fit empirical); --poor-fit keep keeps
+the gamma SPI, --poor-fit drop leaves the SPI empty. The note says which, and the summary
+how many stations the rule touched. Fits too short to test keep their gamma SPI.
 
 Percentile: 100 x (count below + half the count equal) / n. pct_of_median: 100 x total /
 median of the reference sample.
@@ -90,6 +96,7 @@ hydrological service and local rules.`,
 	fl.IntVar(&f.refEnd, "ref-end", 0, "last year of the reference period (default: the station's last)")
 	fl.IntVar(&f.minYears, "min-years", station.DefaultMinYears, "least number of reference totals a station needs")
 	fl.StringVar(&f.distribution, "distribution", station.DistGamma, "SPI from a fitted gamma, or from the empirical plotting position: gamma or empirical")
+	fl.StringVar(&f.poorFit, "poor-fit", station.PoorFitEmpirical, "a gamma fit Anderson-Darling rejects: empirical (the Gringorten plotting-position SPI), keep (the gamma SPI) or drop (no SPI)")
 	fl.StringVar(&f.out, "out", "", "output CSV file (required; written atomically)")
 	return cmd
 }
@@ -110,8 +117,11 @@ func (f indexFlags) options() (station.IndexOptions, error) {
 		return o, usagef("--min-years %d: must be 1 or more", f.minYears)
 	}
 	o = station.IndexOptions{Year: f.year, RefStart: f.refStart, RefEnd: f.refEnd, MinYears: f.minYears,
-		Distribution: strings.ToLower(f.distribution), TotalColumn: f.totalColumn}
+		Distribution: strings.ToLower(f.distribution), TotalColumn: f.totalColumn, PoorFit: strings.ToLower(f.poorFit)}
 	if err := o.Validate(); err != nil {
+		if strings.HasPrefix(err.Error(), "poor-fit") {
+			return o, usageError{fmt.Errorf("--%w", err)}
+		}
 		return o, usageError{fmt.Errorf("--year/--ref-start/--ref-end/--distribution: %w", err)}
 	}
 	return o, nil
@@ -133,10 +143,24 @@ func indexSummary(w io.Writer, res *station.IndexResult, out string) {
 		s.NoTotal, s.Year, s.TooFewYears, s.NoIndexOther)
 	fmt.Fprintf(w, "  gamma fits: %d failed, %d rejected by Anderson-Darling at 5 %%, %d too short to test; %d SPI held at +/-5\n",
 		s.FitFailed, s.FitRejected, s.FitUntested, s.Capped)
+	fmt.Fprintf(w, "  poor fits (--poor-fit %s): %s\n", s.PoorFitRule, poorFitLine(s))
 	if s.SkippedUnknown > 0 {
 		fmt.Fprintf(w, "  skipped %d totals rows of stations missing from the station table\n", s.SkippedUnknown)
 	}
 	fmt.Fprintf(w, "wrote %s\n", out)
+}
+
+// poorFitLine says what the poor-fit rule did.
+func poorFitLine(s station.IndexSummary) string {
+	switch {
+	case s.Distribution == station.DistEmpirical:
+		return "not applied (empirical SPI for every station)"
+	case s.PoorFitRule == station.PoorFitKeep:
+		return fmt.Sprintf("%d stations keep their gamma SPI", s.FitRejected)
+	case s.PoorFitRule == station.PoorFitDrop:
+		return fmt.Sprintf("%d stations without SPI", s.PoorFit)
+	}
+	return fmt.Sprintf("%d stations given the empirical (Gringorten) SPI instead of the gamma SPI", s.PoorFit)
 }
 
 func indexYear(y int, open string) string {

@@ -68,3 +68,67 @@ func TestIndexCommand(t *testing.T) {
 		t.Error("a failed run changed the earlier output")
 	}
 }
+
+// TestIndexPoorFit: --poor-fit sets what a station whose gamma fit
+// Anderson-Darling rejects gets (the fixtures have one): the empirical SPI
+// by default, the gamma SPI with keep, none with drop; the summary says how
+// many stations the rule touched, and a rule not known is a usage error.
+func TestIndexPoorFit(t *testing.T) {
+	dir := t.TempDir()
+	run1 := func(rule string) (string, string, error) {
+		out := filepath.Join(dir, "spi-"+rule+".csv")
+		root := newRootCmd()
+		var stderr bytes.Buffer
+		root.SetErr(&stderr)
+		args := []string{"index", "--totals", "../../testdata/index/totals.csv",
+			"--stations", "../../testdata/index/stations.csv", "--out", out}
+		if rule != "" {
+			args = append(args, "--poor-fit", rule)
+		}
+		root.SetArgs(args)
+		_, err := root.ExecuteC()
+		b, _ := os.ReadFile(out)
+		return string(b), stderr.String(), err
+	}
+	def, defMsg, err := run1("")
+	if err != nil {
+		t.Fatal(err)
+	}
+	emp, _, _ := run1("empirical")
+	keep, keepMsg, _ := run1("keep")
+	drop, dropMsg, _ := run1("drop")
+	if def != emp {
+		t.Error("the default is not --poor-fit empirical")
+	}
+	for msg, want := range map[string]string{
+		defMsg:  "poor fits (--poor-fit empirical): 1 stations given the empirical (Gringorten) SPI instead of the gamma SPI",
+		keepMsg: "poor fits (--poor-fit keep): 1 stations keep their gamma SPI",
+		dropMsg: "poor fits (--poor-fit drop): 1 stations without SPI",
+	} {
+		if !strings.Contains(msg, want) {
+			t.Errorf("summary lacks %q:\n%s", want, msg)
+		}
+	}
+	if !strings.Contains(dropMsg, "9 stations, 4 with index, 5 without") {
+		t.Errorf("drop: %s", dropMsg)
+	}
+	// One row differs between the rules: the rejected station's.
+	diff := func(a, b string) int {
+		la, lb := strings.Split(a, "\n"), strings.Split(b, "\n")
+		n := 0
+		for i := range la {
+			if i >= len(lb) || la[i] != lb[i] {
+				n++
+			}
+		}
+		return n
+	}
+	if diff(emp, keep) != 1 || diff(emp, drop) != 1 || !strings.Contains(drop, "poor fit: drop") || !strings.Contains(emp, "poor fit: empirical") {
+		t.Errorf("rows differing: empirical/keep %d, empirical/drop %d", diff(emp, keep), diff(emp, drop))
+	}
+	_, _, err = run1("toss")
+	var ue usageError
+	if err == nil || !errors.As(err, &ue) || !strings.Contains(err.Error(), `--poor-fit "toss" is not empirical, keep or drop`) {
+		t.Errorf("--poor-fit toss: %v", err)
+	}
+}

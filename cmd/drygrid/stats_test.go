@@ -130,3 +130,42 @@ func TestStatsAndChartCommands(t *testing.T) {
 		t.Errorf("unknown code: %v", err)
 	}
 }
+
+// TestStatsOutRefused: stats needs --out, and refuses the output directory
+// of a run (it holds a manifest.json listing regions.csv with its SHA-256),
+// with exit code 2 and the file left as it was (issue 17: stats wrote into
+// "." by default and overwrote a published regions.csv).
+func TestStatsOutRefused(t *testing.T) {
+	dir := t.TempDir()
+	out := filepath.Join(dir, "layers")
+	regionsForExample := filepath.Join(dir, "district.geojson")
+	os.WriteFile(regionsForExample, []byte(`{"type":"FeatureCollection","features":[{"type":"Feature","properties":{"name":"coast"},
+"geometry":{"type":"Polygon","coordinates":[[[-126,-42],[-123,-42],[-123,-39],[-126,-39],[-126,-42]]]}}]}`), 0o644)
+	if code := run([]string{"grid", "--stations", exampleSPI, "--regions", regionsForExample, "--layers", "bands,regions", "--out", out}); code != exitOK {
+		t.Fatalf("grid: exit %d", code)
+	}
+	before, err := os.ReadFile(filepath.Join(out, "regions.csv"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	bandsTif := filepath.Join(out, "bands.tif")
+	var code int
+	msg := captureStderr(t, func() {
+		code = run([]string{"stats", "--bands", bandsTif, "--regions", regionsForExample, "--out", out})
+	})
+	if code != exitUsage || !strings.Contains(msg, "holds "+filepath.Join(out, "manifest.json")) || !strings.Contains(msg, "write the statistics into another directory") {
+		t.Errorf("stats into a run's output: exit %d, %s", code, msg)
+	}
+	if after, _ := os.ReadFile(filepath.Join(out, "regions.csv")); !bytes.Equal(after, before) {
+		t.Error("regions.csv of the run changed")
+	}
+	msg = captureStderr(t, func() {
+		code = run([]string{"stats", "--bands", bandsTif, "--regions", regionsForExample})
+	})
+	if code != exitUsage || !strings.Contains(msg, "stats needs --out DIR") {
+		t.Errorf("stats without --out: exit %d, %s", code, msg)
+	}
+	if code := run([]string{"stats", "--bands", bandsTif, "--regions", regionsForExample, "--out", filepath.Join(dir, "stats")}); code != exitOK {
+		t.Errorf("stats into another directory: exit %d", code)
+	}
+}
