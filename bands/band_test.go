@@ -24,9 +24,9 @@ var defaultBands = []struct {
 	{1, "parched", "Parched", "z <= -2.0", "#8c510a", true},
 	{2, "very-dry", "Very dry", "-2.0 < z <= -1.5", "#bf812d", true},
 	{3, "dry", "Dry", "-1.5 < z <= -1.0", "#dfc27d", true},
-	{4, "drying", "Drying", "-1.0 < z <= -0.5", "#f6e8c3", false},
+	{4, "slightly-dry", "Slightly dry", "-1.0 < z <= -0.5", "#f6e8c3", false},
 	{5, "normal", "Near normal", "-0.5 < z < 0.5", "#f5f5f5", false},
-	{6, "moist", "Moist", "0.5 <= z < 1.0", "#c7eae5", false},
+	{6, "slightly-wet", "Slightly wet", "0.5 <= z < 1.0", "#c7eae5", false},
 	{7, "wet", "Wet", "1.0 <= z < 1.5", "#80cdc1", false},
 	{8, "very-wet", "Very wet", "1.5 <= z < 2.0", "#35978f", false},
 	{9, "soaked", "Soaked", "z >= 2.0", "#01665e", false},
@@ -67,8 +67,8 @@ func TestDefaultBoundaries(t *testing.T) {
 		{-2.0, 1, 1, 2}, // z <= -2.0 is parched
 		{-1.5, 2, 2, 3}, // -2.0 < z <= -1.5 very dry
 		{-1.0, 3, 3, 4}, // -1.5 < z <= -1.0 dry
-		{-0.5, 4, 4, 5}, // -1.0 < z <= -0.5 drying
-		{0.5, 6, 5, 6},  // 0.5 <= z < 1.0 moist
+		{-0.5, 4, 4, 5}, // -1.0 < z <= -0.5 slightly dry
+		{0.5, 6, 5, 6},  // 0.5 <= z < 1.0 slightly wet
 		{1.0, 7, 6, 7},  // 1.0 <= z < 1.5 wet
 		{1.5, 8, 7, 8},  // 1.5 <= z < 2.0 very wet
 		{2.0, 9, 8, 9},  // z >= 2.0 soaked
@@ -197,13 +197,13 @@ func TestBandRangeCustomCuts(t *testing.T) {
 }
 
 // The default bands in percentile terms: a 15th-percentile window is "dry"
-// (z = -1.036, between -1.5 and -1.0), the 16th is "drying" (z = -0.994).
+// (z = -1.036, between -1.5 and -1.0), the 16th is "slightly-dry" (z = -0.994).
 // Phi(-1) = 15.87 % (A&S Table 26.1, 1 - 0.841345); the 94th is "very-wet"
 // (z = 1.555) and the 2nd "parched" (z = -2.054) (quantiles from memory of
 // the normal tables).
 func TestPercentileIntoBands(t *testing.T) {
 	s := Default()
-	for p, want := range map[float64]string{15: "dry", 16: "drying", 50: "normal", 2: "parched", 99.9: "soaked", 0: "parched", 94: "very-wet"} {
+	for p, want := range map[float64]string{15: "dry", 16: "slightly-dry", 50: "normal", 2: "parched", 99.9: "soaked", 0: "parched", 94: "very-wet"} {
 		b, _ := s.Band(s.Classify(spi.PercentileToZ(p)))
 		if b.Key != want {
 			t.Errorf("percentile %v -> z %.4f -> %s, want %s", p, spi.PercentileToZ(p), b.Key, want)

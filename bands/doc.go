@@ -10,16 +10,16 @@
 // scheme (Default) has nine bands; dry bands include their upper bound and
 // wet bands their lower bound:
 //
-//	code  key        label        z range
-//	1     parched    Parched      z <= -2.0
-//	2     very-dry   Very dry     -2.0 < z <= -1.5
-//	3     dry        Dry          -1.5 < z <= -1.0
-//	4     drying     Drying       -1.0 < z <= -0.5
-//	5     normal     Near normal  -0.5 < z < 0.5
-//	6     moist      Moist         0.5 <= z < 1.0
-//	7     wet        Wet           1.0 <= z < 1.5
-//	8     very-wet   Very wet      1.5 <= z < 2.0
-//	9     soaked     Soaked        z >= 2.0
+//	code  key           label         z range
+//	1     parched       Parched       z <= -2.0
+//	2     very-dry      Very dry      -2.0 < z <= -1.5
+//	3     dry           Dry           -1.5 < z <= -1.0
+//	4     slightly-dry  Slightly dry  -1.0 < z <= -0.5
+//	5     normal        Near normal   -0.5 < z < 0.5
+//	6     slightly-wet  Slightly wet   0.5 <= z < 1.0
+//	7     wet           Wet            1.0 <= z < 1.5
+//	8     very-wet      Very wet       1.5 <= z < 2.0
+//	9     soaked        Soaked         z >= 2.0
 //
 // The +/-1.0, 1.5 and 2.0 cut points follow McKee et al. (1993) and WMO-No.
 // 1090 (2012); +/-0.5 is drygrid's own. "In drought" means codes 1-3

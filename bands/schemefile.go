@@ -129,8 +129,8 @@ color = "#dfc27d"
 drought = true
 
 [[band]]            # -1.0 < z <= -0.5
-key = "drying"
-label = "Drying"
+key = "slightly-dry"
+label = "Slightly dry"
 color = "#f6e8c3"
 
 [[band]]            # -0.5 < z < 0.5
@@ -139,8 +139,8 @@ label = "Near normal"
 color = "#f5f5f5"
 
 [[band]]            # 0.5 <= z < 1.0
-key = "moist"
-label = "Moist"
+key = "slightly-wet"
+label = "Slightly wet"
 color = "#c7eae5"
 
 [[band]]            # 1.0 <= z < 1.5
@@ -158,6 +158,12 @@ key = "soaked"
 label = "Soaked"
 color = "#01665e"
 `
+
+// OldKeys maps the default bands' former keys to their keys now: a scheme
+// file written with the former keys (drying, moist) is read as if it used
+// the new ones (slightly-dry, slightly-wet), for one release, so that
+// columns and properties named after keys stay those of the default bands.
+var OldKeys = map[string]string{"drying": "slightly-dry", "moist": "slightly-wet"}
 
 // schemeFile is the TOML layout read by ParseScheme.
 type schemeFile struct {
@@ -356,6 +362,9 @@ func (p *schemeParser) build(f *schemeFile) (*Scheme, error) {
 			}
 		}
 		b.Key = *fb.Key
+		if k, ok := OldKeys[b.Key]; ok {
+			b.Key = k // the default bands' former name, accepted for one release
+		}
 		if len(b.Key) > 64 || !schemeKeyRE.MatchString(b.Key) {
 			return nil, p.errf(bl("key"), "[[band]] %d key %q: use 1-64 lower-case letters, digits, '-' or '_', starting with a letter or digit", n, b.Key)
 		}

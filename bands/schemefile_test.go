@@ -248,3 +248,23 @@ func BenchmarkParseSchemeHostile(b *testing.B) {
 		})
 	}
 }
+
+// TestSchemeOldKeys: a scheme file written with the default bands' former
+// keys (the example scheme of the previous release, with drying and moist)
+// reads as the default scheme's keys, labels as written.
+func TestSchemeOldKeys(t *testing.T) {
+	text := strings.NewReplacer(`key = "slightly-dry"`, `key = "drying"`, `key = "slightly-wet"`, `key = "moist"`).Replace(ExampleSchemeTOML())
+	if text == ExampleSchemeTOML() {
+		t.Fatal("the example scheme no longer names the renamed bands")
+	}
+	s, err := ParseScheme("old.toml", []byte(text))
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := Default()
+	for i, b := range s.Bands {
+		if b.Key != want.Bands[i].Key || b.Label != want.Bands[i].Label {
+			t.Errorf("band %d: key %q label %q, want %q %q", i+1, b.Key, b.Label, want.Bands[i].Key, want.Bands[i].Label)
+		}
+	}
+}

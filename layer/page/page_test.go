@@ -112,8 +112,8 @@ func TestPageContent(t *testing.T) {
 		t.Error("title not escaped as text")
 	}
 	want := map[string]string{ // docs/design.md's "Default bands" table; ranges from its z-range column
-		"Parched": "z ≤ -2.0", "Very dry": "-2.0 &lt; z ≤ -1.5", "Dry": "-1.5 &lt; z ≤ -1.0", "Drying": "-1.0 &lt; z ≤ -0.5",
-		"Near normal": "-0.5 &lt; z &lt; 0.5", "Moist": "0.5 ≤ z &lt; 1.0", "Wet": "1.0 ≤ z &lt; 1.5", "Very wet": "1.5 ≤ z &lt; 2.0", "Soaked": "z ≥ 2.0",
+		"Parched": "z ≤ -2.0", "Very dry": "-2.0 &lt; z ≤ -1.5", "Dry": "-1.5 &lt; z ≤ -1.0", "Slightly dry": "-1.0 &lt; z ≤ -0.5",
+		"Near normal": "-0.5 &lt; z &lt; 0.5", "Slightly wet": "0.5 ≤ z &lt; 1.0", "Wet": "1.0 ≤ z &lt; 1.5", "Very wet": "1.5 ≤ z &lt; 2.0", "Soaked": "z ≥ 2.0",
 	}
 	for _, b := range bands.Default().Bands {
 		item := `fill="` + layertest.BrewerBrBG9[b.Code] + `" stroke="#808080"></rect></svg><span class="legend-label">` + b.Label +

@@ -50,7 +50,7 @@ func TestWriteRegionsCSV(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	wantHead := "region,area_km2,covered_km2,covered_pct,parched_pct,very-dry_pct,dry_pct,drying_pct,normal_pct,moist_pct,wet_pct,very-wet_pct,soaked_pct,in_drought_pct,mean_z"
+	wantHead := "region,area_km2,covered_km2,covered_pct,parched_pct,very-dry_pct,dry_pct,slightly-dry_pct,normal_pct,slightly-wet_pct,wet_pct,very-wet_pct,soaked_pct,in_drought_pct,mean_z"
 	if h := strings.Join(recs[0], ","); h != wantHead {
 		t.Fatalf("header\n got %s\nwant %s", h, wantHead)
 	}
