@@ -23,13 +23,20 @@ const jobMaxBytes = 1 << 20
 
 // jobFile is the TOML layout of a job file (see JobExample).
 type jobFile struct {
-	Window string `toml:"window"`
-	Date   string `toml:"date"`
-	Year   int    `toml:"year"`
-	Title  string `toml:"title"`
-	Inputs struct {
-		Stations    string `toml:"stations"`
-		Totals      string `toml:"totals"`
+	Window   string `toml:"window"`
+	Date     string `toml:"date"`
+	Timezone string `toml:"timezone"`
+	Archive  bool   `toml:"archive"`
+	Year     int    `toml:"year"`
+	Title    string `toml:"title"`
+	Inputs   struct {
+		Stations     string   `toml:"stations"`
+		Totals       string   `toml:"totals"`
+		Daily        string   `toml:"daily"`
+		Windows      []int    `toml:"windows"`
+		Units        string   `toml:"units"`
+		ExcludeFlags []string `toml:"exclude_flags"`
+		MinShare     float64  `toml:"min_share"`
 		Kind        string `toml:"kind"`
 		ValueColumn string `toml:"value_column"`
 		IDColumn    string `toml:"id_column"`
@@ -74,8 +81,8 @@ type jobFile struct {
 
 // jobKnownKeys lists the keys of each table, for the unknown-key message.
 var jobKnownKeys = map[string][]string{
-	"":              {"window", "date", "year", "title", "inputs", "index", "grid", "interpolation", "bands", "regions", "output", "history"},
-	"inputs":        {"stations", "totals", "kind", "value_column", "id_column", "lat_column", "lon_column", "total_column"},
+	"":              {"window", "date", "timezone", "archive", "year", "title", "inputs", "index", "grid", "interpolation", "bands", "regions", "output", "history"},
+	"inputs":        {"stations", "totals", "daily", "windows", "units", "exclude_flags", "min_share", "kind", "value_column", "id_column", "lat_column", "lon_column", "total_column"},
 	"index":         {"ref_start", "ref_end", "min_years", "distribution"},
 	"grid":          {"res", "bbox"},
 	"interpolation": {"power", "neighbors", "radius_km", "min_stations", "sectors", "crossval"},
@@ -233,16 +240,26 @@ func (p *jobParser) usage(err error) error {
 
 func (p *jobParser) build(f *jobFile, md *toml.MetaData) (*Job, error) {
 	def := func(key string) bool { return md.IsDefined(strings.Split(key, ".")...) }
-	j := &Job{JobFile: p.name, Date: f.Date, Command: "run"}
+	j := &Job{JobFile: p.name, Date: f.Date, Command: "run", Timezone: f.Timezone, Archive: f.Archive}
 	year := f.Year
-	if f.Date != "" {
+	if IsRelativeDate(f.Date) {
+		j.Date = strings.ToLower(f.Date)
+	} else if def("date") {
 		if err := CheckDate(f.Date); err != nil {
-			return nil, p.usage(err)
+			return nil, p.errAt("date", "%q is not a calendar date YYYY-MM-DD, nor today or yesterday", f.Date)
 		}
 		d, _ := time.Parse("2006-01-02", f.Date)
 		if !def("year") {
 			year = d.Year()
 		}
+	}
+	if def("timezone") {
+		if _, err := LoadZone(f.Timezone); err != nil {
+			return nil, p.usage(err)
+		}
+	}
+	if f.Archive && j.Date == "" {
+		return nil, p.errAt("archive", "a dated archive needs the job's date (date = \"YYYY-MM-DD\", \"today\" or \"yesterday\")")
 	}
 	if def("year") && (f.Year < station.MinTotalYear || f.Year > station.MaxTotalYear) {
 		return nil, p.errAt("year", "%d is not from %d to %d", f.Year, station.MinTotalYear, station.MaxTotalYear)
@@ -250,7 +267,8 @@ func (p *jobParser) build(f *jobFile, md *toml.MetaData) (*Job, error) {
 	if !utf8.ValidString(f.Window) || len(f.Window) > 200 {
 		return nil, p.errAt("window", "must be a label of at most 200 bytes")
 	}
-	j.ExtraParams = map[string]any{"window": f.Window, "date": f.Date, "year": year}
+	j.WindowLabel = f.Window
+	j.ExtraParams = map[string]any{"window": f.Window, "date": j.Date, "year": year}
 	var err error
 	in := f.Inputs
 	if in.Stations == "" {
@@ -275,9 +293,42 @@ func (p *jobParser) build(f *jobFile, md *toml.MetaData) (*Job, error) {
 	if err != nil {
 		return nil, err
 	}
-	if totals != "" {
-		step := &IndexStep{Totals: totals, StationList: stations}
-		step.Options = station.IndexOptions{Year: year, RefStart: f.Index.RefStart, RefEnd: f.Index.RefEnd,
+	daily, err := p.path("inputs.daily", in.Daily, md)
+	if err != nil {
+		return nil, err
+	}
+	if daily != "" && totals != "" {
+		return nil, p.errAt("inputs.daily", "give daily records or window totals, not both")
+	}
+	if daily == "" {
+		for _, k := range []string{"inputs.windows", "inputs.units", "inputs.exclude_flags", "inputs.min_share"} {
+			if def(k) {
+				return nil, p.errAt(k, "applies only with [inputs] daily (daily records)")
+			}
+		}
+	}
+	if totals != "" || daily != "" {
+		step := &IndexStep{Totals: totals, StationList: stations, Daily: daily}
+		if daily != "" {
+			step.DailyOptions = station.DailyOptions{Windows: in.Windows, Units: strings.ToLower(in.Units),
+				ExcludeFlags: in.ExcludeFlags, MinShare: in.MinShare}
+			if !def("inputs.windows") {
+				step.DailyOptions.Windows = []int{30}
+			}
+			if err := CheckWindows(step.DailyOptions.Windows); err != nil {
+				return nil, p.errAt("inputs.windows", "%s", err.(*UsageError).Detail)
+			}
+			if err := CheckDailyOptions(step.DailyOptions); err != nil {
+				return nil, p.usage(err)
+			}
+			if def("inputs.min_share") && in.MinShare == 0 {
+				return nil, p.errAt("inputs.min_share", "0: must be in (0, 1]")
+			}
+			if j.Date == "" {
+				return nil, fmt.Errorf("job %s: daily records need the date their windows end on (date = \"YYYY-MM-DD\", \"today\" or \"yesterday\")", p.name)
+			}
+		}
+		step.Options = station.IndexOptions{Year: f.Year, RefStart: f.Index.RefStart, RefEnd: f.Index.RefEnd,
 			MinYears: f.Index.MinYears, Distribution: strings.ToLower(f.Index.Distribution), TotalColumn: in.TotalColumn}
 		if def("index.min_years") && f.Index.MinYears < 1 {
 			return nil, p.errAt("index.min_years", "%d: must be 1 or more", f.Index.MinYears)
@@ -295,14 +346,14 @@ func (p *jobParser) build(f *jobFile, md *toml.MetaData) (*Job, error) {
 			return nil, p.errAt(key, "%v", err)
 		}
 		if in.ValueColumn != "" || in.IDColumn != "" || in.LatColumn != "" || in.LonColumn != "" {
-			return nil, p.errAt("inputs", "value_column, id_column, lat_column and lon_column apply to a values table, not to the index step (totals)")
+			return nil, p.errAt("inputs", "value_column, id_column, lat_column and lon_column apply to a values table, not to the index step (totals or daily)")
 		}
 		j.Index = step
 		j.Stations = "index.csv"
 	} else {
 		for _, k := range []string{"index", "inputs.total_column"} {
 			if def(k) {
-				return nil, p.errAt(k, "applies only with [inputs] totals (the index step)")
+				return nil, p.errAt(k, "applies only with [inputs] totals or daily (the index step)")
 			}
 		}
 		j.Stations = stations
@@ -389,18 +440,7 @@ func (p *jobParser) build(f *jobFile, md *toml.MetaData) (*Job, error) {
 	if j.History != "" && j.Date == "" {
 		return nil, p.errAt("history.file", "a history needs the job's date (date = \"YYYY-MM-DD\"), the key of each row")
 	}
-	j.Title = f.Title
-	if j.Title == "" {
-		j.Title = "drygrid: " + string(kind)
-		if f.Window != "" {
-			j.Title += ", " + f.Window
-		}
-		if j.Date != "" {
-			j.Title += ", " + j.Date
-		} else if year != 0 {
-			j.Title += fmt.Sprintf(", %d", year)
-		}
-	}
+	j.Title = f.Title // "" = from the kind, window and date, at run time
 	if err := j.Validate(); err != nil {
 		return nil, p.usage(err)
 	}

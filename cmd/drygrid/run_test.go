@@ -86,7 +86,7 @@ func TestRunExample(t *testing.T) {
 	if err != nil {
 		t.Fatalf("example does not parse: %v", err)
 	}
-	if j.Out != filepath.Join(dir, "daily") || j.Index == nil || j.Index.Totals != filepath.Join(dir, "inputs/totals.csv") || j.Index.Options.Year != 2025 {
+	if j.Out != filepath.Join(dir, "daily") || j.Index == nil || j.Index.Totals != filepath.Join(dir, "inputs/totals.csv") || j.Date != "2025-11-30" {
 		t.Errorf("example resolved to out %s index %+v", j.Out, j.Index)
 	}
 	prev := runtime.GOMAXPROCS(1)
