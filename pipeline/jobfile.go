@@ -37,12 +37,12 @@ type jobFile struct {
 		Units        string   `toml:"units"`
 		ExcludeFlags []string `toml:"exclude_flags"`
 		MinShare     float64  `toml:"min_share"`
-		Kind        string `toml:"kind"`
-		ValueColumn string `toml:"value_column"`
-		IDColumn    string `toml:"id_column"`
-		LatColumn   string `toml:"lat_column"`
-		LonColumn   string `toml:"lon_column"`
-		TotalColumn string `toml:"total_column"`
+		Kind         string   `toml:"kind"`
+		ValueColumn  string   `toml:"value_column"`
+		IDColumn     string   `toml:"id_column"`
+		LatColumn    string   `toml:"lat_column"`
+		LonColumn    string   `toml:"lon_column"`
+		TotalColumn  string   `toml:"total_column"`
 	} `toml:"inputs"`
 	Index struct {
 		RefStart     int    `toml:"ref_start"`
