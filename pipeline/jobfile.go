@@ -458,25 +458,34 @@ const JobExample = `# drygrid job file: the daily run in one file ('drygrid run 
 # drought declarations: consult the national meteorological or hydrological
 # service and follow local rules.
 
-window = "30 days ending 30 November"   # a label for titles and the manifest
-date = "2025-11-30"                     # the run's date: the key of the history rows
+window = "30 days ending 30 November"   # a label for the manifest (titles give the window in days)
+date = "2025-11-30"                     # the run's date, the key of the history rows; "yesterday" or
+                                        # "today" for a job that runs itself every day
+# timezone = "Pacific/Auckland"         # the zone of today and yesterday (default: UTC)
+# archive = true                        # publish into dir/YYYY-MM-DD/, dir/latest -> the newest day
 # year = 2025                           # target year of the totals (default: the date's year)
 # title = "..."                         # picture and page title (default: from kind, window, date)
 
 [inputs]
-# With totals: the index step runs first (percentile and SPI per station for
-# the target year) and stations is the station list (id, latitude, longitude).
-# Without totals: stations is a table of values, as for 'drygrid grid --stations'.
+# With daily records or window totals the index step runs first (percentile and
+# SPI per station for the target year) and stations is the station list (id,
+# latitude, longitude). Without either: stations is a table of values, as for
+# 'drygrid grid --stations'.
 stations = "inputs/stations.csv"
-totals = "inputs/totals.csv"
+daily = "inputs/daily.csv.gz"           # station, date, precipitation[, flag]; CSV/TSV, gzip or Parquet
+windows = [30]                          # days ending on the date; several: one set of layers each, in dir/30d/ ...
+exclude_flags = ["X"]                   # quality flags whose values are missing
+# units = "mm"                          # mm, tenths-mm or inch
+# min_share = 0.9                       # least share of a window's days reported for its total
+# totals = "inputs/totals.csv"          # instead of daily: window totals per station and year
 kind = "spi"                            # what is mapped: spi or percentile
-# total_column = "total_mm"             # (index step) default: total|total_mm|precip|value
+# total_column = "total_mm"             # (totals) default: total|total_mm|precip|value
 # value_column = "spi"                  # (values table) default: the column named like kind
 # id_column = "station"
 # lat_column = "lat"
 # lon_column = "lon"
 
-[index]                                 # only with totals
+[index]                                 # only with daily or totals
 min_years = 30                          # least number of reference totals
 # ref_start = 1991                      # reference period (default: every year a station has)
 # ref_end = 2020
