@@ -87,20 +87,56 @@ func indexFromDaily(job *Job) (*station.IndexResult, error) {
 		}
 		step.daily = r
 	}
-	if step.daily.WindowIndex(step.Window) < 0 {
-		return nil, Usagef("window of %d days: not among the windows read (%v)", step.Window, step.daily.Windows)
+	return indexOfWindow(step.daily, step.Daily, step.Window, step.StationList, step.Options)
+}
+
+// indexOfWindow runs the index step on window n's totals of r (read from
+// the daily file named daily), written in memory in the form the step
+// reads (station,year,total).
+func indexOfWindow(r *station.WindowTotals, daily string, n int, stationList string, opt station.IndexOptions) (*station.IndexResult, error) {
+	if r.WindowIndex(n) < 0 {
+		return nil, Usagef("window of %d days: not among the windows read (%v)", n, r.Windows)
 	}
-	totals, err := indexTotals(step.daily, step.Window)
+	totals, err := indexTotals(r, n)
 	if err != nil {
 		return nil, err
 	}
-	f, err := os.Open(step.StationList)
+	f, err := os.Open(stationList)
 	if err != nil {
-		return nil, fmt.Errorf("stations %s: %w", step.StationList, err)
+		return nil, fmt.Errorf("stations %s: %w", stationList, err)
 	}
 	defer f.Close()
-	name := fmt.Sprintf("%s (%d-day totals)", step.Daily, step.Window)
-	return station.ComputeIndexReaders(step.StationList, f, name, bytes.NewReader(totals), step.Options)
+	name := fmt.Sprintf("%s (%d-day totals)", daily, n)
+	return station.ComputeIndexReaders(stationList, f, name, bytes.NewReader(totals), opt)
+}
+
+// ComputeIndexDaily is the index step on daily records: the totals of the
+// window of n days ending on opt.Target are computed from the daily file
+// (station.ReadDaily, with progress as ReadDaily's) and go, in memory,
+// into the index step with the station list; the index options' year
+// defaults to the target's. It returns the index table and the totals.
+func ComputeIndexDaily(stationList, daily string, opt station.DailyOptions, n int, iopt station.IndexOptions, progress func(done, total int64)) (*station.IndexResult, *station.WindowTotals, error) {
+	if len(opt.Windows) == 0 {
+		opt.Windows = []int{n}
+	}
+	if err := CheckWindows(opt.Windows); err != nil {
+		return nil, nil, err
+	}
+	if err := CheckDailyOptions(opt); err != nil {
+		return nil, nil, err
+	}
+	r, err := ReadDaily(daily, opt, progress)
+	if err != nil {
+		return nil, nil, err
+	}
+	if iopt.Year == 0 {
+		iopt.Year = r.Target.Year()
+	}
+	res, err := indexOfWindow(r, daily, n, stationList, iopt)
+	if err != nil {
+		return nil, r, err
+	}
+	return res, r, nil
 }
 
 // readJobDaily reads the daily records of the job's index step, with the

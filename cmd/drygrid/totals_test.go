@@ -9,6 +9,7 @@ import (
 	"strings"
 	"testing"
 
+	"drygrid/scenario"
 	"drygrid/station"
 )
 
@@ -108,5 +109,58 @@ func TestTotalsCommand(t *testing.T) {
 	after, _ := os.ReadFile(out)
 	if !bytes.Equal(after, b) {
 		t.Error("a failed run changed the output")
+	}
+}
+
+// `drygrid index --daily` gives the same index table as `drygrid totals`
+// followed by `drygrid index --totals` on the totals it wrote (the two
+// paths share no code past the daily reader's totals).
+func TestIndexDaily(t *testing.T) {
+	dir := t.TempDir()
+	sc := scenario.DemoScenario()
+	daily := filepath.Join(dir, "daily.csv.gz")
+	stations := filepath.Join(dir, "stations.csv")
+	var d, s bytes.Buffer
+	sc.WriteDailyCSVGz(&d)
+	sc.WriteStationsCSV(&s)
+	os.WriteFile(daily, d.Bytes(), 0o644)
+	os.WriteFile(stations, s.Bytes(), 0o644)
+	common := []string{"--date", scenario.DailyTarget, "--exclude-flags", scenario.DailyBadFlag}
+	totals := filepath.Join(dir, "totals.csv")
+	viaTotals := filepath.Join(dir, "via-totals.csv")
+	viaDaily := filepath.Join(dir, "via-daily.csv")
+	for _, args := range [][]string{
+		append([]string{"totals", "--daily", daily, "--windows", "30", "--out", totals}, common...),
+		{"index", "--totals", totals, "--total-column", "total_30d", "--stations", stations, "--year", "2025", "--out", viaTotals},
+		append([]string{"index", "--daily", daily, "--window", "30", "--stations", stations, "--out", viaDaily}, common...),
+	} {
+		root := newRootCmd()
+		root.SetErr(&bytes.Buffer{})
+		root.SetArgs(args)
+		if _, err := root.ExecuteC(); err != nil {
+			t.Fatalf("%v: %v", args, err)
+		}
+	}
+	a, _ := os.ReadFile(viaTotals)
+	b, _ := os.ReadFile(viaDaily)
+	if len(a) == 0 || !bytes.Equal(a, b) {
+		t.Errorf("index tables differ (%d and %d bytes)", len(a), len(b))
+	}
+	for _, c := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"index", "--daily", daily, "--stations", stations, "--out", viaDaily}, "--daily needs --window N"},
+		{[]string{"index", "--daily", daily, "--totals", totals, "--window", "30", "--stations", stations, "--out", viaDaily}, "one or the other"},
+		{[]string{"index", "--daily", daily, "--window", "400", "--stations", stations, "--out", viaDaily}, "--window 400"},
+	} {
+		root := newRootCmd()
+		root.SetErr(&bytes.Buffer{})
+		root.SetArgs(c.args)
+		_, err := root.ExecuteC()
+		var ue usageError
+		if err == nil || !errors.As(err, &ue) || !strings.Contains(err.Error(), c.want) {
+			t.Errorf("%v: %v, want usage error %q", c.args, err, c.want)
+		}
 	}
 }
