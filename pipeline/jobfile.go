@@ -107,6 +107,26 @@ func (p *jobParser) errAt(key string, format string, args ...any) error {
 	return fmt.Errorf("job %s: %s: %s", p.name, key, msg)
 }
 
+// usageAt is errAt as a usage error (the command line's exit code 2): a
+// setting of the job's date, time zone or daily records that cannot be.
+func (p *jobParser) usageAt(key string, format string, args ...any) error {
+	return &UsageError{Msg: p.errAt(key, format, args...).Error()}
+}
+
+// dailyUsage turns a usage error of the daily checks into the job file's
+// message at its key, as a usage error.
+func (p *jobParser) dailyUsage(err error) error {
+	var ue *UsageError
+	if errors.As(err, &ue) && ue.Key != "" {
+		key := ue.Key
+		if key == "windows" {
+			key = "inputs.windows"
+		}
+		return p.usageAt(key, "%s", ue.Detail)
+	}
+	return err
+}
+
 // jobTOMLLine matches the plain decode errors of BurntSushi/toml:
 // "toml: line L (last key "K"): message".
 var jobTOMLLine = regexp.MustCompile(`^toml: line (\d+) \(last key "([^"]*)"\): (.*)$`)
@@ -246,7 +266,7 @@ func (p *jobParser) build(f *jobFile, md *toml.MetaData) (*Job, error) {
 		j.Date = strings.ToLower(f.Date)
 	} else if def("date") {
 		if err := CheckDate(f.Date); err != nil {
-			return nil, p.errAt("date", "%q is not a calendar date YYYY-MM-DD, nor today or yesterday", f.Date)
+			return nil, p.usageAt("date", "%q is not a calendar date YYYY-MM-DD, nor today or yesterday", f.Date)
 		}
 		d, _ := time.Parse("2006-01-02", f.Date)
 		if !def("year") {
@@ -255,11 +275,11 @@ func (p *jobParser) build(f *jobFile, md *toml.MetaData) (*Job, error) {
 	}
 	if def("timezone") {
 		if _, err := LoadZone(f.Timezone); err != nil {
-			return nil, p.usage(err)
+			return nil, p.dailyUsage(err)
 		}
 	}
 	if f.Archive && j.Date == "" {
-		return nil, p.errAt("archive", "a dated archive needs the job's date (date = \"YYYY-MM-DD\", \"today\" or \"yesterday\")")
+		return nil, p.usageAt("archive", "a dated archive needs the job's date (date = \"YYYY-MM-DD\", \"today\" or \"yesterday\")")
 	}
 	if def("year") && (f.Year < station.MinTotalYear || f.Year > station.MaxTotalYear) {
 		return nil, p.errAt("year", "%d is not from %d to %d", f.Year, station.MinTotalYear, station.MaxTotalYear)
@@ -298,12 +318,12 @@ func (p *jobParser) build(f *jobFile, md *toml.MetaData) (*Job, error) {
 		return nil, err
 	}
 	if daily != "" && totals != "" {
-		return nil, p.errAt("inputs.daily", "give daily records or window totals, not both")
+		return nil, p.usageAt("inputs.daily", "give daily records or window totals, not both")
 	}
 	if daily == "" {
 		for _, k := range []string{"inputs.windows", "inputs.units", "inputs.exclude_flags", "inputs.min_share"} {
 			if def(k) {
-				return nil, p.errAt(k, "applies only with [inputs] daily (daily records)")
+				return nil, p.usageAt(k, "applies only with [inputs] daily (daily records)")
 			}
 		}
 	}
@@ -316,16 +336,16 @@ func (p *jobParser) build(f *jobFile, md *toml.MetaData) (*Job, error) {
 				step.DailyOptions.Windows = []int{30}
 			}
 			if err := CheckWindows(step.DailyOptions.Windows); err != nil {
-				return nil, p.errAt("inputs.windows", "%s", err.(*UsageError).Detail)
+				return nil, p.dailyUsage(err)
 			}
 			if err := CheckDailyOptions(step.DailyOptions); err != nil {
-				return nil, p.usage(err)
+				return nil, p.dailyUsage(err)
 			}
 			if def("inputs.min_share") && in.MinShare == 0 {
-				return nil, p.errAt("inputs.min_share", "0: must be in (0, 1]")
+				return nil, p.usageAt("inputs.min_share", "0: must be in (0, 1]")
 			}
 			if j.Date == "" {
-				return nil, fmt.Errorf("job %s: daily records need the date their windows end on (date = \"YYYY-MM-DD\", \"today\" or \"yesterday\")", p.name)
+				return nil, Usagef("job %s: daily records need the date their windows end on (date = \"YYYY-MM-DD\", \"today\" or \"yesterday\")", p.name)
 			}
 		}
 		step.Options = station.IndexOptions{Year: f.Year, RefStart: f.Index.RefStart, RefEnd: f.Index.RefEnd,

@@ -112,3 +112,14 @@ w("s_ambiguous_id.csv", "station,id,latitude,longitude\nST01,1,45.1,7.2\n")
 w("v_fraction_percentiles.csv", "station,latitude,longitude,percentile\nKLV-01,-40.1,-125.2,0.0231\nKLV-02,-40.3,-124.6,0.4712\nKLV-03,-40.5,-124.1,0.1\n")
 w("t_absurd_total.csv", T + "ST01,1961,31.0\nST01,1962,1e308\n")
 w("j_year_without_totals.toml", 'year = 2030\n[inputs]\nstations = "../index/stations.csv"\ntotals = "../index/totals.csv"\n[output]\ndir = "never-written"\nlayers = ["index"]\n')
+
+# daily records (drygrid totals --daily FILE) and the job file's daily keys
+DH = "station,date,precipitation,flag\n"
+w("d_negative.csv", DH + "KLV-01,2021-01-01,0.0,\nKLV-01,2021-01-02,-3.5,\n")
+w("d_impossible_date.csv", DH + "KLV-01,2021-01-01,0.0,\nKLV-01,2021-02-30,1.2,\n")
+w("d_dup_day.csv", DH + "KLV-01,2021-01-01,0.0,\nKLV-01,2021-01-02,1.0,\nKLV-01,2021-01-01,2.5,\n")
+DJ = '[inputs]\nstations = "../index/stations.csv"\ndaily = "d_negative.csv"\n[output]\ndir = "never-written"\nlayers = ["index"]\n'
+w("j_date_tomorrow.toml", 'date = "tomorrow"\n' + DJ)
+w("j_windows_empty.toml", 'date = "2021-01-31"\n' + DJ.replace('daily = "d_negative.csv"\n', 'daily = "d_negative.csv"\nwindows = []\n'))
+w("j_timezone.toml", 'date = "yesterday"\ntimezone = "Mars/Base"\n' + DJ)
+w("j_daily_negative.toml", 'date = "2021-01-31"\n' + DJ)
