@@ -58,6 +58,15 @@ type DayPlan struct {
 	archive bool
 }
 
+// Abandon is called instead of Finish when a job of the day failed: an
+// archive's directory of the day is removed if nothing was published in
+// it, and Out/latest is left as it was.
+func (p *DayPlan) Abandon() {
+	if p.archive {
+		_ = os.Remove(filepath.Join(p.root, p.Date)) // only when empty
+	}
+}
+
 // PlanDay prepares a job for a run: the date resolved ("today",
 // "yesterday" on the job's clock), the job validated, and with daily
 // records their file read once for every window. With several windows
@@ -150,6 +159,7 @@ func RunJob(ctx context.Context, job Job) ([]*Result, error) {
 	for _, j := range p.Jobs {
 		res, err := Run(ctx, j)
 		if err != nil {
+			p.Abandon()
 			return out, err
 		}
 		out = append(out, res)

@@ -171,6 +171,7 @@ func runDay(job pipeline.Job, stderr io.Writer) error {
 		}
 		res, err := runJob(j, stderr)
 		if err != nil {
+			plan.Abandon()
 			return err
 		}
 		if res.CrossVal != nil {
