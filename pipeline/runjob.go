@@ -89,14 +89,11 @@ func PlanDay(job Job) (*DayPlan, error) {
 		}
 		p.root, p.archive = job.Out, true
 		base = filepath.Join(job.Out, job.Date)
-		if err := os.MkdirAll(base, 0o755); err != nil {
-			return nil, fmt.Errorf("archive: %w", err)
-		}
 	}
 	if job.Index == nil || job.Index.Daily == "" {
 		job.Out = base
 		p.Jobs = []Job{job}
-		return p, nil
+		return p, p.mkdir()
 	}
 	totals, err := readJobDaily(&job)
 	if err != nil {
@@ -118,7 +115,19 @@ func PlanDay(job Job) (*DayPlan, error) {
 		}
 		p.Jobs = append(p.Jobs, j)
 	}
-	return p, nil
+	return p, p.mkdir()
+}
+
+// mkdir makes the archive's directory of the day, once the day's inputs
+// are read.
+func (p *DayPlan) mkdir() error {
+	if !p.archive {
+		return nil
+	}
+	if err := os.MkdirAll(filepath.Join(p.root, p.Date), 0o755); err != nil {
+		return fmt.Errorf("archive: %w", err)
+	}
+	return nil
 }
 
 // Finish completes a day whose jobs all ran: with an archive, Out/latest
