@@ -56,6 +56,7 @@ func (w *layerWriter) tiffOptions() geotiff.Options {
 	}
 	opt.Description = w.job.Describe()
 	opt.Units = w.job.units()
+	opt.BandsDescription = "drought bands of " + w.job.Describe()
 	return opt
 }
 

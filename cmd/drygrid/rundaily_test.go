@@ -3,10 +3,12 @@ package main
 import (
 	"io"
 	"os"
+	"os/exec"
 	"path/filepath"
 	"strings"
 	"testing"
 
+	"drygrid/internal/reftest"
 	"drygrid/scenario"
 )
 
@@ -68,6 +70,18 @@ func TestRunBackfill(t *testing.T) {
 	}
 	if p := readManifest(t, filepath.Join(dir, "out"))["parameters"].(map[string]any); p["date"] != "2025-11-28" {
 		t.Errorf("--date: manifest date %v", p["date"])
+	}
+	// GDAL reads what the raster shows: the date (TIFFTAG_DATETIME), the
+	// band's description and unit (an outside reader: gdalinfo).
+	gdalinfo := reftest.Tool(t, "gdalinfo")
+	b, err := exec.Command(gdalinfo, filepath.Join(dir, "out", "index.tif")).CombinedOutput()
+	if err != nil {
+		t.Fatalf("gdalinfo: %v\n%s", err, b)
+	}
+	for _, want := range []string{"TIFFTAG_DATETIME=2025:11:28 00:00:00", "Description = SPI, 30 days ending 2025-11-28", "Unit Type: SPI (z)"} {
+		if !strings.Contains(string(b), want) {
+			t.Errorf("gdalinfo index.tif lacks %q:\n%s", want, b)
+		}
 	}
 	// 1960 has no record: the first day fails, the second is not run.
 	var code int
