@@ -7,6 +7,7 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"testing"
 	"time"
@@ -167,5 +168,35 @@ func TestDailyJobWindowsArchive(t *testing.T) {
 	}
 	if _, err := os.Stat(filepath.Join(dir, "out", "latest", "30d", "index.tif")); err != nil {
 		t.Error(err)
+	}
+}
+
+// A values table gridded without a date: the outputs say the kind and
+// nothing they do not know (no date, no window members, no empty ones).
+func TestNoDateNoMembers(t *testing.T) {
+	out := filepath.Join(t.TempDir(), "layers")
+	job := NewJob("../testdata/example/spi.csv", out)
+	job.Layers = LayerSet{"index": true, "geojson": true, "stations": true}
+	if _, err := Run(context.Background(), job); err != nil {
+		t.Fatal(err)
+	}
+	for _, f := range []string{"bands.geojson", "stations.geojson", "manifest.json"} {
+		m := readJSON(t, filepath.Join(out, f))
+		if f == "manifest.json" {
+			m = m["parameters"].(map[string]any)
+		}
+		for _, k := range []string{"date", "window_days"} {
+			if v, ok := m[k]; ok {
+				t.Errorf("%s has %s = %v", f, k, v)
+			}
+		}
+		if m["kind"] != "spi" {
+			t.Errorf("%s: kind %v", f, m["kind"])
+		}
+	}
+	b, _ := os.ReadFile(filepath.Join(out, "index.tif"))
+	// TIFFTAG_DATETIME is "YYYY:MM:DD HH:MM:SS" (TIFF 6.0 section 8).
+	if regexp.MustCompile(`\d{4}:\d\d:\d\d \d\d:\d\d:\d\d`).Match(b) || strings.Contains(string(b), "days ending") {
+		t.Error("index.tif names a date")
 	}
 }
