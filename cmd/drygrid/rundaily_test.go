@@ -42,7 +42,7 @@ res = 0.2
 bbox = [-128.0, -45.0, -116.0, -38.0]
 [output]
 dir = "out"
-layers = ["index"]
+layers = ["index", "bands"]
 `), 0o644)
 	return dir, job
 }
@@ -82,6 +82,13 @@ func TestRunBackfill(t *testing.T) {
 		if !strings.Contains(string(b), want) {
 			t.Errorf("gdalinfo index.tif lacks %q:\n%s", want, b)
 		}
+	}
+	b, err = exec.Command(gdalinfo, filepath.Join(dir, "out", "bands.tif")).CombinedOutput()
+	if err != nil {
+		t.Fatalf("gdalinfo: %v\n%s", err, b)
+	}
+	if !strings.Contains(string(b), "Description = drought bands of SPI, 30 days ending 2025-11-28") || strings.Contains(string(b), "Unit Type") {
+		t.Errorf("gdalinfo bands.tif: description or unit wrong:\n%s", b)
 	}
 	// 1960 has no record: the first day fails, the second is not run.
 	var code int
