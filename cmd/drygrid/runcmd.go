@@ -31,7 +31,10 @@ step with every chosen layer, then one history row per region and date.
 Daily records ([inputs] daily, windows = [30, 90]): the file is read once for all windows,
 and each window gets its own set of layers: with one window in the output directory itself,
 with several in DIR/30d/, DIR/90d/ ..., each published atomically (and history rows in
-history_30d.csv, history_90d.csv ... beside the history file named). ` + dateHelp + `
+history_30d.csv, history_90d.csv ... beside the history file named). A window of N days
+for year Y ends on the date's month and day in Y and belongs to Y even when it starts in Y-1
+(29 February ends on 28 February in common years); missing days are not zero, and a total
+needs min_share (default 0.9) of its days reported ('drygrid totals --help' says more).
 
 A job that runs itself: date = "today" or "yesterday" is the day the job runs, or the day
 before, in UTC or in timezone = "Pacific/Auckland" (any IANA zone name), so the same job file
