@@ -12,7 +12,9 @@ import (
 	"testing"
 	"time"
 
+	"drygrid/grid"
 	"drygrid/scenario"
+	"drygrid/station"
 )
 
 // dailyJobDir writes the invented scenario's daily records, station list
@@ -198,5 +200,26 @@ func TestNoDateNoMembers(t *testing.T) {
 	// TIFFTAG_DATETIME is "YYYY:MM:DD HH:MM:SS" (TIFF 6.0 section 8).
 	if regexp.MustCompile(`\d{4}:\d\d:\d\d \d\d:\d\d:\d\d`).Match(b) || strings.Contains(string(b), "days ending") {
 		t.Error("index.tif names a date")
+	}
+}
+
+// The map's title and the line under it say what the map shows once: in
+// the default title, or in the line under a title of the user's own.
+func TestTitleSaysWhatItShows(t *testing.T) {
+	res := &Result{Values: &station.Values{}, Spec: grid.Spec{Res: 0.1}}
+	job := Job{Values: station.ValueOptions{Kind: station.KindPercentile}, Date: "2026-11-30", WindowDays: 90}
+	w := &layerWriter{job: &job, res: res}
+	if got := w.title(); got != "drygrid: percentile, 90 days ending 2026-11-30" {
+		t.Errorf("title %q", got)
+	}
+	if strings.Contains(w.subtitle(), "ending") {
+		t.Errorf("subtitle repeats the title: %q", w.subtitle())
+	}
+	job.Title = "Drought watch"
+	if got := w.subtitle(); !strings.HasPrefix(got, "percentile, 90 days ending 2026-11-30; IDW") {
+		t.Errorf("subtitle under a title of one's own: %q", got)
+	}
+	if job.units() != "percentile -> z" {
+		t.Errorf("units %q", job.units())
 	}
 }

@@ -7,6 +7,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"strings"
 
 	"drygrid/layer"
 	"drygrid/layer/page"
@@ -43,8 +44,8 @@ func (w *layerWriter) subtitle() string {
 	}
 	p := w.job.Params
 	shows := ""
-	if w.job.describes() {
-		shows = w.job.Describe() + "; "
+	if d := w.job.Describe(); w.job.describes() && !strings.Contains(w.title(), d) {
+		shows = d + "; " // a title of the user's own: the line says what the map shows
 	}
 	return shows + fmt.Sprintf("IDW power %g, %d neighbours within %g km, at least %d stations; %d stations; %g deg grid",
 		p.Power, p.Neighbors, p.RadiusKm, p.MinStations, len(w.res.Values.Stations), w.res.Spec.Res)
