@@ -12,9 +12,9 @@ import (
 	"drygrid/pipeline"
 )
 
-// manifestNow is the clock of the manifest's timings (a variable so that
-// tests can stop it; timings are the one member allowed to differ between
-// runs).
+// manifestNow is the clock of the manifest's timings and of a job's
+// "today" and "yesterday" (a variable so that tests can stop it; timings
+// are the one member allowed to differ between runs).
 var manifestNow = time.Now
 
 // report sets the job's version, clock, warnings, notes and progress bars
