@@ -38,6 +38,10 @@ type Options struct {
 	// unittype), where GDAL reads them as the band description and unit
 	// type.
 	Description, Units string
+	// BandsDescription, when not empty, is the description of band rasters
+	// in place of Description. Band rasters get no unit: their values are
+	// band codes.
+	BandsDescription string
 	// SpillDir, when not empty, is where the row encoders
 	// (EncodeIndexRows, EncodeIndexBandsRows) keep the compressed
 	// tiles beyond the first 32 MiB until the header can be written: a

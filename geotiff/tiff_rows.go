@@ -150,6 +150,10 @@ func tiffIndexImage(spec grid.Spec, nodata float32, opt Options) *tiffImage {
 
 // tiffBandsImage is the image description of a band raster on spec.
 func tiffBandsImage(spec grid.Spec, nodata uint8, s *bands.Scheme, opt Options) *tiffImage {
+	opt.Units = ""
+	if opt.BandsDescription != "" {
+		opt.Description = opt.BandsDescription
+	}
 	img := tiffNewImage(spec, opt)
 	img.nodataU = nodata
 	img.predictor = tiffBandsPredictor

@@ -21,8 +21,9 @@ import (
 const demoHistoryYears = 10
 
 // DemoJob prepares the demo: it writes the invented scenario's inputs into
-// out/inputs (stations, window totals, districts), runs the index step on
-// them into out/inputs/index.csv, and computes, in memory, the history of
+// out/inputs (stations, daily records, districts), computes the window
+// totals from the daily records into out/inputs/totals.csv, runs the index
+// step on them into out/inputs/index.csv, and computes, in memory, the history of
 // area in drought per district over the last ten target years and its
 // chart. It returns the job that maps the target year with every layer,
 // the history and the chart among its files. note, when not nil, receives
@@ -37,12 +38,26 @@ func DemoJob(ctx context.Context, out string, note func(string)) (Job, error) {
 		return Job{}, fmt.Errorf("demo: %w", err)
 	}
 	stationsCSV := filepath.Join(in, "stations.csv")
+	dailyCSV := filepath.Join(in, "daily.csv.gz")
 	totalsCSV := filepath.Join(in, "totals.csv")
 	districts := filepath.Join(in, "districts.geojson")
 	if err := writeStream(stationsCSV, sc.WriteStationsCSV); err != nil {
 		return Job{}, err
 	}
-	if err := writeStream(totalsCSV, sc.WriteTotalsCSV); err != nil {
+	if err := writeStream(dailyCSV, sc.WriteDailyCSVGz); err != nil {
+		return Job{}, err
+	}
+	daily, err := ReadDaily(dailyCSV, station.DailyOptions{Target: scenario.DailyTarget,
+		Windows: []int{scenario.DailyWindow}, ExcludeFlags: []string{scenario.DailyBadFlag}}, nil)
+	if err != nil {
+		return Job{}, fmt.Errorf("demo daily records: %w", err)
+	}
+	sum := SummarizeTotals(daily)[0]
+	note(fmt.Sprintf("daily: %d invented rows of %d stations (%s), %d-day totals ending %s: %d, %d missing (flag %s excluded)",
+		daily.Rows, len(daily.Stations), dailyCSV, scenario.DailyWindow, scenario.DailyTarget, sum.Present, sum.Missing, scenario.DailyBadFlag))
+	if err := writeStream(totalsCSV, func(w io.Writer) error {
+		return station.WriteIndexTotalsCSV(w, daily, scenario.DailyWindow)
+	}); err != nil {
 		return Job{}, err
 	}
 	if err := writeStream(districts, func(w io.Writer) error { return writeDemoDistricts(w, sc.BBox) }); err != nil {
@@ -72,8 +87,9 @@ func DemoJob(ctx context.Context, out string, note func(string)) (Job, error) {
 		Params:   interp.DefaultParams(),
 		Regions:  districts, RegionKey: "name",
 		Layers: layers,
-		Title:  fmt.Sprintf("%s: SPI, %s %d", capitalize(sc.Name), sc.Window, sc.TargetYear),
+		Title:  fmt.Sprintf("%s: SPI, %d days ending %s", capitalize(sc.Name), scenario.DailyWindow, scenario.DailyTarget),
 		Out:    out,
+		Date:   scenario.DailyTarget, WindowDays: scenario.DailyWindow,
 	}
 	job.Params.RadiusKm = sc.RadiusKm
 	hist, chartPNG, err := demoHistory(ctx, sc, stationsCSV, totalsCSV, job)

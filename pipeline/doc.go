@@ -3,13 +3,20 @@
 // and is validated once, by Validate, whether the command line's flags, a
 // job file (ParseJobFile) or the demo (DemoJob) made it; Run takes it
 // through the data flow in order: the index step when the job names window
-// totals, reading the stations (package station), interpolating the index
+// totals or daily records (the window's totals then computed in memory,
+// ReadDaily, ComputeIndexDaily), reading the stations (package station), interpolating the index
 // raster (interp), classifying it into the band raster and tallying the
 // band shares (bands), the statistics of the regions (region), the layers
 // (geotiff, layer/...) and the manifest (manifest) written into a staging
 // directory that package publish swaps in place of the output directory,
 // then the history rows (history). Compute stops before the files, for
 // callers that want the figures in memory; Stats gives a band raster's
-// statistics per region. pipeline sits above every library package and
+// statistics per region. A job made to run by itself every day goes through
+// RunJob (or PlanDay, Run for each job, Finish): its date may be "today"
+// or "yesterday" on the job's clock in its time zone, its daily records
+// are read once for all windows, each window gets its own output directory
+// (Out/30d, Out/90d), and with Archive each day its own (Out/YYYY-MM-DD)
+// with Out/latest pointing at the newest. Every layer says what it shows
+// (Job.Describe: the kind, window and date). pipeline sits above every library package and
 // below cmd/drygrid, which only turns flags into a Job and prints.
 package pipeline

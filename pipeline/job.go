@@ -55,6 +55,18 @@ type Job struct {
 	// UTC).
 	History string
 	Date    string
+	// Timezone is the IANA time zone of a Date of "today" or "yesterday"
+	// ("" = UTC).
+	Timezone string
+	// WindowDays is the window of the totals behind the values, in days
+	// (0 = unknown), and WindowLabel a free label of it ("30 days ending
+	// 30 November"); with Date they go into the titles and the metadata of
+	// every layer.
+	WindowDays  int
+	WindowLabel string
+	// Archive publishes into Out/DATE/ (one directory per day) and points
+	// the symbolic link Out/latest at the newest complete day (RunJob).
+	Archive bool
 
 	// Command names the command in the manifest ("grid", "demo", "run").
 	Command string
@@ -106,6 +118,16 @@ type IndexStep struct {
 	Totals      string
 	StationList string
 	Options     station.IndexOptions
+	// Daily, instead of Totals, is a table of daily records: the totals of
+	// the window of Window days ending on the job's Date are computed from
+	// it in memory. DailyOptions say how to read it; their Windows are all
+	// the windows of the job (RunJob reads the file once for all), their
+	// Target is set from the job's Date.
+	Daily        string
+	DailyOptions station.DailyOptions
+	Window       int
+
+	daily *station.WindowTotals // the daily records read, shared by the windows' jobs
 }
 
 // ErrUsage marks an error in how the job was asked for: a setting out of
@@ -163,8 +185,19 @@ func (j *Job) Validate() error {
 		}
 	}
 	if j.Index != nil {
-		if j.Index.Totals == "" || j.Index.StationList == "" {
-			return Usagef("the index step needs the totals and the station list")
+		if (j.Index.Totals == "" && j.Index.Daily == "") || j.Index.StationList == "" {
+			return Usagef("the index step needs the totals (or daily records) and the station list")
+		}
+		if j.Index.Daily != "" {
+			if err := CheckWindows(j.Index.DailyOptions.Windows); err != nil {
+				return err
+			}
+			if err := CheckDailyOptions(j.Index.DailyOptions); err != nil {
+				return err
+			}
+			if j.Date == "" {
+				return &UsageError{Msg: "daily records need the target date (--date)", Key: "date", Detail: "daily records need the target date (date = \"YYYY-MM-DD\", \"today\" or \"yesterday\")"}
+			}
 		}
 		if err := j.Index.Options.Validate(); err != nil {
 			return &UsageError{Msg: err.Error(), Key: "index", Detail: err.Error(), Err: err}
@@ -225,6 +258,10 @@ func (j *Job) checkHistory() error {
 }
 
 func (j *Job) checkDate() error {
+	if IsRelativeDate(j.Date) {
+		_, err := LoadZone(j.Timezone)
+		return err
+	}
 	if j.Date != "" {
 		return CheckDate(j.Date)
 	}

@@ -23,19 +23,26 @@ const jobMaxBytes = 1 << 20
 
 // jobFile is the TOML layout of a job file (see JobExample).
 type jobFile struct {
-	Window string `toml:"window"`
-	Date   string `toml:"date"`
-	Year   int    `toml:"year"`
-	Title  string `toml:"title"`
-	Inputs struct {
-		Stations    string `toml:"stations"`
-		Totals      string `toml:"totals"`
-		Kind        string `toml:"kind"`
-		ValueColumn string `toml:"value_column"`
-		IDColumn    string `toml:"id_column"`
-		LatColumn   string `toml:"lat_column"`
-		LonColumn   string `toml:"lon_column"`
-		TotalColumn string `toml:"total_column"`
+	Window   string `toml:"window"`
+	Date     string `toml:"date"`
+	Timezone string `toml:"timezone"`
+	Archive  bool   `toml:"archive"`
+	Year     int    `toml:"year"`
+	Title    string `toml:"title"`
+	Inputs   struct {
+		Stations     string   `toml:"stations"`
+		Totals       string   `toml:"totals"`
+		Daily        string   `toml:"daily"`
+		Windows      []int    `toml:"windows"`
+		Units        string   `toml:"units"`
+		ExcludeFlags []string `toml:"exclude_flags"`
+		MinShare     float64  `toml:"min_share"`
+		Kind         string   `toml:"kind"`
+		ValueColumn  string   `toml:"value_column"`
+		IDColumn     string   `toml:"id_column"`
+		LatColumn    string   `toml:"lat_column"`
+		LonColumn    string   `toml:"lon_column"`
+		TotalColumn  string   `toml:"total_column"`
 	} `toml:"inputs"`
 	Index struct {
 		RefStart     int    `toml:"ref_start"`
@@ -76,8 +83,8 @@ type jobFile struct {
 
 // jobKnownKeys lists the keys of each table, for the unknown-key message.
 var jobKnownKeys = map[string][]string{
-	"":              {"window", "date", "year", "title", "inputs", "index", "grid", "interpolation", "bands", "regions", "output", "history"},
-	"inputs":        {"stations", "totals", "kind", "value_column", "id_column", "lat_column", "lon_column", "total_column"},
+	"":              {"window", "date", "timezone", "archive", "year", "title", "inputs", "index", "grid", "interpolation", "bands", "regions", "output", "history"},
+	"inputs":        {"stations", "totals", "daily", "windows", "units", "exclude_flags", "min_share", "kind", "value_column", "id_column", "lat_column", "lon_column", "total_column"},
 	"index":         {"ref_start", "ref_end", "min_years", "distribution", "poor_fit"},
 	"grid":          {"res", "bbox", "allow_empty"},
 	"interpolation": {"power", "neighbors", "radius_km", "min_stations", "sectors", "crossval"},
@@ -100,6 +107,26 @@ func (p *jobParser) errAt(key string, format string, args ...any) error {
 		return fmt.Errorf("job %s line %d column %d: %s: %s", p.name, at.Line, at.Col, key, msg)
 	}
 	return fmt.Errorf("job %s: %s: %s", p.name, key, msg)
+}
+
+// usageAt is errAt as a usage error (the command line's exit code 2): a
+// setting of the job's date, time zone or daily records that cannot be.
+func (p *jobParser) usageAt(key string, format string, args ...any) error {
+	return &UsageError{Msg: p.errAt(key, format, args...).Error()}
+}
+
+// dailyUsage turns a usage error of the daily checks into the job file's
+// message at its key, as a usage error.
+func (p *jobParser) dailyUsage(err error) error {
+	var ue *UsageError
+	if errors.As(err, &ue) && ue.Key != "" {
+		key := ue.Key
+		if key == "windows" {
+			key = "inputs.windows"
+		}
+		return p.usageAt(key, "%s", ue.Detail)
+	}
+	return err
 }
 
 // jobTOMLLine matches the plain decode errors of BurntSushi/toml:
@@ -235,16 +262,26 @@ func (p *jobParser) usage(err error) error {
 
 func (p *jobParser) build(f *jobFile, md *toml.MetaData) (*Job, error) {
 	def := func(key string) bool { return md.IsDefined(strings.Split(key, ".")...) }
-	j := &Job{JobFile: p.name, Date: f.Date, Command: "run"}
+	j := &Job{JobFile: p.name, Date: f.Date, Command: "run", Timezone: f.Timezone, Archive: f.Archive}
 	year := f.Year
-	if f.Date != "" {
+	if IsRelativeDate(f.Date) {
+		j.Date = strings.ToLower(f.Date)
+	} else if def("date") {
 		if err := CheckDate(f.Date); err != nil {
-			return nil, p.usage(err)
+			return nil, p.usageAt("date", "%q is not a calendar date YYYY-MM-DD, nor today or yesterday", f.Date)
 		}
 		d, _ := time.Parse("2006-01-02", f.Date)
 		if !def("year") {
 			year = d.Year()
 		}
+	}
+	if def("timezone") {
+		if _, err := LoadZone(f.Timezone); err != nil {
+			return nil, p.dailyUsage(err)
+		}
+	}
+	if f.Archive && j.Date == "" {
+		return nil, p.usageAt("archive", "a dated archive needs the job's date (date = \"YYYY-MM-DD\", \"today\" or \"yesterday\")")
 	}
 	if def("year") && (f.Year < station.MinTotalYear || f.Year > station.MaxTotalYear) {
 		return nil, p.errAt("year", "%d is not from %d to %d", f.Year, station.MinTotalYear, station.MaxTotalYear)
@@ -252,7 +289,8 @@ func (p *jobParser) build(f *jobFile, md *toml.MetaData) (*Job, error) {
 	if !utf8.ValidString(f.Window) || len(f.Window) > 200 {
 		return nil, p.errAt("window", "must be a label of at most 200 bytes")
 	}
-	j.ExtraParams = map[string]any{"window": f.Window, "date": f.Date, "year": year}
+	j.WindowLabel = f.Window
+	j.ExtraParams = map[string]any{"window": f.Window, "date": j.Date, "year": year}
 	var err error
 	in := f.Inputs
 	if in.Stations == "" {
@@ -277,9 +315,42 @@ func (p *jobParser) build(f *jobFile, md *toml.MetaData) (*Job, error) {
 	if err != nil {
 		return nil, err
 	}
-	if totals != "" {
-		step := &IndexStep{Totals: totals, StationList: stations}
-		step.Options = station.IndexOptions{Year: year, RefStart: f.Index.RefStart, RefEnd: f.Index.RefEnd,
+	daily, err := p.path("inputs.daily", in.Daily, md)
+	if err != nil {
+		return nil, err
+	}
+	if daily != "" && totals != "" {
+		return nil, p.usageAt("inputs.daily", "give daily records or window totals, not both")
+	}
+	if daily == "" {
+		for _, k := range []string{"inputs.windows", "inputs.units", "inputs.exclude_flags", "inputs.min_share"} {
+			if def(k) {
+				return nil, p.usageAt(k, "applies only with [inputs] daily (daily records)")
+			}
+		}
+	}
+	if totals != "" || daily != "" {
+		step := &IndexStep{Totals: totals, StationList: stations, Daily: daily}
+		if daily != "" {
+			step.DailyOptions = station.DailyOptions{Windows: in.Windows, Units: strings.ToLower(in.Units),
+				ExcludeFlags: in.ExcludeFlags, MinShare: in.MinShare}
+			if !def("inputs.windows") {
+				step.DailyOptions.Windows = []int{30}
+			}
+			if err := CheckWindows(step.DailyOptions.Windows); err != nil {
+				return nil, p.dailyUsage(err)
+			}
+			if err := CheckDailyOptions(step.DailyOptions); err != nil {
+				return nil, p.dailyUsage(err)
+			}
+			if def("inputs.min_share") && in.MinShare == 0 {
+				return nil, p.usageAt("inputs.min_share", "0: must be in (0, 1]")
+			}
+			if j.Date == "" {
+				return nil, Usagef("job %s: daily records need the date their windows end on (date = \"YYYY-MM-DD\", \"today\" or \"yesterday\")", p.name)
+			}
+		}
+		step.Options = station.IndexOptions{Year: f.Year, RefStart: f.Index.RefStart, RefEnd: f.Index.RefEnd,
 			MinYears: f.Index.MinYears, Distribution: strings.ToLower(f.Index.Distribution), TotalColumn: in.TotalColumn,
 			PoorFit: strings.ToLower(f.Index.PoorFit)}
 		if def("index.min_years") && f.Index.MinYears < 1 {
@@ -300,14 +371,14 @@ func (p *jobParser) build(f *jobFile, md *toml.MetaData) (*Job, error) {
 			return nil, p.errAt(key, "%v", err)
 		}
 		if in.ValueColumn != "" || in.IDColumn != "" || in.LatColumn != "" || in.LonColumn != "" {
-			return nil, p.errAt("inputs", "value_column, id_column, lat_column and lon_column apply to a values table, not to the index step (totals)")
+			return nil, p.errAt("inputs", "value_column, id_column, lat_column and lon_column apply to a values table, not to the index step (totals or daily)")
 		}
 		j.Index = step
 		j.Stations = "index.csv"
 	} else {
 		for _, k := range []string{"index", "inputs.total_column"} {
 			if def(k) {
-				return nil, p.errAt(k, "applies only with [inputs] totals (the index step)")
+				return nil, p.errAt(k, "applies only with [inputs] totals or daily (the index step)")
 			}
 		}
 		j.Stations = stations
@@ -398,18 +469,7 @@ func (p *jobParser) build(f *jobFile, md *toml.MetaData) (*Job, error) {
 	if j.History != "" && j.Date == "" {
 		return nil, p.errAt("history.file", "a history needs the job's date (date = \"YYYY-MM-DD\"), the key of each row")
 	}
-	j.Title = f.Title
-	if j.Title == "" {
-		j.Title = "drygrid: " + string(kind)
-		if f.Window != "" {
-			j.Title += ", " + f.Window
-		}
-		if j.Date != "" {
-			j.Title += ", " + j.Date
-		} else if year != 0 {
-			j.Title += fmt.Sprintf(", %d", year)
-		}
-	}
+	j.Title = f.Title // "" = from the kind, window and date, at run time
 	if err := j.Validate(); err != nil {
 		return nil, p.usage(err)
 	}
@@ -427,25 +487,34 @@ const JobExample = `# drygrid job file: the daily run in one file ('drygrid run 
 # drought declarations: consult the national meteorological or hydrological
 # service and follow local rules.
 
-window = "30 days ending 30 November"   # a label for titles and the manifest
-date = "2025-11-30"                     # the run's date: the key of the history rows
+window = "30 days ending 30 November"   # a label for the manifest (titles give the window in days)
+date = "2025-11-30"                     # the run's date, the key of the history rows; "yesterday" or
+                                        # "today" for a job that runs itself every day
+# timezone = "Pacific/Auckland"         # the zone of today and yesterday (default: UTC)
+# archive = true                        # publish into dir/YYYY-MM-DD/, dir/latest -> the newest day
 # year = 2025                           # target year of the totals (default: the date's year)
 # title = "..."                         # picture and page title (default: from kind, window, date)
 
 [inputs]
-# With totals: the index step runs first (percentile and SPI per station for
-# the target year) and stations is the station list (id, latitude, longitude).
-# Without totals: stations is a table of values, as for 'drygrid grid --stations'.
+# With daily records or window totals the index step runs first (percentile and
+# SPI per station for the target year) and stations is the station list (id,
+# latitude, longitude). Without either: stations is a table of values, as for
+# 'drygrid grid --stations'.
 stations = "inputs/stations.csv"
-totals = "inputs/totals.csv"
+daily = "inputs/daily.csv.gz"           # station, date, precipitation[, flag]; CSV/TSV, gzip or Parquet
+windows = [30]                          # days ending on the date; several: one set of layers each, in dir/30d/ ...
+exclude_flags = ["X"]                   # quality flags whose values are missing
+# units = "mm"                          # mm, tenths-mm or inch
+# min_share = 0.9                       # least share of a window's days reported for its total
+# totals = "inputs/totals.csv"          # instead of daily: window totals per station and year
 kind = "spi"                            # what is mapped: spi or percentile
-# total_column = "total_mm"             # (index step) default: total|total_mm|precip|value
+# total_column = "total_mm"             # (totals) default: total|total_mm|precip|value
 # value_column = "spi"                  # (values table) default: the column named like kind
 # id_column = "station"
 # lat_column = "lat"
 # lon_column = "lon"
 
-[index]                                 # only with totals
+[index]                                 # only with daily or totals
 min_years = 30                          # least number of reference totals
 # ref_start = 1991                      # reference period (default: every year a station has)
 # ref_end = 2020

@@ -1,6 +1,7 @@
 package pipeline
 
 import (
+	"errors"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -107,6 +108,7 @@ func FuzzParseJob(f *testing.F) {
 	f.Add([]byte(JobExample))
 	f.Add([]byte("[inputs]\nstations = \"s.csv\"\n[output]\ndir = \"o\"\n"))
 	f.Add([]byte("[grid]\nbbox = [1e999, 2, 3, 4]\nres = nan\n"))
+	f.Add([]byte("date = \"yesterday\"\ntimezone = \"Pacific/Auckland\"\narchive = true\n[inputs]\nstations = \"s.csv\"\ndaily = \"d.csv.gz\"\nwindows = [30, 90]\nunits = \"inch\"\nexclude_flags = [\"X\"]\nmin_share = 0.8\n[output]\ndir = \"o\"\n"))
 	f.Add([]byte("a = '''\nx\n'''\n[[b]]\nc.d = 1\n"))
 	f.Fuzz(func(t *testing.T, data []byte) {
 		j, err := ParseJobFile("fuzz.toml", data)
@@ -135,5 +137,40 @@ func TestParseJobSectors(t *testing.T) {
 	}
 	if j.Params.Sectors != 8 || j.Params.Neighbors != 16 || !j.CrossVal {
 		t.Errorf("params %+v crossval %v", j.Params, j.CrossVal)
+	}
+}
+
+// TestParseJobDaily: the daily keys reach the index step; mistakes name
+// their key's line and column and are usage errors.
+func TestParseJobDaily(t *testing.T) {
+	src := "date = \"Yesterday\"\ntimezone = \"Pacific/Auckland\"\narchive = true\n[inputs]\nstations = \"s.csv\"\ndaily = \"d.csv.gz\"\nwindows = [30, 90]\nunits = \"inch\"\nexclude_flags = [\"X\"]\nmin_share = 0.8\n[output]\ndir = \"o\"\n"
+	j, err := ParseJobFile(filepath.Join("jobs", "j.toml"), []byte(src))
+	if err != nil {
+		t.Fatal(err)
+	}
+	ix := j.Index
+	if ix == nil || ix.Daily != filepath.Join("jobs", "d.csv.gz") || ix.StationList != filepath.Join("jobs", "s.csv") ||
+		len(ix.DailyOptions.Windows) != 2 || ix.DailyOptions.Units != "inch" || ix.DailyOptions.MinShare != 0.8 ||
+		len(ix.DailyOptions.ExcludeFlags) != 1 || j.Date != "yesterday" || j.Timezone != "Pacific/Auckland" || !j.Archive {
+		t.Errorf("job %+v index %+v", j, ix)
+	}
+	base := "[inputs]\nstations = \"s.csv\"\ndaily = \"d.csv\"\n"
+	out := "[output]\ndir = \"o\"\n"
+	for _, c := range []struct{ src, want string }{
+		{"date = \"tomorrow\"\n" + base + out, `line 1 column 8: date: "tomorrow" is not a calendar date YYYY-MM-DD, nor today or yesterday`},
+		{"date = \"today\"\ntimezone = \"Mars/Base\"\n" + base + out, `line 2 column 12: timezone: "Mars/Base" is not a time zone`},
+		{"date = \"today\"\n" + base + "windows = []\n" + out, `line 5 column 11: inputs.windows: no window named`},
+		{"date = \"today\"\n" + base + "windows = [30, 400]\n" + out, `inputs.windows: a window of 400 days is not from 1 to 366 days`},
+		{"date = \"today\"\n" + base + "units = \"cm\"\n" + out, `line 5 column 9: inputs.units: "cm": must be mm, tenths-mm or inch`},
+		{"date = \"today\"\n" + base + "min_share = 0\n" + out, `line 5 column 13: inputs.min_share: 0: must be in (0, 1]`},
+		{"date = \"today\"\n" + base + "totals = \"t.csv\"\n" + out, `inputs.daily: give daily records or window totals, not both`},
+		{base + out, `daily records need the date their windows end on`},
+		{"date = \"today\"\n[inputs]\nstations = \"s.csv\"\nwindows = [30]\n" + out, `line 4 column 11: inputs.windows: applies only with [inputs] daily`},
+		{"archive = true\n[inputs]\nstations = \"s.csv\"\n" + out, `line 1 column 11: archive: a dated archive needs the job's date`},
+	} {
+		_, err := ParseJobFile("j.toml", []byte(c.src))
+		if err == nil || !strings.Contains(err.Error(), c.want) || !errors.Is(err, ErrUsage) {
+			t.Errorf("%q: %v, want usage error %q", c.src, err, c.want)
+		}
 	}
 }

@@ -59,6 +59,16 @@ func buildManifest(job *Job, res *Result, dir string, start time.Time) (*manifes
 	for k, v := range job.ExtraParams {
 		params[k] = v
 	}
+	// What the layers show: the date, the window and the kind.
+	if job.Date != "" {
+		params["date"] = job.Date
+	}
+	if job.WindowDays > 0 {
+		params["window_days"] = job.WindowDays
+	}
+	if _, ok := params["year"]; ok && job.Index != nil && job.Index.Options.Year != 0 {
+		params["year"] = job.Index.Options.Year
+	}
 	rejected := map[string]int{}
 	for reason, n := range res.Values.RejectedByReason() {
 		rejected[reason] = n

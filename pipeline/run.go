@@ -130,6 +130,9 @@ func Compute(ctx context.Context, job Job) (*Result, error) {
 // rasters are left to be streamed into the files.
 func compute(ctx context.Context, job *Job, stream bool) (*Result, *inputs, time.Time, error) {
 	start := job.now()
+	if err := job.resolve(); err != nil {
+		return nil, nil, start, err
+	}
 	if err := job.Validate(); err != nil {
 		return nil, nil, start, err
 	}

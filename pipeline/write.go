@@ -11,6 +11,7 @@ import (
 	"io"
 	"path/filepath"
 	"sort"
+	"time"
 
 	"drygrid/region"
 )
@@ -37,9 +38,30 @@ func (w *layerWriter) params() map[string]any {
 	}
 }
 
-func (w *layerWriter) write(name string) error {
+// geojsonOptions are the GeoJSON layers' options: the caution, the
+// parameters, and what the layer shows (date, window, kind).
+func (w *layerWriter) geojsonOptions() geojson.Options {
+	return geojson.Options{Caution: layer.Caution, Params: w.params(),
+		Date: w.job.Date, WindowDays: w.job.WindowDays, Kind: string(w.job.Values.Kind)}
+}
+
+// tiffOptions are the GeoTIFF options: the software, and what the band
+// shows (TIFFTAG_DATETIME the job's date, the band's description and
+// units).
+func (w *layerWriter) tiffOptions() geotiff.Options {
 	opt := geotiff.DefaultOptions()
 	opt.Software = "drygrid " + w.job.version()
+	if t, err := time.Parse("2006-01-02", w.job.Date); err == nil {
+		opt.DateTime = t
+	}
+	opt.Description = w.job.Describe()
+	opt.Units = w.job.units()
+	opt.BandsDescription = "drought bands of " + w.job.Describe()
+	return opt
+}
+
+func (w *layerWriter) write(name string) error {
+	opt := w.tiffOptions()
 	if w.res.rows != nil && (name == "index" || name == "bands") {
 		return w.writeStreamed(name, opt)
 	}
@@ -74,7 +96,8 @@ func (w *layerWriter) write(name string) error {
 func (w *layerWriter) bandsGeoJSON() ([]byte, error) {
 	if w.bandsGJ == nil {
 		var buf bytes.Buffer
-		opt := geojson.Options{SimplifyKm: w.job.SimplifyKm, Caution: layer.Caution, Params: w.params()}
+		opt := w.geojsonOptions()
+		opt.SimplifyKm = w.job.SimplifyKm
 		if err := geojson.EncodeBands(&buf, w.res.Bands, w.res.Scheme, opt); err != nil {
 			return nil, err
 		}
@@ -87,7 +110,7 @@ func (w *layerWriter) bandsGeoJSON() ([]byte, error) {
 func (w *layerWriter) stationsGeoJSON() ([]byte, error) {
 	if w.stationsGJ == nil {
 		var buf bytes.Buffer
-		opt := geojson.Options{Caution: layer.Caution, Params: w.params()}
+		opt := w.geojsonOptions()
 		if err := geojson.EncodeStations(&buf, stationPoints(w.res.Values, w.res.Spec, w.res.Scheme), w.res.Scheme, opt); err != nil {
 			return nil, err
 		}

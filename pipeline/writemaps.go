@@ -7,6 +7,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"strings"
 
 	"drygrid/layer"
 	"drygrid/layer/page"
@@ -18,7 +19,8 @@ import (
 // writeRegions writes regions.csv and regions.json.
 func (w *layerWriter) writeRegions() error {
 	stats, s := w.res.Regions, w.res.Scheme
-	meta := regions.Meta{Source: "drygrid grid --stations " + w.job.Stations, Regions: w.job.Regions, Grid: w.res.Spec.String()}
+	meta := regions.Meta{Source: "drygrid grid --stations " + w.job.Stations, Regions: w.job.Regions, Grid: w.res.Spec.String(),
+		Date: w.job.Date, WindowDays: w.job.WindowDays, Kind: string(w.job.Values.Kind)}
 	return writeRegionFiles(w.dir, stats, s, meta)
 }
 
@@ -41,7 +43,11 @@ func (w *layerWriter) subtitle() string {
 		return w.job.Subtitle
 	}
 	p := w.job.Params
-	return fmt.Sprintf("IDW power %g, %d neighbours within %g km, at least %d stations; %d stations; %g deg grid",
+	shows := ""
+	if d := w.job.Describe(); w.job.describes() && !strings.Contains(w.title(), d) {
+		shows = d + "; " // a title of the user's own: the line says what the map shows
+	}
+	return shows + fmt.Sprintf("IDW power %g, %d neighbours within %g km, at least %d stations; %d stations; %g deg grid",
 		p.Power, p.Neighbors, p.RadiusKm, p.MinStations, len(w.res.Values.Stations), w.res.Spec.Res)
 }
 
@@ -49,7 +55,7 @@ func (w *layerWriter) title() string {
 	if w.job.Title != "" {
 		return w.job.Title
 	}
-	return fmt.Sprintf("%s: %s", "drygrid", w.job.Values.Kind)
+	return "drygrid: " + w.job.Describe()
 }
 
 // writePicture writes map.png.

@@ -227,7 +227,7 @@ func TestDailyIndexTotalsForm(t *testing.T) {
 }
 
 // Bad input: each case's exact message names the file, line and column
-// (the project's rule for errors; the cases are the bad daily inputs an analyst meets).
+// (the project's rule for errors).
 func TestDailyBadInput(t *testing.T) {
 	opt := DailyOptions{Target: "2023-12-31", Windows: []int{30}}
 	long := "station,date,prcp\nA,2023-01-01,1\n" + strings.Repeat("x", 100<<10) + "\nA,2023-01-02,1\n"

@@ -12,6 +12,7 @@ import (
 // addCommands registers the commands beyond grid and demo.
 func addCommands(root *cobra.Command) {
 	root.AddCommand(newIndexCmd(), newStatsCmd(), newChartCmd(), newSchemeCmd(), newRunCmd())
+	root.AddCommand(newTotalsCmd())   // totals.go
 	root.AddCommand(newCrossvalCmd()) // crossval.go
 	root.CompletionOptions.HiddenDefaultCmd = true
 }

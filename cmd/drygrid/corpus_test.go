@@ -111,6 +111,8 @@ func TestBadInputCorpus(t *testing.T) {
 				args = []string{"grid", "--stations", exampleSPI, "--scheme", p, "--layers", "index", "--out", out}
 			case "job":
 				args = []string{"run", p}
+			case "daily":
+				args = []string{"totals", "--daily", p, "--date", "2021-01-31", "--windows", "30", "--out", filepath.Join(out, "t.csv")}
 			default:
 				t.Fatalf("expected.tsv line %d: unknown kind %q", c.line, c.kind)
 			}

@@ -17,10 +17,12 @@ func newDemoCmd() *cobra.Command {
 		Use:   "demo [--out DIR]",
 		Short: "Run the whole job on the built-in invented scenario",
 		Long: `demo generates an invented scenario of our own over open ocean in the South Pacific (the
-fictitious Kelverin Islands: about 220 invented stations with 65 years of invented 30-day
-window totals and six invented districts), then runs the whole job on it: per-station
-percentile and SPI (the index step), the grid with every layer, and area in drought per
-district. Inputs go to DIR/inputs, layers to DIR. The data are invented: nothing in the
+fictitious Kelverin Islands: about 220 invented stations with 65 years of invented daily
+records, with gaps and flagged days, and six invented districts), then runs the whole job on
+it: the 30-day totals ending 30 November of every year from the daily records
+(inputs/daily.csv.gz -> inputs/totals.csv), per-station percentile and SPI (the index step,
+inputs/index.csv), the grid with every layer, and area in drought per district. Inputs go to
+DIR/inputs, layers to DIR. The data are invented: nothing in the
 demo describes a real place.`,
 		Example: `  drygrid demo
   drygrid demo --out /tmp/demo && open /tmp/demo/map.html`,

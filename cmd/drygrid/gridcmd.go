@@ -100,7 +100,7 @@ The layers are interpolated estimates, not official drought declarations.`,
 	fl.Float64Var(&f.simplifyKm, "simplify-km", 0, "simplify band polygons to this tolerance in km (0: exact cell edges)")
 	fl.StringVar(&f.title, "title", "", "title for the picture and the page")
 	fl.StringVar(&f.history, "history", "", "append the day's region rows to this CSV (with --regions); re-running a date replaces its rows")
-	fl.StringVar(&f.date, "date", "", "date of the history rows, YYYY-MM-DD (default: today, UTC)")
+	fl.StringVar(&f.date, "date", "", "the date the values describe, YYYY-MM-DD: in the titles and metadata, and the key of the history rows (history default: today, UTC)")
 	fl.StringVar(&f.out, "out", "", "output directory (required; created if missing)")
 	fl.BoolVar(&f.allowEmpty, "allow-empty", false, "publish the map even when no station lies inside the grid or no cell has a value")
 	return cmd

@@ -12,33 +12,50 @@ import (
 	"drygrid/pipeline"
 )
 
-// manifestNow is the clock of the manifest's timings (a variable so that
-// tests can stop it; timings are the one member allowed to differ between
-// runs).
+// manifestNow is the clock of the manifest's timings and of a job's
+// "today" and "yesterday" (a variable so that tests can stop it; timings
+// are the one member allowed to differ between runs).
 var manifestNow = time.Now
 
-// runJob runs a job with the command line's progress bar, warnings and
-// notes on stderr, and prints the closing summary.
-func runJob(job pipeline.Job, stderr io.Writer) (*pipeline.Result, error) {
+// report sets the job's version, clock, warnings, notes and progress bars
+// (one per stage: reading the daily records, gridding) on stderr; the
+// function returned closes the bars.
+func report(job *pipeline.Job, stderr io.Writer) func() {
 	job.Version = version
 	job.Clock = func() time.Time { return manifestNow() }
 	job.Warn = func(msg string) { fmt.Fprintf(stderr, "warning: %s\n", msg) }
 	job.Note = func(msg string) { fmt.Fprintln(stderr, msg) }
-	var bar *progress
-	job.Progress = func(_ string, done, total int) {
+	bars := map[string]*progress{}
+	job.Progress = func(stage string, done, total int) {
+		bar := bars[stage]
 		if bar == nil {
-			bar = newProgress(stderr, total, "gridding")
+			what := "gridding"
+			if stage == "daily" {
+				what = "reading daily records"
+			}
+			bar = newProgress(stderr, total, what)
+			bars[stage] = bar
 		}
 		bar.set(done, total)
 	}
+	return func() {
+		for _, b := range bars {
+			b.done()
+		}
+		clear(bars)
+	}
+}
+
+// runJob runs a job with the command line's progress bar, warnings and
+// notes on stderr, and prints the closing summary.
+func runJob(job pipeline.Job, stderr io.Writer) (*pipeline.Result, error) {
+	done := report(&job, stderr)
 	// An interrupt stops the run between row blocks; the staging
 	// directory is removed and the output directory left as it was.
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
 	defer stop()
 	res, err := pipeline.Run(ctx, job)
-	if bar != nil {
-		bar.done()
-	}
+	done()
 	if err != nil {
 		if res != nil { // published, but a later step failed
 			printSummary(stderr, job, res)

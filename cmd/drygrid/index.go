@@ -21,12 +21,13 @@ type indexFlags struct {
 	distribution     string
 	poorFit          string
 	out              string
+	fromDaily        // --daily, --window and the daily records' flags (index_daily.go)
 }
 
 func newIndexCmd() *cobra.Command {
 	var f indexFlags
 	cmd := &cobra.Command{
-		Use:   "index --totals FILE --stations FILE --out FILE.csv",
+		Use:   "index (--totals FILE | --daily FILE --window N) --stations FILE --out FILE.csv",
 		Short: "Per-station percentile and SPI of a year's window total",
 		Long: `index reads window totals per station and year (for example the precipitation of the
 30 days ending on today's date, for every year of record) and a station table, and writes
@@ -57,6 +58,10 @@ or --total-column); an empty or NA total is missing, never zero. Station table: 
 latitude, longitude (latitude|lat, longitude|lon|long|lng); other columns are ignored.
 Tables are CSV or TSV, optionally gzip-compressed.
 
+Daily records (--daily FILE --window N, instead of --totals): the totals of the window of N
+days ending on --date's month and day are computed from the daily records in memory, as
+'drygrid totals' does (see its help for the calendar and the missing-day rules), and indexed.
+
 Output columns: station,latitude,longitude,year,total,years,zeros,percentile,spi,
 pct_of_median,gamma_shape,gamma_scale,fit_ok,note.
 
@@ -69,9 +74,15 @@ hydrological service and local rules.`,
 
   # a fixed 1991-2020 reference period, year 2024, the empirical SPI for comparison
   drygrid index --totals totals.csv.gz --stations stations.tsv --year 2024 \
-      --ref-start 1991 --ref-end 2020 --distribution empirical --out spi-empirical.csv`,
+      --ref-start 1991 --ref-end 2020 --distribution empirical --out spi-empirical.csv
+
+  # straight from daily records: the 90 days ending 30 November of every year
+  drygrid index --daily daily.csv.gz --window 90 --date 2026-11-30 --stations stations.csv --out spi90.csv`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
+			if f.daily.daily != "" {
+				return f.runDaily(cmd.ErrOrStderr())
+			}
 			opt, err := f.options()
 			if err != nil {
 				return err
@@ -98,14 +109,15 @@ hydrological service and local rules.`,
 	fl.StringVar(&f.distribution, "distribution", station.DistGamma, "SPI from a fitted gamma, or from the empirical plotting position: gamma or empirical")
 	fl.StringVar(&f.poorFit, "poor-fit", station.PoorFitEmpirical, "a gamma fit Anderson-Darling rejects: empirical (the Gringorten plotting-position SPI), keep (the gamma SPI) or drop (no SPI)")
 	fl.StringVar(&f.out, "out", "", "output CSV file (required; written atomically)")
+	f.fromDaily.register(fl)
 	return cmd
 }
 
 // options checks the flags (usage errors, exit code 2) and builds the options.
 func (f indexFlags) options() (station.IndexOptions, error) {
 	var o station.IndexOptions
-	if f.totals == "" {
-		return o, usagef("--totals FILE is required")
+	if f.totals == "" && f.daily.daily == "" {
+		return o, usagef("--totals FILE is required (or --daily FILE --window N)")
 	}
 	if f.stations == "" {
 		return o, usagef("--stations FILE is required")

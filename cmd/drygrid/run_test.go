@@ -86,7 +86,7 @@ func TestRunExample(t *testing.T) {
 	if err != nil {
 		t.Fatalf("example does not parse: %v", err)
 	}
-	if j.Out != filepath.Join(dir, "daily") || j.Index == nil || j.Index.Totals != filepath.Join(dir, "inputs/totals.csv") || j.Index.Options.Year != 2025 {
+	if j.Out != filepath.Join(dir, "daily") || j.Index == nil || j.Index.Daily != filepath.Join(dir, "inputs/daily.csv.gz") || j.Date != "2025-11-30" {
 		t.Errorf("example resolved to out %s index %+v", j.Out, j.Index)
 	}
 	prev := runtime.GOMAXPROCS(1)
@@ -136,7 +136,7 @@ func TestRunExample(t *testing.T) {
 	for _, in := range m["inputs"].([]any) {
 		roles[in.(map[string]any)["role"].(string)] = true
 	}
-	for _, r := range []string{"job", "totals", "station-list", "regions"} {
+	for _, r := range []string{"job", "daily", "station-list", "regions"} {
 		if !roles[r] {
 			t.Errorf("manifest inputs lack role %s: %v", r, m["inputs"])
 		}

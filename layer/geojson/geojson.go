@@ -24,6 +24,13 @@ type Options struct {
 	SimplifyKm float64        // 0 = off (exact cell edges); see polygon.PolygonizeSimplified
 	Caution    string         // top-level foreign member text (RFC 7946 sec 6.1); empty = Caution
 	Params     map[string]any // parameters used (power, neighbors, ...), a foreign member
+
+	// What the layer shows, as top-level foreign members "date",
+	// "window_days" and "kind" (RFC 7946 sec 6.1); each left out when
+	// empty (zero).
+	Date       string // the day the values describe, YYYY-MM-DD
+	WindowDays int    // the window of the totals behind the index, in days
+	Kind       string // the index kind (spi, percentile)
 }
 
 // EncodeBands writes the band layer (RFC 7946): a FeatureCollection with
@@ -176,8 +183,10 @@ func EncodeBands(w io.Writer, r *grid.Uint8, s *bands.Scheme, opt Options) error
 	return nil
 }
 
-// gjMeta encodes the "drygrid" foreign member. encoding/json sorts map keys,
-// so the text is deterministic.
+// gjMeta encodes the "drygrid" foreign member's value, followed by the
+// members "date", "window_days" and "kind" of those given (the callers
+// write it right after `"drygrid":`). encoding/json sorts map keys, so the
+// text is deterministic.
 func gjMeta(opt Options) ([]byte, error) {
 	caution := opt.Caution
 	if caution == "" {
@@ -190,6 +199,17 @@ func gjMeta(opt Options) ([]byte, error) {
 	b, err := json.Marshal(map[string]any{"caution": caution, "generated_by": "drygrid", "params": params})
 	if err != nil {
 		return nil, fmt.Errorf("encode parameters (foreign member drygrid): %w", err)
+	}
+	if opt.Date != "" {
+		d, _ := json.Marshal(opt.Date)
+		b = append(append(b, `,"date":`...), d...)
+	}
+	if opt.WindowDays > 0 {
+		b = append(b, fmt.Sprintf(`,"window_days":%d`, opt.WindowDays)...)
+	}
+	if opt.Kind != "" {
+		k, _ := json.Marshal(opt.Kind)
+		b = append(append(b, `,"kind":`...), k...)
 	}
 	return b, nil
 }

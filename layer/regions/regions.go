@@ -113,6 +113,10 @@ type Meta struct {
 	Source  string // what the band raster came from (a file or "drygrid grid")
 	Regions string // the regions file
 	Grid    string // grid.Spec.String() of the band raster
+	// WindowDays is the window of the totals behind the index in days
+	// (0 = unknown) and Kind the index kind (spi, percentile; may be empty).
+	WindowDays int
+	Kind       string
 }
 
 // regNum is a number written with 3 decimals, or null when undefined.
@@ -155,6 +159,8 @@ type regJSONRegion struct {
 type regJSONDoc struct {
 	Caution string          `json:"caution"`
 	Date    string          `json:"date,omitempty"`
+	Window  int             `json:"window_days,omitempty"`
+	Kind    string          `json:"kind,omitempty"`
 	Source  string          `json:"source,omitempty"`
 	Regions string          `json:"regions_file,omitempty"`
 	Grid    string          `json:"grid,omitempty"`
@@ -177,7 +183,7 @@ const regMethod = "Each grid cell counts with the share of its area inside the r
 // with code, key, label, colour, drought flag and z range, the method and a
 // caution that these are estimates, not official declarations.
 func WriteJSON(w io.Writer, stats []region.ZonalStats, s *bands.Scheme, meta Meta) error {
-	doc := regJSONDoc{Caution: Caution, Date: meta.Date, Source: meta.Source, Regions: meta.Regions,
+	doc := regJSONDoc{Caution: Caution, Date: meta.Date, Window: meta.WindowDays, Kind: meta.Kind, Source: meta.Source, Regions: meta.Regions,
 		Grid: meta.Grid, Method: regMethod, Scheme: regJSONScheme{Name: s.Name}, Stats: []regJSONRegion{}}
 	for _, b := range s.Bands {
 		doc.Scheme.Bands = append(doc.Scheme.Bands, regJSONBand{b.Code, b.Key, b.Label, b.Color, b.Drought, b.Range()})

@@ -127,3 +127,13 @@ w("j_swapped_bbox.toml", J + 'layers = ["index"]\n[grid]\nbbox = [-116.0, -45.0,
 w("j_no_covered_cell.toml", J + 'layers = ["index"]\n[grid]\nres = 0.25\nbbox = [-128.0, -45.0, -116.0, -38.0]\n[interpolation]\nradius_km = 1.0\nmin_stations = 2\n')
 w("j_empty_layers.toml", J + "layers = []\n")
 w("j_bad_poor_fit.toml", '[inputs]\nstations = "../index/stations.csv"\ntotals = "../index/totals.csv"\n[index]\npoor_fit = "toss"\n[output]\ndir = "never-written"\nlayers = ["index"]\n')
+# daily records (drygrid totals --daily FILE) and the job file's daily keys
+DH = "station,date,precipitation,flag\n"
+w("d_negative.csv", DH + "KLV-01,2021-01-01,0.0,\nKLV-01,2021-01-02,-3.5,\n")
+w("d_impossible_date.csv", DH + "KLV-01,2021-01-01,0.0,\nKLV-01,2021-02-30,1.2,\n")
+w("d_dup_day.csv", DH + "KLV-01,2021-01-01,0.0,\nKLV-01,2021-01-02,1.0,\nKLV-01,2021-01-01,2.5,\n")
+DJ = '[inputs]\nstations = "../index/stations.csv"\ndaily = "d_negative.csv"\n[output]\ndir = "never-written"\nlayers = ["index"]\n'
+w("j_date_tomorrow.toml", 'date = "tomorrow"\n' + DJ)
+w("j_windows_empty.toml", 'date = "2021-01-31"\n' + DJ.replace('daily = "d_negative.csv"\n', 'daily = "d_negative.csv"\nwindows = []\n'))
+w("j_timezone.toml", 'date = "yesterday"\ntimezone = "Mars/Base"\n' + DJ)
+w("j_daily_negative.toml", 'date = "2021-01-31"\n' + DJ)
