@@ -2,6 +2,7 @@ package pipeline
 
 import (
 	"context"
+	"drygrid/publish"
 	"fmt"
 	"os"
 	"path/filepath"
@@ -133,7 +134,7 @@ func (p *DayPlan) mkdir() error {
 // Finish completes a day whose jobs all ran: with an archive, Out/latest
 // is pointed at the day's directory, unless it already points at a later
 // day (a back-filled day does not move it back). The link is replaced
-// atomically: a new link beside it renamed over it.
+// atomically (publish.Link).
 func (p *DayPlan) Finish() error {
 	if !p.archive {
 		return nil
@@ -144,13 +145,7 @@ func (p *DayPlan) Finish() error {
 			return nil
 		}
 	}
-	tmp := filepath.Join(p.root, fmt.Sprintf(".latest-%d", os.Getpid()))
-	_ = os.Remove(tmp)
-	if err := os.Symlink(p.Date, tmp); err != nil {
-		return fmt.Errorf("archive: %w", err)
-	}
-	if err := os.Rename(tmp, latest); err != nil {
-		_ = os.Remove(tmp)
+	if err := publish.Link(latest, p.Date); err != nil {
 		return fmt.Errorf("archive: %w", err)
 	}
 	return nil
