@@ -21,7 +21,8 @@ type Residual struct {
 	PredictedBand, ObservedBand uint8
 }
 
-// CrossValResult are the leave-one-out figures of a parameter set.
+// CrossValResult are the figures of a parameter set: leave-one-out
+// (CrossValidate) or spatial blocks (CrossValidateBlocks).
 type CrossValResult struct {
 	Params   Params
 	Stations []Residual // one per input point, in input order
@@ -35,6 +36,11 @@ type CrossValResult struct {
 	// BandAgreement is the share (0..1) of counted stations whose predicted
 	// band equals their observed band; NaN when N is 0 or classify was nil.
 	BandAgreement float64
+	// BlockKm is the block size of spatial block cross-validation
+	// (CrossValidateBlocks), 0 for leave-one-out; Blocks the number of
+	// blocks holding a station (0 for leave-one-out).
+	BlockKm float64
+	Blocks  int
 }
 
 // CrossValidate leaves each station out in turn and predicts its value from

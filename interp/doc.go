@@ -22,7 +22,11 @@
 // across the antimeridian if need be), which grid.NewSpec snaps outward to
 // the resolution. CrossValidate is leave-one-out cross-validation: each
 // station is predicted from all the others exactly as Grid would at its
-// place, and the residuals give RMSE, MAE, bias and band agreement. The
+// place, and the residuals give RMSE, MAE, bias and band agreement;
+// CrossValidateBlocks leaves out whole blocks of about a given size (Block)
+// instead (spatial block cross-validation, Roberts et al. 2017). Support
+// gives each cell's distance to its nearest station within the radius and
+// the number of stations the weighting uses there. The
 // output never depends on the number of cores (Params.Workers), nor on
 // whether the lane kernel runs in assembly or in Go. At finds a point's
 // stations through an R-tree

@@ -156,8 +156,14 @@ func (ip *Interpolator) rowCandidates(w *rowWork, lat float64) []int32 {
 // over them; ok is false when the row has fewer candidates than
 // MinStations, so every cell of it is no data.
 func (ip *Interpolator) rowStations(w *rowWork, lat float64) (span lonSpan, ok bool) {
+	return ip.rowStationsMin(w, lat, ip.p.MinStations)
+}
+
+// rowStationsMin is rowStations with ok false when the row has fewer than
+// minSt candidates (Support asks for one).
+func (ip *Interpolator) rowStationsMin(w *rowWork, lat float64, minSt int) (span lonSpan, ok bool) {
 	ranks := ip.rowCandidates(w, lat)
-	if len(ranks) < ip.p.MinStations {
+	if len(ranks) < minSt {
 		return lonSpan{}, false
 	}
 	dl := lonHalfWidth(lat, ip.theta)

@@ -99,9 +99,22 @@ func SearchCombos(base Params, terms []string) ([]Params, error) {
 // Search cross-validates every parameter set (CrossValidate) and returns
 // the results, in the order of combos, without their per-station rows.
 func Search(pts []Point, combos []Params, classify func(z float64) uint8) ([]CrossValResult, error) {
+	return SearchBlocks(pts, combos, 0, classify)
+}
+
+// SearchBlocks is Search by spatial block cross-validation
+// (CrossValidateBlocks with blocks of blockKm) when blockKm > 0, by
+// leave-one-out (CrossValidate) when it is 0.
+func SearchBlocks(pts []Point, combos []Params, blockKm float64, classify func(z float64) uint8) ([]CrossValResult, error) {
 	rs := make([]CrossValResult, len(combos))
 	for i, p := range combos {
-		r, err := CrossValidate(pts, p, classify)
+		var r CrossValResult
+		var err error
+		if blockKm != 0 {
+			r, err = CrossValidateBlocks(pts, p, blockKm, classify)
+		} else {
+			r, err = CrossValidate(pts, p, classify)
+		}
 		if err != nil {
 			return nil, err
 		}

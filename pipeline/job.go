@@ -240,11 +240,11 @@ func (j *Job) checkParams() error {
 
 func (j *Job) checkLayerNames() error {
 	if len(j.Layers) == 0 {
-		return usageAt("--layers: ", "output.layers", fmt.Sprintf("no layer named (choose from %s)", strings.Join(AllLayers, ",")))
+		return usageAt("--layers: ", "output.layers", fmt.Sprintf("no layer named (choose from %s)", strings.Join(LayerNames(), ",")))
 	}
 	for name, on := range j.Layers {
 		if _, ok := layerFiles[name]; on && !ok {
-			return usageAt("--layers: ", "output.layers", fmt.Sprintf("unknown layer %q (choose from %s)", name, strings.Join(AllLayers, ",")))
+			return usageAt("--layers: ", "output.layers", fmt.Sprintf("unknown layer %q (choose from %s)", name, strings.Join(LayerNames(), ",")))
 		}
 	}
 	return nil

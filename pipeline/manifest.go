@@ -141,11 +141,17 @@ func CrossValParams(p interp.Params) map[string]any {
 // `crossval --json` and the manifest of a run with Job.CrossVal: n, rmse,
 // mae, bias (mean of predicted - observed), band_agreement (0..1),
 // stations, not_counted and params. Figures over no station are null.
+// Spatial block cross-validation (r.BlockKm > 0) adds method "blocks",
+// block_km and blocks (the number of blocks holding a station).
 func CrossValFigures(r interp.CrossValResult) map[string]any {
-	return map[string]any{
+	m := map[string]any{
 		"n": r.N, "rmse": cvNum(r.RMSE), "mae": cvNum(r.MAE), "bias": cvNum(r.Bias),
 		"band_agreement": cvNum(r.BandAgreement),
 		"stations":       len(r.Stations), "not_counted": len(r.Stations) - r.N,
 		"residual": "predicted - observed", "params": CrossValParams(r.Params),
 	}
+	if r.BlockKm > 0 {
+		m["method"], m["block_km"], m["blocks"] = "blocks", r.BlockKm, r.Blocks
+	}
+	return m
 }

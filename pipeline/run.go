@@ -59,6 +59,21 @@ type Result struct {
 
 	rows  func(row0, n int, dst []float32) error // streams the index rows (Index and Bands nil)
 	tally *bands.Tally
+	ip    *interp.Interpolator // for SupportRows
+}
+
+// SupportRows fills rows row0 .. row0+n-1 of the run's grid (Spec) with
+// the distance in km to the nearest station within the search radius
+// (grid.NoDataIndex where none) and the number of stations the weighting
+// uses (0 where none), as interp.Support documents; either slice may be
+// nil. It holds no raster: a picture or page may hatch the cells whose
+// nearest station is farther than a chosen distance, block by block. The
+// support layer (support.tif, support_count.tif) is written from it.
+func (r *Result) SupportRows(row0, n int, dist []float32, count []uint16) error {
+	if r.ip == nil {
+		return errors.New("pipeline: the result has no interpolator (not made by Run or Compute)")
+	}
+	return r.ip.Support(r.Spec, row0, n, dist, count)
 }
 
 // HistoryRows are the rows a run added to a history file.
@@ -165,7 +180,7 @@ func compute(ctx context.Context, job *Job, stream bool) (*Result, *inputs, time
 		return nil, nil, start, err
 	}
 	read := job.now()
-	res.Values, res.Spec, res.Scheme = vals, spec, in.scheme
+	res.Values, res.Spec, res.Scheme, res.ip = vals, spec, in.scheme, ip
 	progress := func(done int) {
 		if job.Progress != nil {
 			job.Progress("grid", done, spec.Rows)
@@ -293,7 +308,7 @@ func streamable(job Job) bool {
 		return false
 	}
 	for name, on := range job.Layers {
-		if on && name != "index" && name != "bands" {
+		if on && name != "index" && name != "bands" && name != "support" {
 			return false
 		}
 	}
@@ -373,7 +388,7 @@ func writeLayers(ctx context.Context, job *Job, res *Result, regions []region.Re
 	err := func(dir string) error {
 		writeStart := job.now()
 		w := &layerWriter{job: job, res: res, regions: regions, dir: dir}
-		for _, name := range AllLayers {
+		for _, name := range LayerNames() {
 			if !job.Layers[name] {
 				continue
 			}

@@ -88,6 +88,8 @@ func (w *layerWriter) write(name string) error {
 		return w.writePicture()
 	case "page":
 		return w.writePage()
+	case "support":
+		return w.writeSupport(opt)
 	}
 	return fmt.Errorf("unknown layer %q", name)
 }

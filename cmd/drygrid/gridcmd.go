@@ -48,6 +48,14 @@ severity bands and writes the layers into --out:
   map.html          a self-contained web page
   manifest.json     what was run: version, parameters, inputs and outputs with SHA-256, counts
 
+Written only when named (--layers all,support or --layers index,support), as it costs two
+more passes of the search:
+
+  support.tif       Float32 km from each cell centre to the nearest station within
+                    --radius-km, no data -9999 where none (hatch cells beyond a chosen km)
+  support_count.tif Float32 whole numbers: stations the weighting uses (within the radius,
+                    at most --neighbors); 0 where none; below --min-stations = no data in index
+
 Percentiles are turned into z = Phi^-1(p/100) (p clamped to [0.1, 99.9]) before
 interpolation, so index.tif always holds z.
 
@@ -96,7 +104,8 @@ The layers are interpolated estimates, not official drought declarations.`,
 	fl.StringVar(&f.scheme, "scheme", "", "band scheme file (TOML; default: the nine built-in bands; see 'drygrid scheme --example')")
 	fl.StringVar(&f.regions, "regions", "", "regions GeoJSON (Polygon/MultiPolygon features) for area-in-drought statistics")
 	fl.StringVar(&f.regionKey, "region-key", "", "feature property naming each region (default: id, then name)")
-	fl.StringVar(&f.layers, "layers", "all", "layers to write: "+strings.Join(pipeline.AllLayers, ","))
+	fl.StringVar(&f.layers, "layers", "all", "layers to write: "+strings.Join(pipeline.AllLayers, ",")+
+		" (all), and "+strings.Join(pipeline.ExtraLayers, ",")+" only when named (all,support)")
 	fl.Float64Var(&f.simplifyKm, "simplify-km", 0, "simplify band polygons to this tolerance in km (0: exact cell edges)")
 	fl.StringVar(&f.title, "title", "", "title for the picture and the page")
 	fl.StringVar(&f.history, "history", "", "append the day's region rows to this CSV (with --regions); re-running a date replaces its rows")
