@@ -10,6 +10,7 @@ import (
 	"io"
 	"math"
 	"sort"
+	"strings"
 	"time"
 
 	"gonum.org/v1/plot"
@@ -113,7 +114,7 @@ func Encode(w io.Writer, h *history.History, opt Options) error {
 }
 
 // chartFigure is a chart ready to draw: the plot, its legend with a
-// heading, and the caption's lines.
+// heading, and the caption's paragraphs (wrapped to the chart's width).
 type chartFigure struct {
 	p       *plot.Plot
 	leg     plot.Legend
@@ -136,7 +137,7 @@ func chartNewPlot(tx *chartText, title, ylabel string, dates []time.Time) *plot.
 		tx.restyle(&ax.Tick.Label, 9.5, false, ink)
 	}
 	tx.restyle(&p.Legend.TextStyle, 10, false, ink) // unused: the legend is drawn beside the plot
-	p.X.Tick.Marker = chartTimeTicker{}
+	p.X.Tick.Marker = chartTimeTicker{most: 8}
 	p.Y.Tick.Marker = chartPctTicker{}
 	t0, t1 := dates[0], dates[len(dates)-1]
 	p.X.Min, p.X.Max = chartX(t0), chartX(t1)
@@ -222,8 +223,8 @@ func chartLines(tx *chartText, h *history.History, opt Options) (*chartFigure, e
 	}
 	return &chartFigure{p: p, leg: leg, heading: "Region, latest share", caption: []string{
 		"In drought: the bands the scheme flags as drought (default scheme: z <= -1.0, SPI units), as percent of each region's covered (not masked) area.",
-		"Caution: interpolated estimates from a station network, not official drought declarations; consult your national meteorological",
-		"or hydrological service and local rules." + chartOmitted(len(pick), len(h.Regions)),
+		"Caution: interpolated estimates from a station network, not official drought declarations; consult your national meteorological " +
+			"or hydrological service and local rules." + chartOmitted(len(pick), len(h.Regions)),
 	}}, nil
 }
 
@@ -319,9 +320,10 @@ func chartStacked(tx *chartText, st *Stack, opt Options) (*chartFigure, error) {
 		leg.Add(chartLabel(st.Bands[b].Label, v), swatches[b])
 	}
 	return &chartFigure{p: p, leg: leg, heading: "Band, latest share", caption: []string{
-		"Shares of the region's covered (not masked) area in each band, stacked driest at the bottom; the black line is the share in drought",
-		"(" + chartList(dkeys, 6) + "). Caution: interpolated estimates from a station network, not official drought declarations;",
-		"consult your national meteorological or hydrological service and local rules.",
+		"Shares of the region's covered (not masked) area in each band, stacked driest at the bottom; the black line is the share in drought " +
+			"(" + chartList(dkeys, 6) + ").",
+		"Caution: interpolated estimates from a station network, not official drought declarations; " +
+			"consult your national meteorological or hydrological service and local rules.",
 	}}, nil
 }
 
@@ -377,14 +379,19 @@ func (fr *chartFigure) draw(w io.Writer, tx *chartText, opt Options) error {
 	hpt := vg.Length(opt.HeightPx) * vg.Inch / 96
 	img := vgimg.NewWith(vgimg.UseWH(wpt, hpt), vgimg.UseDPI(96), vgimg.UseBackgroundColor(color.White))
 	dc := draw.New(img)
-	captionH := vg.Points(54)
+	capSty := tx.style(9.5, false, color.Gray{0x33})
+	var lines []string
+	for _, para := range fr.caption {
+		lines = append(lines, chartWrap(capSty, para, wpt-vg.Points(28))...)
+	}
+	captionH := vg.Points(15) + vg.Length(len(lines))*vg.Points(13)
 	legendW := vg.Points(200)
+	fr.p.X.Tick.Marker = chartTimeTicker{most: max(3, min(8, opt.WidthPx/150))}
 	fr.p.Draw(draw.Crop(dc, vg.Points(6), -legendW, captionH, -vg.Points(6)))
 	legArea := draw.Crop(dc, wpt-legendW+vg.Points(14), -vg.Points(8), captionH, -vg.Points(52))
 	fr.leg.Draw(legArea)
 	dc.FillText(tx.style(10.5, true, color.Gray{0x22}), vg.Point{X: wpt - legendW + vg.Points(14), Y: hpt - vg.Points(44)}, fr.heading)
-	capSty := tx.style(9.5, false, color.Gray{0x33})
-	for i, l := range fr.caption {
+	for i, l := range lines {
 		dc.FillText(capSty, vg.Point{X: vg.Points(14), Y: captionH - vg.Points(15) - vg.Length(i)*vg.Points(13)}, l)
 	}
 	if _, err := (vgimg.PngCanvas{Canvas: img}).WriteTo(w); err != nil {
@@ -501,16 +508,17 @@ func (chartPctTicker) Ticks(min, max float64) []plot.Tick {
 	return ticks
 }
 
-// chartTimeTicker puts ticks on whole days (or months for long spans).
-type chartTimeTicker struct{}
+// chartTimeTicker puts ticks on whole days (or months for long spans), at
+// most about most of them, so that labels stay apart on a narrow chart.
+type chartTimeTicker struct{ most int }
 
-func (chartTimeTicker) Ticks(min, max float64) []plot.Tick {
+func (tt chartTimeTicker) Ticks(min, max float64) []plot.Tick {
 	const day = 86400.0
 	span := (max - min) / day
 	steps := []float64{1, 2, 7, 14, 30.4375, 61, 91.3, 182.6, 365.25, 730.5, 1826.25}
 	step := steps[len(steps)-1]
 	for _, s := range steps {
-		if span/s <= 8 {
+		if span/s <= float64(tt.most) {
 			step = s
 			break
 		}
@@ -541,4 +549,25 @@ func (chartTimeTicker) Ticks(min, max float64) []plot.Tick {
 		}
 	}
 	return ticks
+}
+
+// chartWrap breaks a paragraph into lines no wider than width in sty.
+func chartWrap(sty draw.TextStyle, para string, width vg.Length) []string {
+	var lines []string
+	line := ""
+	for _, w := range strings.Fields(para) {
+		try := w
+		if line != "" {
+			try = line + " " + w
+		}
+		if line != "" && sty.Width(try) > width {
+			lines = append(lines, line)
+			try = w
+		}
+		line = try
+	}
+	if line != "" {
+		lines = append(lines, line)
+	}
+	return lines
 }
