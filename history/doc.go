@@ -20,6 +20,8 @@
 // temporary name renamed at the end, so a failure leaves the earlier file
 // whole, and Append holds a lock beside the file (.NAME.drygrid-lock,
 // removed when done) from its read to its rename, so two runs appending to
-// one history at once both keep their rows. Reading finds the date, region and in_drought_pct columns by name,
-// whatever the scheme.
+// one history at once both keep their rows. Reading finds the date, region
+// and in_drought_pct columns by name, whatever the scheme, and the band
+// shares (History.Bands, History.BandPct) in the <key>_pct columns, in the
+// file's order; History.Between cuts a date range.
 package history

@@ -183,6 +183,56 @@ type History struct {
 	// InDroughtPct[r][d] is region r's in_drought_pct on Dates[d], NaN when
 	// the history has no value for that day.
 	InDroughtPct [][]float64
+	// Bands are the band keys of the file's <key>_pct columns (every
+	// column ending in _pct but covered_pct and in_drought_pct), in the
+	// file's order: the scheme's, driest first. Empty for a history
+	// without band columns.
+	Bands []string
+	// BandPct[r][d][b] is region r's share of band Bands[b] on Dates[d],
+	// percent of the covered area, NaN when the history has no value
+	// (no row that day, or nothing covered). Nil without band columns.
+	BandPct [][][]float64
+}
+
+// FirstDate and LastDate are the history's first and last dates,
+// YYYY-MM-DD ("" for an empty history).
+func (h *History) FirstDate() string {
+	if h == nil || len(h.Dates) == 0 {
+		return ""
+	}
+	return h.Dates[0].Format("2006-01-02")
+}
+
+// LastDate: see FirstDate.
+func (h *History) LastDate() string {
+	if h == nil || len(h.Dates) == 0 {
+		return ""
+	}
+	return h.Dates[len(h.Dates)-1].Format("2006-01-02")
+}
+
+// Between is the part of the history dated from from to to, both
+// included (a zero time leaves that end open). The regions stay those of h,
+// in the same order, even when one has no value in the range; the result
+// has no dates when no row falls in the range. The slices are shared
+// with h.
+func (h *History) Between(from, to time.Time) *History {
+	lo := sort.Search(len(h.Dates), func(i int) bool { return from.IsZero() || !h.Dates[i].Before(from) })
+	hi := sort.Search(len(h.Dates), func(i int) bool { return !to.IsZero() && h.Dates[i].After(to) })
+	if hi < lo {
+		hi = lo
+	}
+	out := &History{Dates: h.Dates[lo:hi:hi], Regions: h.Regions, Bands: h.Bands}
+	for _, v := range h.InDroughtPct {
+		out.InDroughtPct = append(out.InDroughtPct, v[lo:hi:hi])
+	}
+	if h.BandPct != nil {
+		out.BandPct = make([][][]float64, len(h.BandPct))
+		for r, v := range h.BandPct {
+			out.BandPct[r] = v[lo:hi:hi]
+		}
+	}
+	return out
 }
 
 // Read reads a history CSV written by Append (any scheme: the
@@ -214,20 +264,29 @@ func Parse(name string, r io.Reader) (*History, error) {
 	for i, h := range head {
 		col[strings.ToLower(strings.TrimSpace(h))] = i
 	}
+	h := &History{}
 	for _, need := range []string{"date", "region", "in_drought_pct"} {
 		if _, ok := col[need]; !ok {
 			return nil, fmt.Errorf("history %s line 1: no %q column (header %s)", name, need, strings.Join(head, ","))
 		}
 	}
 	ci, cr2, cd := col["date"], col["region"], col["in_drought_pct"]
+	var bandCols []int // the <key>_pct columns, in the file's order
+	for i, hd := range head {
+		k := strings.ToLower(strings.TrimSpace(hd))
+		if strings.HasSuffix(k, "_pct") && k != "covered_pct" && k != "in_drought_pct" && len(k) > len("_pct") {
+			bandCols = append(bandCols, i)
+			h.Bands = append(h.Bands, strings.TrimSuffix(k, "_pct"))
+		}
+	}
 	type obs struct {
 		date   time.Time
 		region int
 		pct    float64
+		bands  []float64
 	}
 	var all []obs
 	regIdx := map[string]int{}
-	h := &History{}
 	for line := 2; ; line++ {
 		rec, err := cr.Read()
 		if err == io.EOF {
@@ -255,13 +314,27 @@ func Parse(name string, r io.Reader) (*History, error) {
 			}
 			pct = v
 		}
+		var bs []float64
+		if len(bandCols) > 0 {
+			bs = make([]float64, len(bandCols))
+			for b, c := range bandCols {
+				bs[b] = math.NaN()
+				if s := strings.TrimSpace(rec[c]); s != "" {
+					v, err := strconv.ParseFloat(s, 64)
+					if err != nil || v < 0 || v > 100 || math.IsNaN(v) {
+						return nil, fmt.Errorf("history %s line %d column %d: %s %q is not a percentage", name, line, c+1, head[c], rec[c])
+					}
+					bs[b] = v
+				}
+			}
+		}
 		ri, ok := regIdx[reg]
 		if !ok {
 			ri = len(h.Regions)
 			regIdx[reg] = ri
 			h.Regions = append(h.Regions, reg)
 		}
-		all = append(all, obs{d, ri, pct})
+		all = append(all, obs{d, ri, pct, bs})
 	}
 	if len(all) == 0 {
 		return nil, fmt.Errorf("history %s: no rows", name)
@@ -285,8 +358,28 @@ func Parse(name string, r io.Reader) (*History, error) {
 		}
 		h.InDroughtPct[r] = row
 	}
+	if len(bandCols) > 0 {
+		h.BandPct = make([][][]float64, len(h.Regions))
+		for r := range h.BandPct {
+			h.BandPct[r] = make([][]float64, len(h.Dates))
+		}
+	}
 	for _, o := range all {
 		h.InDroughtPct[o.region][dateIdx[o.date]] = o.pct // a repeated (date, region): the last row wins
+		if h.BandPct != nil {
+			h.BandPct[o.region][dateIdx[o.date]] = o.bands
+		}
+	}
+	for r := range h.BandPct { // days without a row: every band missing
+		for d, v := range h.BandPct[r] {
+			if v == nil {
+				v = make([]float64, len(bandCols))
+				for b := range v {
+					v[b] = math.NaN()
+				}
+				h.BandPct[r][d] = v
+			}
+		}
 	}
 	return h, nil
 }

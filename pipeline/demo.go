@@ -25,7 +25,9 @@ const demoHistoryYears = 10
 // totals from the daily records into out/inputs/totals.csv, runs the index
 // step on them into out/inputs/index.csv, and computes, in memory, the history of
 // area in drought per district over the last ten target years and its
-// chart. It returns the job that maps the target year with every layer,
+// charts (chart.png: every district's share in drought; chart-district.png:
+// the district most in drought in the target year, its bands stacked over
+// the years). It returns the job that maps the target year with every layer,
 // the history and the chart among its files. note, when not nil, receives
 // one line on each step.
 func DemoJob(ctx context.Context, out string, note func(string)) (Job, error) {
@@ -92,52 +94,74 @@ func DemoJob(ctx context.Context, out string, note func(string)) (Job, error) {
 		Date:   scenario.DailyTarget, WindowDays: scenario.DailyWindow,
 	}
 	job.Params.RadiusKm = sc.RadiusKm
-	hist, chartPNG, err := demoHistory(ctx, sc, stationsCSV, totalsCSV, job)
+	hist, chartPNG, districtPNG, err := demoHistory(ctx, sc, stationsCSV, totalsCSV, job)
 	if err != nil {
 		return Job{}, err
 	}
-	note(fmt.Sprintf("history: %d years of area in drought per district (history.csv, chart.png)", demoHistoryYears))
-	job.Extra = map[string][]byte{"history.csv": hist, "chart.png": chartPNG}
+	note(fmt.Sprintf("history: %d years of area in drought per district (history.csv, chart.png, chart-district.png)", demoHistoryYears))
+	job.Extra = map[string][]byte{"history.csv": hist, "chart.png": chartPNG, "chart-district.png": districtPNG}
 	return job, nil
 }
 
 // demoHistory computes, for each of the last demoHistoryYears years of the
 // scenario (dated on the window's last day), the index step and the area
 // in each band per district, in memory, and returns the history table and
-// its chart. The template job gives the grid, parameters and regions.
-func demoHistory(ctx context.Context, sc *scenario.Scenario, stationsCSV, totalsCSV string, tmpl Job) (historyCSV, chartPNG []byte, err error) {
+// its two charts. The template job gives the grid, parameters and regions.
+func demoHistory(ctx context.Context, sc *scenario.Scenario, stationsCSV, totalsCSV string, tmpl Job) (historyCSV, chartPNG, districtPNG []byte, err error) {
 	var days []history.Day
 	var res *Result
 	for y := sc.TargetYear - demoHistoryYears + 1; y <= sc.TargetYear; y++ {
 		idx, err := station.ComputeIndex(stationsCSV, totalsCSV, station.IndexOptions{Year: y})
 		if err != nil {
-			return nil, nil, fmt.Errorf("demo history %d: %w", y, err)
+			return nil, nil, nil, fmt.Errorf("demo history %d: %w", y, err)
 		}
 		var buf bytes.Buffer
 		if err := station.WriteIndexCSV(&buf, idx); err != nil {
-			return nil, nil, fmt.Errorf("demo history %d: %w", y, err)
+			return nil, nil, nil, fmt.Errorf("demo history %d: %w", y, err)
 		}
 		job := tmpl
 		job.Stations, job.StationsData = fmt.Sprintf("index-%d.csv", y), buf.Bytes()
 		if res, err = Compute(ctx, job); err != nil {
-			return nil, nil, fmt.Errorf("demo history %d: %w", y, err)
+			return nil, nil, nil, fmt.Errorf("demo history %d: %w", y, err)
 		}
 		days = append(days, history.Day{Date: fmt.Sprintf("%d-11-30", y), Stats: res.Regions})
 	}
 	var csv bytes.Buffer
 	if err := history.Encode(&csv, days, res.Scheme); err != nil {
-		return nil, nil, err
+		return nil, nil, nil, err
 	}
 	h, err := history.Parse("history.csv", bytes.NewReader(csv.Bytes()))
 	if err != nil {
-		return nil, nil, err
+		return nil, nil, nil, err
 	}
+	// chart.png: every district (the demo has few), one line each.
 	var png bytes.Buffer
-	opt := chart.Options{Title: fmt.Sprintf("%s: share of each district in drought, %s", capitalize(sc.Name), sc.Window)}
+	opt := chart.Options{Title: fmt.Sprintf("%s: share of each district in drought, %s", capitalize(sc.Name), sc.Window), RegionsLimit: len(h.Regions), Scheme: res.Scheme}
 	if err := chart.Encode(&png, h, opt); err != nil {
-		return nil, nil, err
+		return nil, nil, nil, err
 	}
-	return csv.Bytes(), png.Bytes(), nil
+	// chart-district.png: the district with the highest share in drought
+	// in the target year alone, its bands stacked over the years.
+	worst := demoWorstRegion(h)
+	var one bytes.Buffer
+	opt = chart.Options{Title: fmt.Sprintf("%s: share of the covered area in each band, %s", worst, sc.Window), Region: worst, Scheme: res.Scheme}
+	if err := chart.Encode(&one, h, opt); err != nil {
+		return nil, nil, nil, err
+	}
+	return csv.Bytes(), png.Bytes(), one.Bytes(), nil
+}
+
+// demoWorstRegion is the region with the highest share in drought on the
+// history's last date (the first in the file's order on a tie).
+func demoWorstRegion(h *history.History) string {
+	best, bestPct := h.Regions[0], -1.0
+	last := len(h.Dates) - 1
+	for r, name := range h.Regions {
+		if v := h.InDroughtPct[r][last]; v > bestPct { // NaN never wins
+			best, bestPct = name, v
+		}
+	}
+	return best
 }
 
 // capitalize upper-cases the first letter of a title.

@@ -148,7 +148,8 @@ func TestDemo(t *testing.T) {
 		t.Fatalf("demo: %v\n%s", err, stderr.String())
 	}
 	for _, f := range []string{"index.tif", "bands.tif", "bands.geojson", "stations.geojson",
-		"regions.csv", "regions.json", "map.png", "map.html", "inputs/stations.csv", "inputs/totals.csv", "inputs/index.csv"} {
+		"regions.csv", "regions.json", "map.png", "map.html", "history.csv", "chart.png", "chart-district.png",
+		"inputs/stations.csv", "inputs/totals.csv", "inputs/index.csv"} {
 		if st, err := os.Stat(filepath.Join(out, f)); err != nil || st.Size() == 0 {
 			t.Errorf("demo did not write %s: %v", f, err)
 		}
