@@ -9,8 +9,8 @@
 // parameters, as the caller words them), the caution and the production
 // line (Input.Produced: when made, what it shows, the data's source).
 //
-// Station markers (Options.Stations): in auto mode every station of a
-// sparse network is drawn at full size; on a dense one the markers shrink
+// Station markers (Options.Stations): in auto mode up to FewStations (500)
+// inside the map are all drawn at full size; beyond that the markers shrink
 // (to half size at most) and thin to one per square cell of the map, the
 // station nearest the cell's centre, the cell growing until at most
 // MaxMarkers (2,000) are drawn; the legend then says how many of how many

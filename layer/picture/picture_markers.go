@@ -12,10 +12,10 @@ import (
 type StationMarks string
 
 const (
-	// MarksAuto (the default) marks every station of a sparse network at
-	// full size; on a dense one the markers shrink and thin to one per
-	// square cell of the map (the station nearest the cell's centre), at
-	// most MaxMarkers of them.
+	// MarksAuto (the default) marks every station at full size up to
+	// FewStations inside the map; beyond that the markers shrink and thin
+	// to one per square cell of the map (the station nearest the cell's
+	// centre), at most MaxMarkers of them.
 	MarksAuto StationMarks = "auto"
 	// MarksAll marks every station inside the grid at full size.
 	MarksAll StationMarks = "all"
@@ -34,8 +34,12 @@ func ParseStationMarks(s string) (StationMarks, error) {
 	return "", fmt.Errorf("station markers %q: want auto, all or none", s)
 }
 
-// MaxMarkers bounds the station markers drawn in auto mode, at any width.
-const MaxMarkers = 2000
+// MaxMarkers bounds the station markers drawn in auto mode, at any width;
+// up to FewStations inside the map, auto mode draws them all.
+const (
+	MaxMarkers  = 2000
+	FewStations = 500
+)
 
 // Marker sizes at the reference width of 1400 px: the dot's radius and the
 // light halo around it. Auto mode shrinks both, to at most half, as the
@@ -69,7 +73,8 @@ func (m *picMarks) box(k picMarker, ox, oy int) image.Rectangle {
 
 // chooseMarks picks the markers: every station inside the map for
 // MarksAll, none for MarksNone; for MarksAuto the stations are binned into
-// square cells of at least the marker's width, growing until at most
+// square cells of at least the marker's width (beyond FewStations; up to
+// that every one is kept), growing until at most
 // MaxMarkers cells hold a station, and each cell keeps the station nearest
 // its centre (the first in input order on a tie).
 func (p *picPainter) chooseMarks(mode StationMarks) *picMarks {
@@ -93,7 +98,8 @@ func (p *picPainter) chooseMarks(mode StationMarks) *picMarks {
 		m.list = all
 		return m
 	}
-	if len(all) == 0 {
+	if len(all) <= FewStations {
+		m.list = all
 		return m
 	}
 	// Shrink with the mean spacing of the stations over the map.

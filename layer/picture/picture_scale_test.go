@@ -172,6 +172,15 @@ func TestPictureMarkersBounded(t *testing.T) {
 	if pf.marks.inside < 5 || pf.stationsDrawn() != pf.marks.inside || pf.marks.r != picDotR*pf.s {
 		t.Errorf("few stations: %d of %d drawn, radius %g; want all at full size", pf.stationsDrawn(), pf.marks.inside, pf.marks.r)
 	}
+	in500 := f.input()
+	in500.Stations = picManyStations(f, FewStations)
+	p500, err := picPaint(in500, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if p500.stationsDrawn() != FewStations {
+		t.Errorf("%d stations (a quarter clustered): %d drawn, want all", FewStations, p500.stationsDrawn())
+	}
 	all, err := picPaint(in, Options{Stations: MarksAll})
 	if err != nil {
 		t.Fatal(err)
