@@ -86,13 +86,14 @@ func TestDailyJobYesterday(t *testing.T) {
 		t.Fatal(err)
 	}
 	out := filepath.Join(dir, "out")
-	for _, c := range []struct{ clock, date string }{
-		{"2025-12-01T08:00:00Z", "2025-11-30"},
-		{"2025-12-02T23:59:00Z", "2025-12-01"},
+	for _, c := range []struct{ clock, date, source, made string }{
+		{"2025-12-01T08:00:00Z", "2025-11-30", "", "made 2025-12-01 08:00 UTC · SPI, 30 days ending 2025-11-30"},
+		{"2025-12-02T23:59:59Z", "2025-12-01", "Invented Met Service", "made 2025-12-02 23:59 UTC · SPI, 30 days ending 2025-12-01 · data: Invented Met Service"},
 	} {
 		now, _ := time.Parse(time.RFC3339, c.clock)
 		j := *job
 		j.Clock = func() time.Time { return now }
+		j.Source = c.source
 		res, err := RunJob(context.Background(), j)
 		if err != nil {
 			t.Fatalf("%s: %v", c.clock, err)
@@ -116,6 +117,11 @@ func TestDailyJobYesterday(t *testing.T) {
 		page, _ := os.ReadFile(filepath.Join(out, "map.html"))
 		if want := "drygrid: SPI, 30 days ending " + c.date; !strings.Contains(string(page), want) {
 			t.Errorf("%s: the page does not say %q", c.clock, want)
+		}
+		// The production line: the job's clock (to the minute, UTC), what
+		// the map shows, and the source only when the job names one.
+		if !strings.Contains(string(page), c.made+"</p>") {
+			t.Errorf("%s: the page's production line is not %q", c.clock, c.made)
 		}
 	}
 	hist, err := os.ReadFile(filepath.Join(dir, "history.csv"))

@@ -10,6 +10,7 @@ import (
 
 	"drygrid/grid"
 	"drygrid/interp"
+	"drygrid/layer/picture"
 	"drygrid/manifest"
 	"drygrid/station"
 )
@@ -44,7 +45,14 @@ type Job struct {
 	SimplifyKm float64  // band polygons simplified to this tolerance (0 = exact cell edges)
 	Title      string   // picture and page title ("" = from the kind)
 	Subtitle   string   // picture and page subtitle ("" = from the parameters)
-	Out        string   // output directory, replaced atomically
+	// Source names the data's source in the production line of the picture
+	// and the page ("made ... UTC · SPI, 30 days ending ... · data:
+	// <Source>"); "" leaves it out.
+	Source string
+	// StationsOnMap says which station markers map.png draws: "auto" (""
+	// too: thinned and shrunk on a dense network), "all" or "none".
+	StationsOnMap string
+	Out           string // output directory, replaced atomically
 	// AllowEmpty publishes a map all the same when no station lies inside
 	// the grid or no cell has a value (otherwise an error: an empty map
 	// would read "0.0 % in drought").
@@ -93,7 +101,8 @@ type Job struct {
 	// Note, when not nil, receives one line on each step before the grid
 	// (the index step's figures).
 	Note func(msg string)
-	// Clock, when not nil, is the clock of the manifest's timings.
+	// Clock, when not nil, is the clock of the manifest's timings and of
+	// the time made on the picture and the page.
 	Clock func() time.Time
 
 	// set by the index step
@@ -179,7 +188,7 @@ func (j *Job) Validate() error {
 		return Usagef("--out DIR is required")
 	}
 	for _, check := range []func() error{j.checkRes, j.checkSimplify, j.checkParams, j.checkLayerNames,
-		j.checkHistory, j.checkDate, j.checkRegionsLayer, j.checkBBox} {
+		j.checkHistory, j.checkDate, j.checkRegionsLayer, j.checkBBox, j.checkStationsOnMap} {
 		if err := check(); err != nil {
 			return err
 		}
@@ -212,6 +221,13 @@ func (j *Job) Validate() error {
 func (j *Job) checkRes() error {
 	if !(j.Res > 0 && j.Res <= grid.MaxRes) {
 		return usageAt("--res ", "grid.res", fmt.Sprintf("%g: must be in (0, %d] degrees", j.Res, grid.MaxRes))
+	}
+	return nil
+}
+
+func (j *Job) checkStationsOnMap() error {
+	if _, err := picture.ParseStationMarks(j.StationsOnMap); err != nil {
+		return usageAt("--stations-on-map ", "output.stations_on_map", fmt.Sprintf("%q: must be auto, all or none", j.StationsOnMap))
 	}
 	return nil
 }

@@ -29,6 +29,7 @@ type jobFile struct {
 	Archive  bool   `toml:"archive"`
 	Year     int    `toml:"year"`
 	Title    string `toml:"title"`
+	Source   string `toml:"source"`
 	Inputs   struct {
 		Stations     string   `toml:"stations"`
 		Totals       string   `toml:"totals"`
@@ -72,9 +73,10 @@ type jobFile struct {
 		Key  string `toml:"key"`
 	} `toml:"regions"`
 	Output struct {
-		Dir        string   `toml:"dir"`
-		Layers     []string `toml:"layers"`
-		SimplifyKm float64  `toml:"simplify_km"`
+		Dir           string   `toml:"dir"`
+		Layers        []string `toml:"layers"`
+		SimplifyKm    float64  `toml:"simplify_km"`
+		StationsOnMap string   `toml:"stations_on_map"`
 	} `toml:"output"`
 	History struct {
 		File string `toml:"file"`
@@ -83,14 +85,14 @@ type jobFile struct {
 
 // jobKnownKeys lists the keys of each table, for the unknown-key message.
 var jobKnownKeys = map[string][]string{
-	"":              {"window", "date", "timezone", "archive", "year", "title", "inputs", "index", "grid", "interpolation", "bands", "regions", "output", "history"},
+	"":              {"window", "date", "timezone", "archive", "year", "title", "source", "inputs", "index", "grid", "interpolation", "bands", "regions", "output", "history"},
 	"inputs":        {"stations", "totals", "daily", "windows", "units", "exclude_flags", "min_share", "kind", "value_column", "id_column", "lat_column", "lon_column", "total_column"},
 	"index":         {"ref_start", "ref_end", "min_years", "distribution", "poor_fit"},
 	"grid":          {"res", "bbox", "allow_empty"},
 	"interpolation": {"power", "neighbors", "radius_km", "min_stations", "sectors", "crossval"},
 	"bands":         {"scheme"},
 	"regions":       {"file", "key"},
-	"output":        {"dir", "layers", "simplify_km"},
+	"output":        {"dir", "layers", "simplify_km", "stations_on_map"},
 	"history":       {"file"},
 }
 
@@ -470,6 +472,8 @@ func (p *jobParser) build(f *jobFile, md *toml.MetaData) (*Job, error) {
 		return nil, p.errAt("history.file", "a history needs the job's date (date = \"YYYY-MM-DD\"), the key of each row")
 	}
 	j.Title = f.Title // "" = from the kind, window and date, at run time
+	j.Source = strings.TrimSpace(f.Source)
+	j.StationsOnMap = f.Output.StationsOnMap
 	if err := j.Validate(); err != nil {
 		return nil, p.usage(err)
 	}
@@ -494,6 +498,7 @@ date = "2025-11-30"                     # the run's date, the key of the history
 # archive = true                        # publish into dir/YYYY-MM-DD/, dir/latest -> the newest day
 # year = 2025                           # target year of the totals (default: the date's year)
 # title = "..."                         # picture and page title (default: from kind, window, date)
+# source = "..."                        # the data's source, in the line under the picture and the page
 
 [inputs]
 # With daily records or window totals the index step runs first (percentile and
@@ -546,6 +551,7 @@ key = "name"                            # the property naming each region
 dir = "daily"                           # replaced atomically; files drygrid did not write are kept
 layers = ["index", "bands", "geojson", "stations", "regions", "map", "page"]   # or ["all"]
 # simplify_km = 0.0                     # simplify band polygons (0: exact cell edges)
+# stations_on_map = "auto"              # station markers on map.png: auto (thinned when dense), all, none
 
 [history]
 file = "history.csv"                    # area in drought per region and date, appended (needs date and regions)

@@ -13,6 +13,7 @@ func TestParseJobPaths(t *testing.T) {
 	src := `
 window = "90 days"
 year = 2024
+source = " Invented Met Service "
 [inputs]
 stations = "values/spi.csv"
 [grid]
@@ -23,6 +24,7 @@ key = "code"
 [output]
 dir = "../out"
 layers = ["index", "bands", "regions"]
+stations_on_map = "none"
 `
 	j, err := ParseJobFile(filepath.Join("jobs", "daily", "job.toml"), []byte(src))
 	if err != nil {
@@ -41,6 +43,9 @@ layers = ["index", "bands", "regions"]
 	p := j.Params
 	if j.Res != 0.1 || p.Power != 2 || p.Neighbors != 12 || p.RadiusKm != 300 || p.MinStations != 3 {
 		t.Errorf("defaults res %g params %+v", j.Res, p)
+	}
+	if j.Source != "Invented Met Service" || j.StationsOnMap != "none" {
+		t.Errorf("source %q, stations on map %q", j.Source, j.StationsOnMap)
 	}
 	if b := *j.BBox; b != [4]float64{170, -50, -170, -30} {
 		t.Errorf("bbox %v", b)
@@ -67,6 +72,7 @@ func TestParseJobErrors(t *testing.T) {
 		{"bad kind", "[inputs]\nstations = \"s.csv\"\nkind = \"rain\"\n[output]\ndir = \"o\"\n", "line 3 column 8: inputs.kind"},
 		{"min stations", base + "[interpolation]\nneighbors = 4\nmin_stations = 5\n", "line 7 column 16: interpolation.min_stations"},
 		{"sectors", base + "[interpolation]\nsectors = 3\n", "line 6 column 11: interpolation.sectors"},
+		{"stations on map", base + "stations_on_map = \"some\"\n", `line 5 column 19: output.stations_on_map: "some": must be auto, all or none`},
 		{"key in wrong table", "[inputs]\nstations = \"s.csv\"\nlayers = [\"index\"]\n[output]\ndir = \"o\"\n", `line 3 column 10: unknown key "layers" in [inputs]`},
 		{"bad layer", "[inputs]\nstations = \"s.csv\"\n[output]\ndir = \"o\"\nlayers = [\"maps\"]\n", `line 5 column 10: output.layers: unknown layer "maps"`},
 		{"history without date", base + "[regions]\nfile = \"r.geojson\"\n[history]\nfile = \"h.csv\"\n", "line 8 column 8: history.file: a history needs the job's date"},

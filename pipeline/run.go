@@ -387,7 +387,7 @@ func writeLayers(ctx context.Context, job *Job, res *Result, regions []region.Re
 	stage.SetOptions(publish.Options{Owned: owned(job), Inputs: inputs, Previous: previousOutputs})
 	err := func(dir string) error {
 		writeStart := job.now()
-		w := &layerWriter{job: job, res: res, regions: regions, dir: dir}
+		w := &layerWriter{job: job, res: res, regions: regions, dir: dir, made: start}
 		for _, name := range LayerNames() {
 			if !job.Layers[name] {
 				continue

@@ -22,6 +22,7 @@ type layerWriter struct {
 	res     *Result
 	regions []region.Region
 	dir     string
+	made    time.Time // the run's start: the time made on the picture and the page
 
 	bandsGJ, stationsGJ []byte // encoded once, for the files and the page
 }

@@ -58,15 +58,27 @@ func (w *layerWriter) title() string {
 	return "drygrid: " + w.job.Describe()
 }
 
+// produced is the production line of the picture and the page: when the
+// run started (minutes, UTC), what the map shows and the data's source
+// when the job gives it ("made 2026-12-01 06:00 UTC · SPI, 30 days ending
+// 2026-11-30 · data: Kelverin Met Service (fictitious)").
+func (w *layerWriter) produced() string {
+	parts := []string{"made " + w.made.UTC().Format("2006-01-02 15:04") + " UTC", w.job.Describe()}
+	if src := strings.TrimSpace(w.job.Source); src != "" {
+		parts = append(parts, "data: "+src)
+	}
+	return strings.Join(parts, " · ")
+}
+
 // writePicture writes map.png.
 func (w *layerWriter) writePicture() error {
 	in := picture.Input{Bands: w.res.Bands, Scheme: w.res.Scheme,
-		Title: w.title(), Subtitle: w.subtitle(), Caution: layer.Caution}
+		Title: w.title(), Subtitle: w.subtitle(), Caution: layer.Caution, Produced: w.produced()}
 	in.Stations = picturePoints(w.res.Values)
 	for _, r := range w.regions {
 		in.Regions = append(in.Regions, picture.Region{Name: r.Key, Geom: r.Geom})
 	}
-	return picture.WriteFile(w.path("map.png"), in, picture.Options{})
+	return picture.WriteFile(w.path("map.png"), in, picture.Options{Stations: picture.StationMarks(w.job.StationsOnMap)})
 }
 
 // writePage writes map.html with the layers inline.
@@ -82,7 +94,10 @@ func (w *layerWriter) writePage() error {
 	spec := w.res.Spec
 	in := page.Input{Title: w.title(), Subtitle: w.subtitle(), Caution: layer.Caution,
 		Scheme: w.res.Scheme, BandsGeoJSON: bands, StationsGeoJSON: stations,
-		BBox: [4]float64{spec.West, spec.South(), spec.East(), spec.North}}
+		BBox: [4]float64{spec.West, spec.South(), spec.East(), spec.North}, Produced: w.produced()}
+	if w.job.Layers["stations"] {
+		in.StationsHref = "stations.geojson" // beside map.html: every station when the page shows a subset
+	}
 	if w.job.Regions != "" {
 		b, err := os.ReadFile(w.job.Regions)
 		if err != nil {

@@ -37,6 +37,7 @@ func TestExitCodes(t *testing.T) {
 		{"bad layer", []string{"grid", "--stations", exampleSPI, "--layers", "index,maps", "--out", dir}, exitUsage},
 		{"bad bbox", []string{"grid", "--stations", exampleSPI, "--bbox", "1,2,3", "--out", dir}, exitUsage},
 		{"bad power", []string{"grid", "--stations", exampleSPI, "--power", "0", "--out", dir}, exitUsage},
+		{"bad stations on map", []string{"grid", "--stations", exampleSPI, "--stations-on-map", "some", "--out", dir}, exitUsage},
 		{"bad date", []string{"grid", "--stations", exampleSPI, "--regions", "r.geojson", "--history", "h.csv", "--date", "2025-02-30", "--out", dir}, exitUsage},
 		{"regions layer without regions", []string{"grid", "--stations", exampleSPI, "--layers", "regions", "--out", dir}, exitUsage},
 		{"missing file", []string{"grid", "--stations", filepath.Join(dir, "nope.csv"), "--out", dir}, exitData},

@@ -23,6 +23,8 @@ type gridFlags struct {
 	layers     string
 	simplifyKm float64
 	title      string
+	source     string
+	stationsOn string
 	history    string
 	date       string
 	out        string
@@ -108,6 +110,8 @@ The layers are interpolated estimates, not official drought declarations.`,
 		" (all), and "+strings.Join(pipeline.ExtraLayers, ",")+" only when named (all,support)")
 	fl.Float64Var(&f.simplifyKm, "simplify-km", 0, "simplify band polygons to this tolerance in km (0: exact cell edges)")
 	fl.StringVar(&f.title, "title", "", "title for the picture and the page")
+	fl.StringVar(&f.source, "source", "", "the data's source, named in the production line under the picture and the page (default: left out)")
+	fl.StringVar(&f.stationsOn, "stations-on-map", "auto", "station markers on map.png: auto (every station up to 500; beyond, smaller and thinned to one per map cell, at most 2,000), all, or none")
 	fl.StringVar(&f.history, "history", "", "append the day's region rows to this CSV (with --regions); re-running a date replaces its rows")
 	fl.StringVar(&f.date, "date", "", "the date the values describe, YYYY-MM-DD: in the titles and metadata, and the key of the history rows (history default: today, UTC)")
 	fl.StringVar(&f.out, "out", "", "output directory (required; created if missing)")
@@ -127,7 +131,7 @@ func (f gridFlags) job() (pipeline.Job, error) {
 	j := pipeline.Job{
 		Stations: f.stations, Values: values,
 		Res: f.res, Params: f.params(), Scheme: f.scheme, Regions: f.regions, RegionKey: f.regionKey,
-		SimplifyKm: f.simplifyKm, Title: f.title, Out: f.out,
+		SimplifyKm: f.simplifyKm, Title: f.title, Source: f.source, StationsOnMap: f.stationsOn, Out: f.out,
 		History: f.history, Date: f.date, CrossVal: f.crossval, Command: "grid", AllowEmpty: f.allowEmpty,
 	}
 	layers, layersErr := pipeline.ParseLayers(f.layers)

@@ -5,7 +5,12 @@
 // file, inlined), drawn as SVG by the page's own script with pan and zoom,
 // tooltips for stations and regions, the legend of the bands with their z
 // ranges, the table of regions (area, share covered, share in drought, the
-// share in each band, mean z; sortable) and the caution. Encode(w, in)
+// share in each band, mean z; sortable), the caution and the production
+// line (Input.Produced). A station layer of more than DefaultMaxStations
+// (2,000; Input.MaxStations) is thinned to a deterministic subset, one
+// station per square cell of the map (the one nearest the cell's centre),
+// and the page says how many it shows of how many and links the whole
+// layer (Input.StationsHref, stations.geojson beside the page). Encode(w, in)
 // error writes the page to an io.Writer and WriteFile beside it writes the
 // file through a temporary name renamed at the end.
 //

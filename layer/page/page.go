@@ -43,6 +43,18 @@ type Input struct {
 	// BBox is W, S, E, N of the grid; E exceeds 180 on a grid crossing the
 	// antimeridian (the GeoJSON coordinates are split at 180).
 	BBox [4]float64
+	// Produced is the production line at the foot of the page ("made
+	// 2026-12-01 06:00 UTC · SPI, 30 days ending 2026-11-30 · data: ...");
+	// empty leaves it out.
+	Produced string
+	// MaxStations is the most stations the page carries (0 gives
+	// DefaultMaxStations, 2,000); a larger station layer is thinned to a
+	// deterministic subset and the page says how many it shows.
+	MaxStations int
+	// StationsHref, when set, is the file holding every station (usually
+	// "stations.geojson" beside map.html), linked when the page shows a
+	// subset.
+	StationsHref string
 }
 
 //go:embed assets/page.html
@@ -130,6 +142,10 @@ type pageView struct {
 	Legend                   []pageBand
 	NoDataLabel              string
 	HasStations, HasRegions  bool
+	Produced                 string
+	StationsTotal            string // "500,000" when thinned, else ""
+	StationsShown            string
+	StationsHref             string
 	Drought                  string
 	Rows                     []pageRow
 	Cols                     []pageBand
@@ -159,6 +175,28 @@ func pageData(in Input, extraJS string) (*pageView, error) {
 	}
 	if v.Title == "" {
 		v.Title = "Precipitation index bands"
+	}
+	v.Produced = strings.TrimSpace(in.Produced)
+	limit := in.MaxStations
+	if limit == 0 {
+		limit = DefaultMaxStations
+	}
+	if limit < 0 {
+		return nil, fmt.Errorf("page: MaxStations %d is negative", limit)
+	}
+	stations := in.StationsGeoJSON
+	if len(bytes.TrimSpace(stations)) > 0 {
+		kx := math.Max(math.Cos((b[1]+b[3])/2*math.Pi/180), 0.25)
+		th, err := pageThinStations(stations, limit, b[0], b[2] > 180+1e-9, kx)
+		if err != nil {
+			return nil, fmt.Errorf("page: stations GeoJSON: %w", err)
+		}
+		stations = th.doc
+		if th.shown < th.total {
+			v.StationsTotal = pageGroup(strconv.Itoa(th.total))
+			v.StationsShown = pageGroup(strconv.Itoa(th.shown))
+			v.StationsHref = in.StationsHref
+		}
 	}
 	if v.Caution == "" {
 		v.Caution = layer.Caution
@@ -192,7 +230,7 @@ func pageData(in Input, extraJS string) (*pageView, error) {
 		has  *bool
 	}{
 		{"bands", in.BandsGeoJSON, &v.Bands, nil},
-		{"stations", in.StationsGeoJSON, &v.Stations, &v.HasStations},
+		{"stations", stations, &v.Stations, &v.HasStations},
 		{"regions", in.RegionsGeoJSON, &v.Regions, &v.HasRegions},
 	} {
 		s, err := pageEmbedJSON(l.src)

@@ -68,12 +68,24 @@ func TestPageCSPHashes(t *testing.T) {
 // fragment; the script calls no fetch, XMLHttpRequest, import(), WebSocket,
 // EventSource or sendBeacon.
 func TestPageNoNetworkReferences(t *testing.T) {
-	page := pageEncodeT(t, pageFixtureInput(t, layertest.NewFixture(t, 170, -25, -165, -10, 0.5)))
-	for _, re := range []string{`https?:`, `(src|href|action)\s*=\s*"[^#"]`, `url\(\s*['"]?[^#'"\s]`, `["'(=]\s*//[a-zA-Z0-9]`,
-		`\bfetch\s*\(`, `XMLHttpRequest`, `\bimport\s*\(`, `WebSocket`, `EventSource`, `sendBeacon`, `<link\b`, `<iframe\b`, `<img\b`} {
-		if loc := regexp.MustCompile(re).FindStringIndex(page); loc != nil {
-			lo, hi := max(0, loc[0]-40), min(len(page), loc[1]+40)
-			t.Errorf("page matches %s: ...%s...", re, page[lo:hi])
+	plain := pageEncodeT(t, pageFixtureInput(t, layertest.NewFixture(t, 170, -25, -165, -10, 0.5)))
+	// A page showing a subset of its stations links the whole layer beside
+	// it, the one relative link allowed (a link the reader follows, not a
+	// load: the page renders the same without the file).
+	f := layertest.NewFixture(t, 170, -25, -165, -10, 0.5)
+	in := pageFixtureInput(t, f)
+	in.StationsGeoJSON, in.StationsHref, in.MaxStations = pageManyStations(f, 3000), "stations.geojson", 500
+	thinned := pageEncodeT(t, in)
+	if strings.Count(thinned, `href="stations.geojson"`) != 1 {
+		t.Error("thinned page does not link stations.geojson once")
+	}
+	for _, page := range []string{plain, strings.Replace(thinned, `href="stations.geojson"`, `href="#"`, 1)} {
+		for _, re := range []string{`https?:`, `(src|href|action)\s*=\s*"[^#"]`, `url\(\s*['"]?[^#'"\s]`, `["'(=]\s*//[a-zA-Z0-9]`,
+			`\bfetch\s*\(`, `XMLHttpRequest`, `\bimport\s*\(`, `WebSocket`, `EventSource`, `sendBeacon`, `<link\b`, `<iframe\b`, `<img\b`} {
+			if loc := regexp.MustCompile(re).FindStringIndex(page); loc != nil {
+				lo, hi := max(0, loc[0]-40), min(len(page), loc[1]+40)
+				t.Errorf("page matches %s: ...%s...", re, page[lo:hi])
+			}
 		}
 	}
 }

@@ -4,8 +4,21 @@
 // clearly apart from the near-white "Near normal" band), the stations inside
 // the grid as dots, the region outlines with their names where they fit, a
 // graticule with degree labels, the legend of the bands with their z
-// ranges, the title and subtitle (the date, the window, the index kind and
-// the interpolation parameters, as the caller words them), and the caution.
+// ranges, a scale bar true along the centre parallel (WGS84), the title and
+// subtitle (the date, the window, the index kind and the interpolation
+// parameters, as the caller words them), the caution and the production
+// line (Input.Produced: when made, what it shows, the data's source).
+//
+// Station markers (Options.Stations): in auto mode up to FewStations (500)
+// inside the map are all drawn at full size; beyond that the markers shrink
+// (to half size at most) and thin to one per square cell of the map, the
+// station nearest the cell's centre, the cell growing until at most
+// MaxMarkers (2,000) are drawn; the legend then says how many of how many
+// are shown. "all" draws every station, "none" none. Region names never
+// overlap each other or a marker: each tries positions around its
+// polygon's centroid and is dropped when none is free (over thinned
+// markers, which are a sample already, the markers under a name give way
+// instead).
 // Encode(w, in, opt) error writes the PNG to an io.Writer and WriteFile
 // beside it writes the file through a temporary name renamed at the end.
 //

@@ -36,11 +36,19 @@ type Input struct {
 	Title    string // e.g. "Kelverin Islands (fictitious) - SPI, 30 days ending 30 November 2025"
 	Subtitle string // e.g. "IDW power 2, 12 neighbours, 300 km; 214 stations"
 	Caution  string // the caution line; empty gives drygrid's standard caution
+	// Produced is the production line drawn under the caution, e.g.
+	// "made 2026-12-01 06:00 UTC · SPI, 30 days ending 2026-11-30 · data:
+	// Kelverin Met Service (fictitious)"; empty leaves it out.
+	Produced string
 }
 
 // Options tunes the picture.
 type Options struct {
 	Width int // pixels; 0 gives 1400; 600..4000 accepted
+	// Stations says which station markers are drawn: MarksAuto ("" too)
+	// thins and shrinks them on a dense network (at most MaxMarkers),
+	// MarksAll draws every one, MarksNone none.
+	Stations StationMarks
 }
 
 // WriteFile writes map.png to path atomically (an earlier file survives a
@@ -121,6 +129,11 @@ func picCheck(in Input, opt *Options) error {
 	if opt.Width < 600 || opt.Width > 4000 {
 		return fmt.Errorf("picture: width %d px must be in 600..4000", opt.Width)
 	}
+	m, err := ParseStationMarks(string(opt.Stations))
+	if err != nil {
+		return fmt.Errorf("picture: %w", err)
+	}
+	opt.Stations = m
 	return nil
 }
 
@@ -142,7 +155,7 @@ func picPaint(in Input, opt Options) (*picPainter, error) {
 	if err != nil {
 		return nil, err
 	}
-	p := &picPainter{in: in, faces: faces}
+	p := &picPainter{in: in, faces: faces, marksMode: opt.Stations}
 	p.layout(opt.Width)
 	p.img = image.NewRGBA(image.Rect(0, 0, opt.Width, p.height))
 	p.draw()

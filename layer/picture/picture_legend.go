@@ -2,7 +2,6 @@ package picture
 
 import (
 	"drygrid/layer"
-	"fmt"
 	"image"
 	"image/color"
 	"image/draw"
@@ -41,13 +40,13 @@ func (p *picPainter) legendItems() []picLegendItem {
 	}})
 	gap := true
 	if n := p.stationsDrawn(); n > 0 {
-		items = append(items, picLegendItem{label: picStationLabel(n), gapBefore: gap, swatch: func(dst *image.RGBA, r image.Rectangle) {
+		items = append(items, picLegendItem{label: picStationLabel(n, p.marks.inside), gapBefore: gap, swatch: func(dst *image.RGBA, r image.Rectangle) {
 			z := vector.NewRasterizer(r.Dx(), r.Dy())
 			cx, cy := float64(r.Dx())/2, float64(r.Dy())/2
-			picDisc(z, cx, cy, 4.8*p.s)
+			picDisc(z, cx, cy, p.marks.r+p.marks.halo)
 			z.Draw(dst, r, image.NewUniform(color.RGBA{150, 150, 150, 255}), image.Point{})
 			z.Reset(r.Dx(), r.Dy())
-			picDisc(z, cx, cy, 3.2*p.s)
+			picDisc(z, cx, cy, p.marks.r)
 			z.Draw(dst, r, image.NewUniform(picInk), image.Point{})
 		}})
 		gap = false
@@ -152,6 +151,8 @@ func (p *picPainter) legend(dst *image.RGBA, x, y, w, cols int) int {
 		y += p.px(4)
 	}
 	text(p.fSmall, picMuted, "Equirectangular projection; "+p.graticuleNote()+".", w)
+	y += p.px(8)
+	y += p.scaleBar(dst, x, y, w)
 	return y - y0
 }
 
@@ -172,12 +173,4 @@ func (p *picPainter) rangeText(s string) string {
 		return t
 	}
 	return s
-}
-
-// picStationLabel labels the station symbol with the count drawn.
-func picStationLabel(n int) string {
-	if n == 1 {
-		return "Station (1)"
-	}
-	return fmt.Sprintf("Stations (%d)", n)
 }

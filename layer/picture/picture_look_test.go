@@ -48,17 +48,22 @@ func TestPictureLook(t *testing.T) {
 
 // TestPictureLookShapes writes pictures of a tall and a wide grid (with a
 // title long enough to wrap) to $DRYGRID_PICTURE_OUT (or a temporary
-// directory) and checks their widths.
+// directory) and checks their widths; and the islands with 20,000
+// invented stations, a grid of named regions and a production line.
 func TestPictureLookShapes(t *testing.T) {
 	dir := layertest.LookDir(t, "DRYGRID_PICTURE_OUT")
 	tall := picMakeFixture(t, -76, -56, -66, -17, 0.1)
 	wide := picMakeFixture(t, 60, 5, 160, 15, 0.2)
 	in := wide.input()
+	isl := picMakeFixture(t, 164, -48, 178, -34, 0.1)
+	dense := isl.input()
+	dense.Stations, dense.Regions = picManyStations(isl, 20000), picManyRegions(isl, 6)
+	dense.Produced = "made 2026-12-01 06:00 UTC · SPI, 30 days ending 2026-11-30 · data: Kelverin Met Service (fictitious)"
 	in.Title = "A long title to check wrapping: " + in.Title + " with more words after it to force a second line"
 	for name, c := range map[string]struct {
 		in Input
 		w  int
-	}{"tall.png": {tall.input(), 1200}, "wide.png": {in, 1400}} {
+	}{"tall.png": {tall.input(), 1200}, "wide.png": {in, 1400}, "dense.png": {dense, 1400}} {
 		path := filepath.Join(dir, name)
 		if err := WriteFile(path, c.in, Options{Width: c.w}); err != nil {
 			t.Fatal(err)

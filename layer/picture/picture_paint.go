@@ -40,6 +40,13 @@ type picPainter struct {
 	cautionLines  []string
 	cautionTop    int
 	cautionH      int
+	producedLines []string
+	producedTop   int
+	marksMode     StationMarks
+	marks         *picMarks
+	labels        []picLabel
+	scaleKm       float64 // the scale bar's length in km and in pixels (0: none)
+	scalePx       int
 	noDataCodes   [256]bool
 	lut           [256]color.RGBA
 }
@@ -126,6 +133,10 @@ func (p *picPainter) layout(width int) {
 	}
 	p.lonDec, p.latDec = picDecimals(p.lonStep), picDecimals(p.latStep)
 
+	// Station markers, then the region names around them.
+	p.marks = p.chooseMarks(p.marksMode)
+	p.placeLabels()
+
 	contentBot := l.mapR.Max.Y + p.px(12) + picLineHeight(p.fSmall)
 	contentBot = max(contentBot, p.legendY+p.legend(nil, 0, 0, p.legendW, p.legendCols))
 
@@ -138,6 +149,11 @@ func (p *picPainter) layout(width int) {
 	p.cautionTop = contentBot + p.px(28)
 	p.cautionH = 2*pad + len(p.cautionLines)*picLineHeight(p.fBody)
 	p.height = p.cautionTop + p.cautionH + p.margin
+	if prod := strings.TrimSpace(p.in.Produced); prod != "" {
+		p.producedLines = picWrap(p.fSmall, prod, inner)
+		p.producedTop = p.cautionTop + p.cautionH + p.px(10)
+		p.height = p.producedTop + len(p.producedLines)*picLineHeight(p.fSmall) + p.margin
+	}
 }
 
 // draw paints everything in order, from the background up.
@@ -152,6 +168,11 @@ func (p *picPainter) draw() {
 	p.drawRegionNames()
 	p.legend(p.img, p.legendX, p.legendY, p.legendW, p.legendCols)
 	p.drawCaution()
+	y := p.producedTop
+	for _, ln := range p.producedLines {
+		picDrawText(p.img, p.fSmall, p.margin, y+picAscent(p.fSmall), picMuted, ln)
+		y += picLineHeight(p.fSmall)
+	}
 }
 
 func (p *picPainter) drawHeader() {

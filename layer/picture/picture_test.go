@@ -374,7 +374,7 @@ func TestPictureStationCount(t *testing.T) {
 	if n := p.stationsDrawn(); n != 3 {
 		t.Errorf("stations drawn = %d, want 3 (172.5W twice in two forms, 175E)", n)
 	}
-	if picStationLabel(3) != "Stations (3)" || picStationLabel(1) != "Station (1)" {
+	if picStationLabel(3, 3) != "Stations (3)" || picStationLabel(1, 1) != "Station (1)" || picStationLabel(1990, 20000) != "Stations (1,990 of 20,000 shown)" {
 		t.Error("station legend label")
 	}
 }

@@ -89,48 +89,71 @@ func (p *picPainter) drawRegions() {
 	p.picFill(line, color.NRGBA{20, 20, 20, 235})
 }
 
-// drawStations puts a small dark dot with a light outline at each station
-// inside the grid.
+// drawStations puts a small dark dot with a light outline at each chosen
+// station marker (chooseMarks).
 func (p *picPainter) drawStations() {
-	if len(p.in.Stations) == 0 {
+	m := p.marks
+	if m == nil || len(m.list) == 0 {
 		return
 	}
 	r := p.l.mapR
 	halo := vector.NewRasterizer(r.Dx(), r.Dy())
 	dot := vector.NewRasterizer(r.Dx(), r.Dy())
-	ox, oy := float64(r.Min.X), float64(r.Min.Y)
-	rad := 3.2 * p.s
-	for _, st := range p.in.Stations {
-		x, y := p.l.x(st.Lon)-ox, p.l.y(st.Lat)-oy
-		if !(x >= 0 && y >= 0 && x <= float64(r.Dx()) && y <= float64(r.Dy())) {
-			continue // outside the grid, or not a number
-		}
-		picDisc(halo, x, y, rad+1.6*p.s)
-		picDisc(dot, x, y, rad)
+	for _, k := range m.list {
+		picDisc(halo, k.x, k.y, m.r+m.halo)
+		picDisc(dot, k.x, k.y, m.r)
 	}
 	p.picFill(halo, picWhite)
 	p.picFill(dot, picInk)
 }
 
-// stationsDrawn counts the stations inside the grid, the ones drawn.
+// stationsDrawn counts the station markers drawn.
 func (p *picPainter) stationsDrawn() int {
-	n := 0
-	r := p.l.mapR
-	for _, st := range p.in.Stations {
-		x, y := p.l.x(st.Lon), p.l.y(st.Lat)
-		if x >= float64(r.Min.X) && y >= float64(r.Min.Y) && x <= float64(r.Max.X) && y <= float64(r.Max.Y) {
-			n++
-		}
+	if p.marks == nil {
+		return 0
 	}
-	return n
+	return len(p.marks.list)
 }
 
-// drawRegionNames writes each region's name at the centroid of its largest
-// polygon when the name fits inside that polygon's width and clashes with
-// no name already written.
-func (p *picPainter) drawRegionNames() {
-	var placed []image.Rectangle
+// picLabel is a region name placed on the map: its baseline origin and the
+// box it covers (halo and a small margin included), in image pixels.
+type picLabel struct {
+	name string
+	x, y int
+	box  image.Rectangle
+}
+
+// picLabelTries are the candidate positions of a name, in units of the
+// name's height (dy) and half width (dx), from its polygon's centroid out.
+var picLabelTries = [][2]float64{{0, 0}, {0, -1.2}, {0, 1.2}, {-1, 0}, {1, 0}, {-1, -1.2}, {1, -1.2}, {-1, 1.2}, {1, 1.2}, {0, -2.4}, {0, 2.4}}
+
+// placeLabels decides where each region's name goes: at the first
+// candidate position around the centroid of its largest polygon whose box
+// stays in the map, keeps its centre inside the polygon, overlaps no name
+// already placed and covers no station marker. When markers were thinned
+// (they are a sample already) and no position is free of them, the first
+// position free of other names is taken and the markers under the name are
+// left out. A name that still does not fit, or is wider than 90 % of its
+// polygon, is dropped.
+func (p *picPainter) placeLabels() {
 	f := p.fName
+	asc := picAscent(f)
+	m := p.marks
+	ox, oy := p.l.mapR.Min.X, p.l.mapR.Min.Y
+	var markBoxes []image.Rectangle
+	if m != nil {
+		for _, k := range m.list {
+			markBoxes = append(markBoxes, m.box(k, ox, oy))
+		}
+	}
+	hitsMarker := func(b image.Rectangle) bool {
+		for _, q := range markBoxes {
+			if q.Overlaps(b) {
+				return true
+			}
+		}
+		return false
+	}
 	for _, reg := range p.in.Regions {
 		if reg.Name == "" || len(reg.Geom) == 0 {
 			continue
@@ -152,24 +175,70 @@ func (p *picPainter) drawRegionNames() {
 		if float64(tw) > wpx*0.9 {
 			continue
 		}
-		x := int(math.Round(p.l.x(c[0]))) - tw/2
-		y := int(math.Round(p.l.y(c[1])))
-		asc := picAscent(f)
-		box := image.Rect(x-3, y-asc-3, x+tw+3, y+asc/3+3)
-		if !box.In(p.l.mapR) {
+		cx, cy := p.l.x(c[0]), p.l.y(c[1])
+		if math.IsNaN(cx) || math.IsNaN(cy) || math.IsInf(cx, 0) || math.IsInf(cy, 0) {
 			continue
 		}
-		clash := false
-		for _, q := range placed {
-			if q.Overlaps(box) {
-				clash = true
+		h := float64(asc + asc/3)
+		var free, clear *picLabel
+		for _, t := range picLabelTries {
+			mx, my := cx+t[0]*float64(tw)/2, cy+t[1]*h
+			if t != [2]float64{0, 0} && !planar.PolygonContains(poly, orb.Point{p.lonOf(mx), p.latOf(my)}) {
+				continue
+			}
+			x, y := int(math.Round(mx))-tw/2, int(math.Round(my))
+			lb := &picLabel{name: reg.Name, x: x, y: y + asc/3, box: image.Rect(x-3, y-asc-3, x+tw+3, y+asc/3+3)}
+			if !lb.box.In(p.l.mapR) || p.labelClash(lb.box) {
+				continue
+			}
+			if clear == nil {
+				clear = lb
+			}
+			if !hitsMarker(lb.box) {
+				free = lb
 				break
 			}
 		}
-		if clash {
-			continue
+		if free == nil && clear != nil && m != nil && m.cell > 0 {
+			free = clear
+			keep := m.list[:0]
+			kb := markBoxes[:0]
+			for i, k := range m.list {
+				if !markBoxes[i].Overlaps(free.box) {
+					keep = append(keep, k)
+					kb = append(kb, markBoxes[i])
+				}
+			}
+			m.list, markBoxes = keep, kb
 		}
-		placed = append(placed, box)
-		picDrawHalo(p.img, f, x, y+asc/3, picInk, color.RGBA{255, 255, 255, 255}, reg.Name)
+		if free != nil {
+			p.labels = append(p.labels, *free)
+		}
+	}
+}
+
+// labelClash reports whether box overlaps a name already placed.
+func (p *picPainter) labelClash(box image.Rectangle) bool {
+	for _, q := range p.labels {
+		if q.box.Overlaps(box) {
+			return true
+		}
+	}
+	return false
+}
+
+// lonOf and latOf invert x and y (image pixels to degrees).
+func (p *picPainter) lonOf(x float64) float64 {
+	return p.l.west + (x-float64(p.l.mapR.Min.X))/float64(p.l.mapR.Dx())*p.l.lonSpan
+}
+
+func (p *picPainter) latOf(y float64) float64 {
+	return p.l.north - (y-float64(p.l.mapR.Min.Y))/float64(p.l.mapR.Dy())*p.l.latSpan
+}
+
+// drawRegionNames writes the names placed by placeLabels, with a halo.
+func (p *picPainter) drawRegionNames() {
+	for _, lb := range p.labels {
+		picDrawHalo(p.img, p.fName, lb.x, lb.y, picInk, color.RGBA{255, 255, 255, 255}, lb.name)
 	}
 }
