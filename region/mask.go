@@ -94,7 +94,13 @@ var ErrMaskOutside = errors.New("the mask does not reach the grid")
 func NewMask(s grid.Spec, regions []Region) (*Mask, error) {
 	m := &Mask{spec: s}
 	polygons := 0
-	for _, r := range regions {
+	var all orb.Bound
+	for i, r := range regions {
+		if i == 0 {
+			all = r.Geom.Bound()
+		} else {
+			all = all.Union(r.Geom.Bound())
+		}
 		f := maskFeature{c0: s.Cols, c1: -1, ymin: math.Inf(1), ymax: math.Inf(-1)}
 		for _, p := range r.Geom {
 			if len(p) == 0 {
@@ -125,7 +131,8 @@ func NewMask(s grid.Spec, regions []Region) (*Mask, error) {
 		return nil, errors.New("the mask holds no polygon")
 	}
 	if len(m.features) == 0 {
-		return nil, fmt.Errorf("%w (%s)", ErrMaskOutside, s)
+		return nil, fmt.Errorf("%w: its polygons span longitude %g to %g, latitude %g to %g, the grid is %s",
+			ErrMaskOutside, all.Min[0], all.Max[0], all.Min[1], all.Max[1], s)
 	}
 	return m, nil
 }
