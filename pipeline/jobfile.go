@@ -535,7 +535,7 @@ res = 0.05                              # cell size in degrees
 bbox = [-128.0, -45.0, -116.0, -38.0]   # W, S, E, N; W > E crosses the antimeridian
                                         # (default: the stations' extent widened by radius_km)
 # allow_empty = false                   # true: publish a map with no station inside or no covered cell
-# mask = "inputs/coast.geojson"         # polygons (land, a country): cells wholly outside are no data, edge
+mask = "inputs/coast.geojson"           # polygons (land, a country): cells wholly outside are no data, edge
                                         # cells count by their exact share inside; "regions": the regions' union
 
 [interpolation]
