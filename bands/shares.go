@@ -56,9 +56,15 @@ func (s *Shares) InDroughtPct(sch *Scheme) (float64, bool) {
 // WGS84 ellipsoid: the same sums in the same order whether the rows come
 // streamed or from a band raster in memory. The cells of a row have one
 // area, so a row adds its count of each code times that area.
+//
+// AddWeighted tallies rows whose cells count only in part (the share of
+// each cell inside a mask): each cell's area is weighted, so that AreaKm2
+// is the area of the mask within the grid and the band areas sum to the
+// covered part of it.
 type Tally struct {
 	Shares
-	Cells int // covered cells
+	Cells  int // covered cells
+	Inside int // cells with a weight above 0 (AddWeighted only)
 
 	areas []float64
 	cols  int
@@ -84,6 +90,44 @@ func (t *Tally) Add(row0, n int, codes []uint8) {
 		for c := 1; c < len(count); c++ {
 			if count[c] > 0 {
 				t.CodeKm2[c] += a * float64(count[c])
+			}
+		}
+	}
+}
+
+// AddWeighted tallies the rows from row0 whose band codes are codes (a
+// whole number of rows), each cell's area weighted by weights[i], its
+// share in [0, 1] inside a mask: the area is that of the cells' weighted
+// parts, and a cell with weight 0 counts nowhere (its code should be 0).
+// Within a row the weights are summed per code, in column order, and the
+// sums multiplied by the row's cell area.
+func (t *Tally) AddWeighted(row0 int, codes []uint8, weights []float64) {
+	var sum [256]float64
+	n := len(codes) / t.cols
+	for r := range n {
+		sum = [256]float64{}
+		row := codes[r*t.cols : (r+1)*t.cols]
+		wts := weights[r*t.cols : (r+1)*t.cols]
+		all, covered := 0.0, 0.0
+		for i, c := range row {
+			w := wts[i]
+			if w <= 0 {
+				continue
+			}
+			all += w
+			sum[c] += w
+			t.Inside++
+			if c != 0 {
+				t.Cells++
+				covered += w
+			}
+		}
+		a := t.areas[row0+r]
+		t.AreaKm2 += a * all
+		t.CoveredKm2 += a * covered
+		for c := 1; c < len(sum); c++ {
+			if sum[c] > 0 {
+				t.CodeKm2[c] += a * sum[c]
 			}
 		}
 	}

@@ -21,7 +21,9 @@ import (
 const demoHistoryYears = 10
 
 // DemoJob prepares the demo: it writes the invented scenario's inputs into
-// out/inputs (stations, daily records, districts), computes the window
+// out/inputs (stations, daily records, districts, the islands' invented
+// coastlines in coast.geojson, the job's mask: the map shows land only),
+// computes the window
 // totals from the daily records into out/inputs/totals.csv, runs the index
 // step on them into out/inputs/index.csv, and computes, in memory, the history of
 // area in drought per district over the last ten target years and its
@@ -43,6 +45,7 @@ func DemoJob(ctx context.Context, out string, note func(string)) (Job, error) {
 	dailyCSV := filepath.Join(in, "daily.csv.gz")
 	totalsCSV := filepath.Join(in, "totals.csv")
 	districts := filepath.Join(in, "districts.geojson")
+	coast := filepath.Join(in, "coast.geojson")
 	if err := writeStream(stationsCSV, sc.WriteStationsCSV); err != nil {
 		return Job{}, err
 	}
@@ -63,6 +66,9 @@ func DemoJob(ctx context.Context, out string, note func(string)) (Job, error) {
 		return Job{}, err
 	}
 	if err := writeStream(districts, func(w io.Writer) error { return writeDemoDistricts(w, sc.BBox) }); err != nil {
+		return Job{}, err
+	}
+	if err := writeStream(coast, sc.WriteCoastGeoJSON); err != nil {
 		return Job{}, err
 	}
 	note(fmt.Sprintf("demo: %s, %d invented stations, target year %d (%s)", sc.Name, len(sc.Sites), sc.TargetYear, sc.Window))
@@ -88,6 +94,7 @@ func DemoJob(ctx context.Context, out string, note func(string)) (Job, error) {
 		BBox:     &sc.BBox,
 		Params:   interp.DefaultParams(),
 		Regions:  districts, RegionKey: "name",
+		Mask:   coast,
 		Layers: layers,
 		Title:  fmt.Sprintf("%s: SPI, %d days ending %s", capitalize(sc.Name), scenario.DailyWindow, scenario.DailyTarget),
 		Out:    out,

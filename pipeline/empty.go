@@ -46,10 +46,18 @@ func checkInside(job *Job, vals *station.Values, spec grid.Spec, pts []interp.Po
 // checkCovered refuses a grid with no covered cell, once the band shares
 // are tallied.
 func checkCovered(job *Job, res *Result) error {
+	if res.mask != nil && res.tally.Inside == 0 {
+		return fmt.Errorf("mask %s covers no cell of the grid (%s): its polygons reach the grid's box but no cell, so every cell would be no data; check the bbox (--bbox, [grid] bbox) and the mask's polygons",
+			job.Mask, res.Spec)
+	}
 	if job.AllowEmpty || res.CoveredCells > 0 {
 		return nil
 	}
 	p := job.Params
+	if res.mask != nil {
+		return fmt.Errorf("no cell of the grid (%s) inside the mask %s has a value: every such cell has fewer than %d stations (min stations) within %g km (the search radius), so the map would be empty and read 0.0 %% in drought; lower the min stations, widen the radius or check the mask. %s",
+			res.Spec, job.Mask, p.MinStations, p.RadiusKm, allowEmptyHint)
+	}
 	return fmt.Errorf("no cell of the grid (%s) has a value: every cell has fewer than %d stations (min stations) within %g km (the search radius), so the map would be empty and read 0.0 %% in drought; lower the min stations or widen the radius. %s",
 		res.Spec, p.MinStations, p.RadiusKm, allowEmptyHint)
 }

@@ -40,6 +40,13 @@ type Job struct {
 	Scheme    string // band scheme file; "" = the default bands
 	Regions   string // regions GeoJSON, for area in drought per region
 	RegionKey string // the feature property naming a region ("" = id, then name)
+	// Mask, when set, is a GeoJSON file of polygons (land, a country, the
+	// districts) outside which cells are no data, or MaskRegions for the
+	// union of the regions. A cell is inside when any part of it is (its
+	// share inside above 0); cells on the mask's edge keep their value,
+	// and their areas count by their exact share inside in the band shares,
+	// the summary and the manifest.
+	Mask string
 
 	Layers     LayerSet // the layers written (see AllLayers)
 	SimplifyKm float64  // band polygons simplified to this tolerance (0 = exact cell edges)
@@ -188,7 +195,7 @@ func (j *Job) Validate() error {
 		return Usagef("--out DIR is required")
 	}
 	for _, check := range []func() error{j.checkRes, j.checkSimplify, j.checkParams, j.checkLayerNames,
-		j.checkHistory, j.checkDate, j.checkRegionsLayer, j.checkBBox, j.checkStationsOnMap} {
+		j.checkHistory, j.checkDate, j.checkRegionsLayer, j.checkBBox, j.checkStationsOnMap, j.checkMask} {
 		if err := check(); err != nil {
 			return err
 		}
@@ -287,6 +294,17 @@ func (j *Job) checkDate() error {
 func (j *Job) checkRegionsLayer() error {
 	if j.Layers["regions"] && j.Regions == "" {
 		return &UsageError{Msg: "--layers regions needs --regions FILE.geojson", Key: "output.layers", Detail: "layer regions needs [regions] file"}
+	}
+	return nil
+}
+
+// MaskRegions as Job.Mask masks the grid to the union of the regions.
+const MaskRegions = "regions"
+
+func (j *Job) checkMask() error {
+	if j.Mask == MaskRegions && j.Regions == "" {
+		return &UsageError{Msg: "--mask regions needs --regions FILE.geojson (or give --mask the file of the mask's polygons)",
+			Key: "grid.mask", Detail: "\"regions\" needs [regions] file (or give the file of the mask's polygons)"}
 	}
 	return nil
 }

@@ -56,6 +56,7 @@ type jobFile struct {
 		Res        float64   `toml:"res"`
 		BBox       []float64 `toml:"bbox"`
 		AllowEmpty bool      `toml:"allow_empty"`
+		Mask       string    `toml:"mask"`
 	} `toml:"grid"`
 	Interp struct {
 		Power       float64 `toml:"power"`
@@ -88,7 +89,7 @@ var jobKnownKeys = map[string][]string{
 	"":              {"window", "date", "timezone", "archive", "year", "title", "source", "inputs", "index", "grid", "interpolation", "bands", "regions", "output", "history"},
 	"inputs":        {"stations", "totals", "daily", "windows", "units", "exclude_flags", "min_share", "kind", "value_column", "id_column", "lat_column", "lon_column", "total_column"},
 	"index":         {"ref_start", "ref_end", "min_years", "distribution", "poor_fit"},
-	"grid":          {"res", "bbox", "allow_empty"},
+	"grid":          {"res", "bbox", "allow_empty", "mask"},
 	"interpolation": {"power", "neighbors", "radius_km", "min_stations", "sectors", "crossval"},
 	"bands":         {"scheme"},
 	"regions":       {"file", "key"},
@@ -435,6 +436,14 @@ func (p *jobParser) build(f *jobFile, md *toml.MetaData) (*Job, error) {
 	if f.Regions.Key != "" && j.Regions == "" {
 		return nil, p.errAt("regions.key", "needs [regions] file")
 	}
+	if f.Grid.Mask == MaskRegions {
+		j.Mask = MaskRegions
+	} else if j.Mask, err = p.path("grid.mask", f.Grid.Mask, md); err != nil {
+		return nil, err
+	}
+	if err := j.checkMask(); err != nil {
+		return nil, p.usage(err)
+	}
 	if f.Output.Dir == "" {
 		if def("output.dir") {
 			return nil, p.errAt("output.dir", "empty path")
@@ -531,6 +540,8 @@ res = 0.05                              # cell size in degrees
 bbox = [-128.0, -45.0, -116.0, -38.0]   # W, S, E, N; W > E crosses the antimeridian
                                         # (default: the stations' extent widened by radius_km)
 # allow_empty = false                   # true: publish a map with no station inside or no covered cell
+mask = "inputs/coast.geojson"           # polygons (land, a country): cells wholly outside are no data, edge
+                                        # cells count by their exact share inside; "regions": the regions' union
 
 [interpolation]
 power = 2.0                             # IDW weights distance^-power

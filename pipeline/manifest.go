@@ -22,7 +22,11 @@ func buildManifest(job *Job, res *Result, dir string, start time.Time) (*manifes
 		}
 		inputs = append(inputs, f)
 	}
-	for _, in := range [][2]string{{job.Scheme, "scheme"}, {job.Regions, "regions"}} {
+	mask := job.Mask
+	if mask == MaskRegions {
+		mask = "" // the regions file is an input already
+	}
+	for _, in := range [][2]string{{job.Scheme, "scheme"}, {job.Regions, "regions"}, {mask, "mask"}} {
 		if in[0] == "" {
 			continue
 		}
@@ -56,6 +60,9 @@ func buildManifest(job *Job, res *Result, dir string, start time.Time) (*manifes
 		"sectors": p.Sectors, "scheme": res.Scheme.Name, "region_key": job.RegionKey,
 		"layers": strings.Split(job.Layers.String(), ","), "simplify_km": job.SimplifyKm,
 	}
+	if job.Mask != "" {
+		params["mask"] = job.Mask
+	}
 	for k, v := range job.ExtraParams {
 		params[k] = v
 	}
@@ -78,6 +85,9 @@ func buildManifest(job *Job, res *Result, dir string, start time.Time) (*manifes
 		"stations_read": res.Values.Read, "stations_used": len(res.Values.Stations),
 		"stations_rejected": rejected, "station_warnings": len(res.Values.Warnings),
 		"cells": res.Spec.Len(), "cells_covered": covered, "regions": len(res.Regions),
+	}
+	if res.mask != nil {
+		counts["mask"] = maskFigures(res)
 	}
 	for k, v := range job.ExtraCounts {
 		counts[k] = v

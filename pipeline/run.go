@@ -8,6 +8,7 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 	"time"
 	"unicode/utf8"
@@ -41,8 +42,15 @@ type Result struct {
 	// of the grid's area, BandPct each band's share of the covered area
 	// (by band code) and InDroughtPct that of the drought bands, all in
 	// percent, cells weighted by their area on the ellipsoid.
+	//
+	// With Job.Mask the area is the mask's within the grid: CoveredPct is
+	// of that area, and every share counts each cell by its share inside
+	// the mask; MaskCells are the cells with a share inside (cells outside
+	// are no data) and MaskKm2 the mask's area within the grid.
 	CoveredCells int
 	CoveredPct   float64
+	MaskCells    int
+	MaskKm2      float64
 	BandPct      map[uint8]float64
 	InDroughtPct float64
 
@@ -60,6 +68,7 @@ type Result struct {
 	rows  func(row0, n int, dst []float32) error // streams the index rows (Index and Bands nil)
 	tally *bands.Tally
 	ip    *interp.Interpolator // for SupportRows
+	mask  *cellMask // with Job.Mask
 }
 
 // SupportRows fills rows row0 .. row0+n-1 of the run's grid (Spec) with
@@ -86,6 +95,7 @@ type HistoryRows struct {
 type inputs struct {
 	scheme  *bands.Scheme
 	regions []region.Region
+	mask    []region.Region // the mask's polygons (Job.Mask)
 }
 
 // Run runs the job: the index step (with Job.Index), reading the
@@ -175,6 +185,11 @@ func compute(ctx context.Context, job *Job, stream bool) (*Result, *inputs, time
 	if err := checkInside(job, vals, spec, pts); err != nil {
 		return nil, nil, start, err
 	}
+	mask, err := newCellMask(job, in, spec)
+	if err != nil {
+		return nil, nil, start, err
+	}
+	res.mask = mask
 	ip, err := interp.New(pts, job.Params)
 	if err != nil {
 		return nil, nil, start, err
@@ -201,19 +216,29 @@ func compute(ctx context.Context, job *Job, stream bool) (*Result, *inputs, time
 		}
 	} else {
 		index := grid.NewFloat32(spec, grid.NoDataIndex)
+		var codes []uint8 // a block's band codes, for the mask's tally
 		for row0 := 0; row0 < spec.Rows; row0 += rowBlock {
 			if err := ctx.Err(); err != nil {
 				return nil, nil, start, err
 			}
 			n := min(rowBlock, spec.Rows-row0)
-			if err := ip.Rows(spec, row0, n, index.Data[row0*spec.Cols:(row0+n)*spec.Cols]); err != nil {
+			block := index.Data[row0*spec.Cols : (row0+n)*spec.Cols]
+			if err := ip.Rows(spec, row0, n, block); err != nil {
 				return nil, nil, start, err
+			}
+			if mask != nil {
+				codes = slices.Grow(codes[:0], len(block))[:len(block)]
+				mask.apply(row0, n, block, codes)
 			}
 			progress(row0 + n)
 		}
 		res.Index, res.Bands = index, bands.NewClassifier(in.scheme).Raster(index)
-		res.tally = bands.NewTally(spec)
-		res.tally.Add(0, spec.Rows, res.Bands.Data)
+		if mask != nil {
+			res.tally = mask.tally
+		} else {
+			res.tally = bands.NewTally(spec)
+			res.tally.Add(0, spec.Rows, res.Bands.Data)
+		}
 		res.shares()
 		if err := checkCovered(job, &res); err != nil {
 			return nil, nil, start, err
@@ -243,6 +268,9 @@ func (r *Result) shares() {
 		r.BandPct[b.Code], _ = t.BandPct(b.Code)
 	}
 	r.InDroughtPct, _ = t.InDroughtPct(r.Scheme)
+	if r.mask != nil {
+		r.MaskCells, r.MaskKm2 = t.Inside, t.AreaKm2
+	}
 }
 
 // now is the job's clock.
@@ -269,6 +297,9 @@ func readInputs(job *Job) (*inputs, error) {
 			return nil, regionsErrPos(job.Regions, err)
 		}
 		in.regions = r
+	}
+	if err := readMask(job, in); err != nil {
+		return nil, err
 	}
 	return in, nil
 }
@@ -375,6 +406,9 @@ func previousOutputs(dir string) []string {
 // job.Out once all are written (the stage stays locked until closed).
 func writeLayers(ctx context.Context, job *Job, res *Result, regions []region.Region, start time.Time, stage *publish.Stage) error {
 	inputs := []string{job.Scheme, job.Regions}
+	if job.Mask != "" && job.Mask != MaskRegions {
+		inputs = append(inputs, job.Mask)
+	}
 	if job.StationsData == nil {
 		inputs = append(inputs, job.Stations)
 	}

@@ -32,6 +32,10 @@ func (w *layerWriter) writeStreamed(name string, opt geotiff.Options) error {
 			scratch = slices.Grow(scratch[:0], len(index))[:len(index)]
 			codes = scratch
 		}
+		if m := w.res.mask; m != nil { // cells outside no data, edge cells weighted
+			m.apply(row0, n, index, codes)
+			return nil
+		}
 		c.Row(codes, index, grid.NoDataIndex)
 		t.Add(row0, n, codes)
 		return nil
@@ -41,6 +45,9 @@ func (w *layerWriter) writeStreamed(name string, opt geotiff.Options) error {
 		return err
 	}
 	w.res.tally = t
+	if w.res.mask != nil {
+		w.res.tally = w.res.mask.tally
+	}
 	w.res.shares()
 	return nil
 }

@@ -115,13 +115,16 @@ func covSnapped(v float64) float64 {
 	return v
 }
 
-// polygon adds the shares of one polygon shifted by dlon degrees.
-func (c *covWork) polygon(s grid.Spec, p orb.Polygon, dlon float64, out []CellWeight) []CellWeight {
+// covPrepare maps polygon p, shifted by dlon degrees, into grid units of s
+// (columns from the west, strips from the south, snapped to cell edges
+// within covSnap), appending its rings (open, of 3 or more positions) and
+// their latitude ranges to rings, ylo and yhi; c0..c1 and j0..j1 are the
+// columns and strips it may cover, ymin..ymax its latitude range, and ok
+// false when it covers no cell.
+func covPrepare(s grid.Spec, p orb.Polygon, dlon float64, rings [][]covPt, ylo, yhi []float64) (_ [][]covPt, _, _ []float64, c0, c1, j0, j1 int, ymin, ymax float64, ok bool) {
 	south := s.South()
-	c.rings = c.rings[:0]
-	c.ylo, c.yhi = c.ylo[:0], c.yhi[:0]
 	xmin, xmax := math.Inf(1), math.Inf(-1)
-	ymin, ymax := math.Inf(1), math.Inf(-1)
+	ymin, ymax = math.Inf(1), math.Inf(-1)
 	for _, ring := range p {
 		pts := make([]covPt, 0, len(ring))
 		lo, hi := math.Inf(1), math.Inf(-1)
@@ -138,18 +141,26 @@ func (c *covWork) polygon(s grid.Spec, p orb.Polygon, dlon float64, out []CellWe
 			continue
 		}
 		ymin, ymax = math.Min(ymin, lo), math.Max(ymax, hi)
-		c.rings = append(c.rings, pts)
-		c.ylo, c.yhi = append(c.ylo, lo), append(c.yhi, hi)
+		rings = append(rings, pts)
+		ylo, yhi = append(ylo, lo), append(yhi, hi)
 	}
-	if len(c.rings) == 0 {
-		return out
+	if len(rings) == 0 {
+		return rings, ylo, yhi, 0, -1, 0, -1, ymin, ymax, false
 	}
 	// Window of cells: columns c0..c1, strips j0..j1 counted from the south.
-	c0 := max(0, int(math.Floor(xmin)))
-	c1 := min(s.Cols-1, int(math.Ceil(xmax))-1)
-	j0 := max(0, int(math.Floor(ymin)))
-	j1 := min(s.Rows-1, int(math.Ceil(ymax))-1)
-	if c0 > c1 || j0 > j1 {
+	c0 = max(0, int(math.Floor(xmin)))
+	c1 = min(s.Cols-1, int(math.Ceil(xmax))-1)
+	j0 = max(0, int(math.Floor(ymin)))
+	j1 = min(s.Rows-1, int(math.Ceil(ymax))-1)
+	return rings, ylo, yhi, c0, c1, j0, j1, ymin, ymax, c0 <= c1 && j0 <= j1
+}
+
+// polygon adds the shares of one polygon shifted by dlon degrees.
+func (c *covWork) polygon(s grid.Spec, p orb.Polygon, dlon float64, out []CellWeight) []CellWeight {
+	var c0, c1, j0, j1 int
+	var ok bool
+	c.rings, c.ylo, c.yhi, c0, c1, j0, j1, _, _, ok = covPrepare(s, p, dlon, c.rings[:0], c.ylo[:0], c.yhi[:0])
+	if !ok {
 		return out
 	}
 	w := c1 - c0 + 1

@@ -65,6 +65,12 @@ func ReadRegions(path, key string) ([]Region, error) {
 // from 179.5 to -179.5 is refused: read literally its edge runs the long way
 // round the Earth, which nobody means.
 func ParseRegions(name string, data []byte, key string) ([]Region, error) {
+	return parseRegions(name, data, key, false)
+}
+
+// parseRegions is ParseRegions; a mask's features (ParseMask) need no name
+// and may share one.
+func parseRegions(name string, data []byte, key string, mask bool) ([]Region, error) {
 	if bytes.HasPrefix(data, utf8BOM) {
 		// Blanks in place of the mark keep syntax error offsets true to the
 		// file.
@@ -107,14 +113,14 @@ func ParseRegions(name string, data []byte, key string) ([]Region, error) {
 			return nil, fmt.Errorf("regions %s: the FeatureCollection has no features", name)
 		}
 		for i, raw := range list {
-			r, err := regParseFeature(name, i, raw, key)
+			r, err := regParseFeature(name, i, raw, key, mask)
 			if err != nil {
 				return nil, err
 			}
 			out = append(out, r)
 		}
 	case "Feature":
-		r, err := regParseFeature(name, 0, top, key)
+		r, err := regParseFeature(name, 0, top, key, mask)
 		if err != nil {
 			return nil, err
 		}
@@ -131,6 +137,9 @@ func ParseRegions(name string, data []byte, key string) ([]Region, error) {
 		out = append(out, r)
 	default:
 		return nil, fmt.Errorf("regions %s: GeoJSON type %q is not a FeatureCollection, Feature, Polygon or MultiPolygon", name, typ)
+	}
+	if mask {
+		return out, nil
 	}
 	seen := make(map[string]int, len(out))
 	for _, r := range out {
@@ -192,7 +201,7 @@ func regType(obj map[string]json.RawMessage) (string, error) {
 	return s, nil
 }
 
-func regParseFeature(name string, i int, raw json.RawMessage, key string) (Region, error) {
+func regParseFeature(name string, i int, raw json.RawMessage, key string, mask bool) (Region, error) {
 	obj, err := regObject(raw)
 	if err != nil {
 		return Region{}, fmt.Errorf("regions %s feature %d is %s, not a Feature object", name, i, regKind(raw))
@@ -214,6 +223,9 @@ func regParseFeature(name string, i int, raw json.RawMessage, key string) (Regio
 		}
 	}
 	k, err := regKey(obj["id"], props, key)
+	if err != nil && mask {
+		k, err = "#"+strconv.Itoa(i), nil // a mask's feature needs no name
+	}
 	if err != nil {
 		return Region{}, fmt.Errorf("regions %s feature %d: %w", name, i, err)
 	}

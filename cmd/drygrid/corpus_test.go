@@ -107,6 +107,8 @@ func TestBadInputCorpus(t *testing.T) {
 				args = []string{"index", "--totals", "../../testdata/index/totals.csv", "--stations", p, "--out", filepath.Join(out, "i.csv")}
 			case "regions":
 				args = []string{"grid", "--stations", exampleSPI, "--regions", p, "--layers", "index", "--out", out}
+			case "mask":
+				args = []string{"grid", "--stations", exampleSPI, "--mask", p, "--layers", "index", "--out", out}
 			case "scheme":
 				args = []string{"grid", "--stations", exampleSPI, "--scheme", p, "--layers", "index", "--out", out}
 			case "job":

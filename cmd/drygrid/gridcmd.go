@@ -20,6 +20,7 @@ type gridFlags struct {
 	scheme     string
 	regions    string
 	regionKey  string
+	mask       string
 	layers     string
 	simplifyKm float64
 	title      string
@@ -66,6 +67,14 @@ every layer is complete, so a failed run leaves the previous layers untouched (t
 of --out must be writable, and an existing --out not read-only). Files of your own in --out
 are kept. A second run on the same --out stops at once while the first is running.
 
+--mask FILE (GeoJSON Polygon/MultiPolygon features: land, a country, districts; read and
+checked as --regions is, features need no name) makes cells wholly outside its polygons no
+data in every layer; --mask regions uses the union of the --regions file. A cell is inside
+when any part of it is (its share inside above 0): cells on the mask's edge keep their
+value, and their areas count by their exact share inside (on the WGS84 ellipsoid) in the
+band shares, the summary and the manifest. Features should not overlap (a cell's share is
+at most 1). A mask that reaches no cell of the grid is refused.
+
 A grid holding none of the stations (a bbox with west and east swapped is a grid across the
 antimeridian), or whose cells all lack a value, is refused rather than published as an empty
 map reading "0.0 % in drought"; --allow-empty publishes it all the same.
@@ -79,7 +88,10 @@ The layers are interpolated estimates, not official drought declarations.`,
       --res 0.05 --layers index,bands --out layers/
 
   # area in drought per district
-  drygrid grid --stations spi.csv --regions districts.geojson --region-key name --out layers/`,
+  drygrid grid --stations spi.csv --regions districts.geojson --region-key name --out layers/
+
+  # land only: cells outside the coast are no data, coastal cells weighted by their land share
+  drygrid grid --stations spi.csv --mask land.geojson --out layers/`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
 			job, err := f.job()
@@ -106,6 +118,7 @@ The layers are interpolated estimates, not official drought declarations.`,
 	fl.StringVar(&f.scheme, "scheme", "", "band scheme file (TOML; default: the nine built-in bands; see 'drygrid scheme --example')")
 	fl.StringVar(&f.regions, "regions", "", "regions GeoJSON (Polygon/MultiPolygon features) for area-in-drought statistics")
 	fl.StringVar(&f.regionKey, "region-key", "", "feature property naming each region (default: id, then name)")
+	fl.StringVar(&f.mask, "mask", "", "GeoJSON polygons outside which cells are no data (a cell is inside when its share inside is above 0; edge cells count by their share); \"regions\": the union of --regions")
 	fl.StringVar(&f.layers, "layers", "all", "layers to write: "+strings.Join(pipeline.AllLayers, ",")+
 		" (all), and "+strings.Join(pipeline.ExtraLayers, ",")+" only when named (all,support)")
 	fl.Float64Var(&f.simplifyKm, "simplify-km", 0, "simplify band polygons to this tolerance in km (0: exact cell edges)")
@@ -130,7 +143,7 @@ func (f gridFlags) job() (pipeline.Job, error) {
 	}
 	j := pipeline.Job{
 		Stations: f.stations, Values: values,
-		Res: f.res, Params: f.params(), Scheme: f.scheme, Regions: f.regions, RegionKey: f.regionKey,
+		Res: f.res, Params: f.params(), Scheme: f.scheme, Regions: f.regions, RegionKey: f.regionKey, Mask: f.mask,
 		SimplifyKm: f.simplifyKm, Title: f.title, Source: f.source, StationsOnMap: f.stationsOn, Out: f.out,
 		History: f.history, Date: f.date, CrossVal: f.crossval, Command: "grid", AllowEmpty: f.allowEmpty,
 	}

@@ -137,3 +137,8 @@ w("j_date_tomorrow.toml", 'date = "tomorrow"\n' + DJ)
 w("j_windows_empty.toml", 'date = "2021-01-31"\n' + DJ.replace('daily = "d_negative.csv"\n', 'daily = "d_negative.csv"\nwindows = []\n'))
 w("j_timezone.toml", 'date = "yesterday"\ntimezone = "Mars/Base"\n' + DJ)
 w("j_daily_negative.toml", 'date = "2021-01-31"\n' + DJ)
+
+# masks (drygrid grid --mask FILE; issue 18): no polygon, a mask far from the grid, "regions" without regions
+w("m_no_polygons.geojson", '{"type":"FeatureCollection","features":[{"type":"Feature","properties":{},"geometry":{"type":"Point","coordinates":[-124.5,-40.5]}}]}\n')
+w("m_outside.geojson", '{"type":"FeatureCollection","features":[{"type":"Feature","properties":{},"geometry":{"type":"Polygon","coordinates":[[[40.5,-40.5],[42,-40.5],[42,-39],[40.5,-40.5]]]}}]}\n')
+w("j_mask_regions.toml", J + 'layers = ["index"]\n[grid]\nmask = "regions"\n')
