@@ -68,7 +68,7 @@ type Result struct {
 	rows  func(row0, n int, dst []float32) error // streams the index rows (Index and Bands nil)
 	tally *bands.Tally
 	ip    *interp.Interpolator // for SupportRows
-	mask  *cellMask // with Job.Mask
+	mask  *cellMask            // with Job.Mask
 }
 
 // SupportRows fills rows row0 .. row0+n-1 of the run's grid (Spec) with
