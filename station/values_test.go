@@ -52,7 +52,7 @@ func TestValuesValidationErrors(t *testing.T) {
 		{"no id column", "name,lat,lon,spi\n", ValueOptions{}, "v.csv line 1: no station id column (looked for station|id|station_id|site); the header has: name, lat, lon, spi"},
 		{"no lat column", "id,y,lon,spi\n", ValueOptions{}, "v.csv line 1: no latitude column (looked for latitude|lat); the header has: id, y, lon, spi"},
 		{"no lon column", "id,lat,x,spi\n", ValueOptions{}, "v.csv line 1: no longitude column (looked for longitude|lon|long|lng); the header has: id, lat, x, spi"},
-		{"unknown kind", h, ValueOptions{Kind: "spei"}, `v.csv: unknown value kind "spei" (want spi or percentile)`},
+		{"unknown kind", h, ValueOptions{Kind: "spei"}, `v.csv: unknown value kind "spei" (want spi, percentile or pct-of-normal)`},
 		{"table error passes through", h + "A,1,2\n", ValueOptions{}, "v.csv line 2: 3 fields, but the header (line 1) has 4"},
 	}
 	for _, c := range cases {
