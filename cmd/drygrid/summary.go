@@ -29,7 +29,7 @@ func printSummary(w io.Writer, job pipeline.Job, r *pipeline.Result) {
 		if b.Drought {
 			flag = "  in drought"
 		}
-		fmt.Fprintf(w, "  %-12s %-18s %5.1f%%%s\n", b.Label, b.Range(), r.BandPct[b.Code], flag)
+		fmt.Fprintf(w, "  %-12s %-18s %5.1f%%%s\n", b.Label, r.Scheme.RangeOf(b), r.BandPct[b.Code], flag)
 	}
 	fmt.Fprintf(w, "in drought: %.1f%% of the covered area\n", r.InDroughtPct)
 	if len(r.Files) > 0 {

@@ -165,7 +165,7 @@ func pageData(in Input, extraJS string) (*pageView, error) {
 	}
 	var dry []string
 	for _, band := range in.Scheme.Bands {
-		pb := pageBand{Code: band.Code, Key: band.Key, Label: band.Label, Color: band.Color, Range: pageRangeText(band.Range()), Drought: band.Drought}
+		pb := pageBand{Code: band.Code, Key: band.Key, Label: band.Label, Color: band.Color, Range: pageRangeText(in.Scheme.RangeOf(band)), Drought: band.Drought}
 		if c := band.RGBA(); fmt.Sprintf("#%02x%02x%02x", c.R, c.G, c.B) != strings.ToLower(band.Color) {
 			return nil, fmt.Errorf("page: band %s colour %q is not #rrggbb", band.Key, band.Color)
 		}

@@ -26,7 +26,7 @@ func (p *picPainter) legendItems() []picLegendItem {
 	var items []picLegendItem
 	for _, b := range p.in.Scheme.Bands {
 		c := b.RGBA()
-		items = append(items, picLegendItem{label: b.Label, rng: p.rangeText(b.Range()), swatch: func(dst *image.RGBA, r image.Rectangle) {
+		items = append(items, picLegendItem{label: b.Label, rng: p.rangeText(p.in.Scheme.RangeOf(b)), swatch: func(dst *image.RGBA, r image.Rectangle) {
 			draw.Draw(dst, r, image.NewUniform(c), image.Point{}, draw.Src)
 			picBorder(dst, r)
 		}})
