@@ -146,15 +146,14 @@ func percentileText(z float64) string {
 // RangeOf is the band's interval as the scheme's legends give it: in
 // Legend, or in the scheme's own Unit when Legend is "" (z for the default
 // scheme).
-func (s *Scheme) RangeOf(b Band) string {
-	u := s.Legend
-	if u == "" {
-		u = s.Unit
+func (s *Scheme) RangeOf(b Band) string { return b.RangeIn(s.legendUnit()) }
+
+// legendUnit is Legend, or Unit when Legend is "" or of another domain.
+func (s *Scheme) legendUnit() Unit {
+	if s.Legend == "" || unitOr(s.Legend).Domain() != unitOr(s.Unit).Domain() {
+		return s.Unit
 	}
-	if unitOr(u).Domain() != unitOr(s.Unit).Domain() {
-		u = s.Unit
-	}
-	return b.RangeIn(u)
+	return s.Legend
 }
 
 // For is the scheme as a run whose values are in unit u uses it: a copy
@@ -208,4 +207,16 @@ func DefaultPctOfNormal() *Scheme {
 		}
 	}
 	return s
+}
+
+// LegendNote says under a legend's heading what its ranges are in: the
+// unit of RangeOf.
+func (s *Scheme) LegendNote() string {
+	switch unitOr(s.legendUnit()) {
+	case UnitPercentile:
+		return "p: percentile (p = 100 Phi(z))"
+	case UnitPctOfNormal:
+		return "percent of normal (of the median reference total)"
+	}
+	return "z in standard deviations (SPI units)"
 }

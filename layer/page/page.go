@@ -128,6 +128,7 @@ type pageView struct {
 	Stations                 template.JS
 	Regions                  template.JS
 	Legend                   []pageBand
+	LegendNote               string // what the legend's ranges are in (bands.Scheme.LegendNote)
 	NoDataLabel              string
 	HasStations, HasRegions  bool
 	Drought                  string
@@ -154,6 +155,7 @@ func pageData(in Input, extraJS string) (*pageView, error) {
 		Subtitle:    strings.TrimSpace(in.Subtitle),
 		Caution:     strings.TrimSpace(in.Caution),
 		NoDataLabel: layer.NoDataLabel,
+		LegendNote:  in.Scheme.LegendNote(),
 		Style:       template.CSS(pageCSS),
 		Script:      template.JS(pageJS + extraJS),
 	}

@@ -86,7 +86,7 @@ func (p *picPainter) legend(dst *image.RGBA, x, y, w, cols int) int {
 		}
 	}
 	text(p.fHead, picInk, "Precipitation index band", w)
-	text(p.fSmall, picMuted, "z in standard deviations (SPI units)", w)
+	text(p.fSmall, picMuted, p.in.Scheme.LegendNote(), w)
 	y += p.px(10)
 
 	items := p.legendItems()
