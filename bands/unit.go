@@ -17,7 +17,9 @@ import (
 //     turned into z by spi.PercentileToZ when the file is read, so its
 //     bands classify z, and classifying a percentile's z equals
 //     classifying the percentile itself: the cut and the value go through
-//     the same conversion, which is increasing. Cuts must lie strictly
+//     the same conversion, which is increasing. (Exactly so on the cuts and
+//     for values 1e-9 or more from a cut; a value one ulp from a cut may
+//     round onto the cut's z in p / 100.) Cuts must lie strictly
 //     inside (spi.MinPercentile, spi.MaxPercentile), where percentiles are
 //     clamped before conversion, or two percentiles on either side of a cut
 //     could share a z.
