@@ -26,5 +26,10 @@
 // (z <= -1.0). Colours are ColorBrewer's 9-class BrBG (Brewer, Penn State;
 // Apache-2.0), colour-blind safe.
 //
+// A scheme's cuts are in a Unit: z (the default), percentiles (turned into
+// z when read) or percent of normal (DefaultPctOfNormal, our own cuts).
+// Scheme.For binds a scheme to a run's unit and refuses another; RangeOf
+// gives a band's range in the run's unit for legends.
+//
 // See docs/design.md for the data flow and the other layers.
 package bands

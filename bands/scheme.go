@@ -8,8 +8,16 @@ import (
 // Scheme is an ordered set of bands, driest first, that together cover every
 // z exactly once.
 type Scheme struct {
-	Name  string
-	Bands []Band
+	Name string
+	// Unit is the unit the scheme's cuts were written in (UnitZ, and ""
+	// reads as z; UnitPercentile; UnitPctOfNormal): its bands hold z for z
+	// and percentile schemes, percent of normal for percent-of-normal ones
+	// (Unit.Domain).
+	Unit Unit
+	// Legend is the unit of the ranges legends give (RangeOf); "" is Unit.
+	// Scheme.For sets it to the unit of a run's values.
+	Legend Unit
+	Bands  []Band
 }
 
 // Default is drygrid's nine-band scheme (the table in the package doc). The
@@ -19,7 +27,7 @@ type Scheme struct {
 // Apache-2.0), colour-blind safe.
 func Default() *Scheme {
 	inf := math.Inf(1)
-	return &Scheme{Name: "drygrid-default", Bands: []Band{
+	return &Scheme{Name: "drygrid-default", Unit: UnitZ, Bands: []Band{
 		{1, "parched", "Parched", -inf, -2.0, false, true, "#8c510a", true},
 		{2, "very-dry", "Very dry", -2.0, -1.5, false, true, "#bf812d", true},
 		{3, "dry", "Dry", -1.5, -1.0, false, true, "#dfc27d", true},
@@ -97,7 +105,7 @@ func (s *Scheme) Validate() error {
 			return fmt.Errorf("scheme %q: last band %s must end at +inf", s.Name, b.Key)
 		}
 		if b.Min > b.Max || (b.Min == b.Max && !(b.MinInclusive && b.MaxInclusive)) {
-			return fmt.Errorf("scheme %q band %s: empty range %s", s.Name, b.Key, b.Range())
+			return fmt.Errorf("scheme %q band %s: empty range %s", s.Name, b.Key, b.RangeIn(s.Unit))
 		}
 		if i > 0 {
 			p := s.Bands[i-1]

@@ -16,6 +16,7 @@ import (
 	"github.com/BurntSushi/toml"
 
 	"drygrid/internal/tomlpos"
+	"drygrid/spi"
 )
 
 // maxSchemeBytes bounds a scheme file; real ones are a few kilobytes.
@@ -45,12 +46,20 @@ func LoadScheme(path string) (*Scheme, error) {
 // overlap nor leave a gap:
 //
 //	name = "coarse"            # optional; default: the file name without extension
-//	cuts = [-1.5, -0.5, 0.5]   # required: where neighbouring bands meet, in z
-//	                           # (SPI units), finite and strictly increasing
-//	cut_belongs_to = "outer"   # required: which band holds z exactly on a cut:
-//	                           #   "outer": the one farther from z = 0, i.e. the
-//	                           #            more unusual one (drygrid's default
-//	                           #            scheme; no cut may then be 0)
+//	unit = "z"                 # optional; the unit of the cuts: "z" (SPI units,
+//	                           # the default), "percentile" (0-100; cuts strictly
+//	                           # inside (0.1, 99.9), turned into z by
+//	                           # spi.PercentileToZ) or "pct-of-normal" (percent
+//	                           # of normal, cuts above 0). A run takes schemes
+//	                           # of its values' unit (Scheme.For).
+//	cuts = [-1.5, -0.5, 0.5]   # required: where neighbouring bands meet, in the
+//	                           # unit, finite and strictly increasing
+//	cut_belongs_to = "outer"   # required: which band holds a value exactly on a cut:
+//	                           #   "outer": the one farther from normal (z = 0,
+//	                           #            the 50th percentile, 100 % of
+//	                           #            normal), i.e. the more unusual one
+//	                           #            (drygrid's default scheme; no cut
+//	                           #            may then be normal)
 //	                           #   "lower": the one below  (bands lo < z <= hi)
 //	                           #   "upper": the one above  (bands lo <= z < hi)
 //
@@ -59,7 +68,8 @@ func LoadScheme(path string) (*Scheme, error) {
 //	label = "Dry"              # lower-case letters, digits, '-' and '_';
 //	color = "#bf812d"          # label; color as "#rrggbb".
 //	drought = true             # optional, default false: counts as "in drought";
-//	                           # only a run of the driest bands, all at z <= 0
+//	                           # only a run of the driest bands, all at or
+//	                           # below normal
 //	# code = 1                 # optional raster code 1..255: on every band or
 //	                           # on none (then 1, 2, ... in file order)
 //	[[band]]
@@ -97,6 +107,11 @@ const exampleSchemeTOML = `# drygrid band scheme: drygrid's default nine bands.
 # follow the national meteorological or hydrological service.
 
 name = "drygrid-default"
+
+# The unit of the cuts: "z" (SPI units), "percentile" (0-100, turned into z)
+# or "pct-of-normal" (percent of normal). A run takes a scheme of its
+# values' unit; a percentile run also takes a z scheme such as this one.
+unit = "z"
 
 # Where neighbouring bands meet, lowest first. +/-1.0, 1.5 and 2.0 follow
 # McKee et al. (1993) and WMO-No. 1090 (2012); +/-0.5 is drygrid's own.
@@ -168,6 +183,7 @@ var OldKeys = map[string]string{"drying": "slightly-dry", "moist": "slightly-wet
 // schemeFile is the TOML layout read by ParseScheme.
 type schemeFile struct {
 	Name         *string          `toml:"name"`
+	Unit         *string          `toml:"unit"`
 	Cuts         []float64        `toml:"cuts"`
 	CutBelongsTo *string          `toml:"cut_belongs_to"`
 	Band         []schemeFileBand `toml:"band"`
@@ -263,7 +279,7 @@ func (p *schemeParser) errf(line int, format string, args ...any) error {
 
 // schemeKnownKeys lists the keys of each level, for the unknown-key hint.
 var schemeKnownKeys = map[string][]string{
-	"":     {"name", "cuts", "cut_belongs_to", "band"},
+	"":     {"name", "unit", "cuts", "cut_belongs_to", "band"},
 	"band": {"key", "label", "color", "drought", "code"},
 }
 
@@ -292,9 +308,18 @@ func (p *schemeParser) build(f *schemeFile) (*Scheme, error) {
 			return nil, p.errf(p.lineOf("name", 0), "name %q must be non-empty printable text", name)
 		}
 	}
+	unit := UnitZ
+	if f.Unit != nil {
+		u, err := ParseUnit(*f.Unit)
+		if err != nil {
+			return nil, p.errf(p.lineOf("unit", 0), "%v", err)
+		}
+		unit = u
+	}
+	centre := unit.Centre()
 	cutLine := func() int { return p.lineOf("cuts", 0) }
 	if len(f.Cuts) == 0 {
-		return nil, p.errf(cutLine(), `cuts is missing or empty: give the z values where bands meet, e.g. cuts = [-1.0, 1.0]`)
+		return nil, p.errf(cutLine(), `cuts is missing or empty: give the values (in the scheme's unit, z unless unit says otherwise) where bands meet, e.g. cuts = [-1.0, 1.0]`)
 	}
 	for i, c := range f.Cuts {
 		if math.IsNaN(c) || math.IsInf(c, 0) {
@@ -302,6 +327,25 @@ func (p *schemeParser) build(f *schemeFile) (*Scheme, error) {
 		}
 		if i > 0 && c <= f.Cuts[i-1] {
 			return nil, p.errf(cutLine(), "cuts must increase strictly: cut %d (%g) follows %g", i+1, c, f.Cuts[i-1])
+		}
+		if unit == UnitPercentile && !(c > spi.MinPercentile && c < spi.MaxPercentile) {
+			return nil, p.errf(cutLine(), "cut %d (%g): percentile cuts must lie strictly between %g and %g, where percentiles are clamped before they become z", i+1, c, spi.MinPercentile, spi.MaxPercentile)
+		}
+		if unit == UnitPctOfNormal && c <= 0 {
+			return nil, p.errf(cutLine(), "cut %d (%g): percent of normal is never below 0; cuts must be above 0", i+1, c)
+		}
+	}
+	// cuts are the cut points in the bands' domain: percentiles become z
+	// (spi.PercentileToZ, the conversion of the values), which must still
+	// increase strictly.
+	cuts := f.Cuts
+	if unit == UnitPercentile {
+		cuts = make([]float64, len(f.Cuts))
+		for i, c := range f.Cuts {
+			cuts[i] = spi.PercentileToZ(c)
+			if i > 0 && cuts[i] <= cuts[i-1] {
+				return nil, p.errf(cutLine(), "percentile cuts %g and %g are too close: they give the same z", f.Cuts[i-1], c)
+			}
 		}
 	}
 	ruleLine := func() int { return p.lineOf("cut_belongs_to", 0) }
@@ -318,10 +362,10 @@ func (p *schemeParser) build(f *schemeFile) (*Scheme, error) {
 		case "upper":
 			toLower[i] = false
 		case "outer":
-			if c == 0 {
-				return nil, p.errf(ruleLine(), `a cut at 0 has no outer side; with a cut at 0 use cut_belongs_to = "lower" or "upper"`)
+			if c == centre {
+				return nil, p.errf(ruleLine(), `a cut at %g has no outer side (it is normal in %s); with a cut at %g use cut_belongs_to = "lower" or "upper"`, centre, unit.Describe(), centre)
 			}
-			toLower[i] = c < 0
+			toLower[i] = c < centre
 		default:
 			return nil, p.errf(ruleLine(), `cut_belongs_to is %q; it must be "outer", "lower" or "upper"`, rule)
 		}
@@ -345,7 +389,7 @@ func (p *schemeParser) build(f *schemeFile) (*Scheme, error) {
 			}
 		}
 	}
-	s := &Scheme{Name: name, Bands: make([]Band, len(f.Band))}
+	s := &Scheme{Name: name, Unit: unit, Bands: make([]Band, len(f.Band))}
 	keyLine := map[string]int{}
 	codeBand := map[uint8]int{}
 	droughtRun := true
@@ -393,18 +437,18 @@ func (p *schemeParser) build(f *schemeFile) (*Scheme, error) {
 		codeBand[b.Code] = n
 		b.Min, b.Max = math.Inf(-1), math.Inf(1)
 		if i > 0 {
-			b.Min, b.MinInclusive = f.Cuts[i-1], !toLower[i-1]
+			b.Min, b.MinInclusive = cuts[i-1], !toLower[i-1]
 		}
-		if i < len(f.Cuts) {
-			b.Max, b.MaxInclusive = f.Cuts[i], toLower[i]
+		if i < len(cuts) {
+			b.Max, b.MaxInclusive = cuts[i], toLower[i]
 		}
 		b.Drought = fb.Drought
 		if b.Drought {
 			if !droughtRun {
 				return nil, p.errf(bl("drought"), "[[band]] %d is a drought band above a band that is not: drought bands must be the driest ones, first in the file", n)
 			}
-			if b.Max > 0 {
-				return nil, p.errf(bl("drought"), "[[band]] %d (%s) reaches above z = 0 and cannot be a drought band", n, b.Range())
+			if i < len(f.Cuts) && f.Cuts[i] > centre || i == len(f.Cuts) {
+				return nil, p.errf(bl("drought"), "[[band]] %d (%s) reaches above %s and cannot be a drought band", n, b.RangeIn(unit), map[Unit]string{UnitZ: "z = 0", UnitPercentile: "the 50th percentile", UnitPctOfNormal: "100 % of normal"}[unit])
 			}
 		} else {
 			droughtRun = false

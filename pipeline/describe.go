@@ -9,8 +9,11 @@ import (
 
 // kindName is the index kind as titles say it.
 func kindName(k station.Kind) string {
-	if k == station.KindPercentile {
+	switch k {
+	case station.KindPercentile:
 		return "percentile"
+	case station.KindPctOfNormal:
+		return "percent of normal"
 	}
 	return "SPI"
 }
@@ -40,11 +43,15 @@ func (j *Job) Describe() string {
 // describes reports whether Describe says more than the kind.
 func (j *Job) describes() bool { return strings.Contains(j.Describe(), ",") }
 
-// units is the unit of the index raster: SPI in its own z units, or a
-// percentile turned into the z of the normal distribution.
+// units is the unit of the index raster: SPI in its own z units, a
+// percentile turned into the z of the normal distribution, or percent of
+// normal itself (interpolated as it is: it has no z).
 func (j *Job) units() string {
-	if j.Values.Kind == station.KindPercentile {
+	switch j.Values.Kind {
+	case station.KindPercentile:
 		return "percentile -> z"
+	case station.KindPctOfNormal:
+		return "% of normal"
 	}
 	return "SPI (z)"
 }

@@ -188,8 +188,8 @@ func (j *Job) Validate() error {
 	if j.Stations == "" {
 		return Usagef("--stations FILE is required")
 	}
-	if k := j.Values.Kind; k != station.KindSPI && k != station.KindPercentile {
-		return usageAt("--kind ", "inputs.kind", fmt.Sprintf("must be spi or percentile, not %q", string(k)))
+	if k := j.Values.Kind; k != station.KindSPI && k != station.KindPercentile && k != station.KindPctOfNormal {
+		return usageAt("--kind ", "inputs.kind", fmt.Sprintf("must be %s, not %q", station.Kinds, string(k)))
 	}
 	if j.Out == "" {
 		return Usagef("--out DIR is required")

@@ -8,6 +8,7 @@ import (
 	"drygrid/interp"
 	"drygrid/layer"
 	"drygrid/manifest"
+	"drygrid/station"
 )
 
 // buildManifest describes the run whose files are in dir.
@@ -59,6 +60,12 @@ func buildManifest(job *Job, res *Result, dir string, start time.Time) (*manifes
 		"power": p.Power, "neighbors": p.Neighbors, "radius_km": p.RadiusKm, "min_stations": p.MinStations,
 		"sectors": p.Sectors, "scheme": res.Scheme.Name, "region_key": job.RegionKey,
 		"layers": strings.Split(job.Layers.String(), ","), "simplify_km": job.SimplifyKm,
+	}
+	if job.Values.Kind != station.KindSPI {
+		// The unit of index.tif and of the scheme's cuts when it is not
+		// SPI's z (left out for SPI, whose manifest stays as it was).
+		params["index_unit"] = job.units()
+		params["scheme_unit"] = string(res.Scheme.Unit)
 	}
 	if job.Mask != "" {
 		params["mask"] = job.Mask

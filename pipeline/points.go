@@ -28,8 +28,10 @@ func stationPoints(v *station.Values, spec grid.Spec, scheme *bands.Scheme) []ge
 	pts := make([]geojson.Station, 0, len(v.Stations))
 	for _, s := range v.Stations {
 		_, _, in := spec.Cell(s.Lon, s.Lat)
+		// Percent of normal has no z: its z is null, its band that of
+		// the value (which is what it interpolates, Station.Z).
 		pts = append(pts, geojson.Station{ID: s.ID, Lon: s.Lon, Lat: s.Lat, Value: s.Value,
-			Z: s.Z, HasZ: true, Code: scheme.Classify(s.Z), InGrid: in})
+			Z: s.Z, HasZ: v.Kind != station.KindPctOfNormal, Code: scheme.Classify(s.Z), InGrid: in})
 	}
 	return pts
 }

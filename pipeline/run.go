@@ -286,7 +286,7 @@ func seconds(d time.Duration) float64 { return float64(d.Milliseconds()) / 1000 
 
 // readInputs reads the band scheme and the regions.
 func readInputs(job *Job) (*inputs, error) {
-	scheme, err := LoadScheme(job.Scheme)
+	scheme, err := SchemeFor(job.Scheme, job.Values.Kind)
 	if err != nil {
 		return nil, err
 	}
@@ -373,6 +373,39 @@ func LoadScheme(path string) (*bands.Scheme, error) {
 		return bands.Default(), nil
 	}
 	return bands.LoadScheme(path)
+}
+
+// KindUnit is the unit of the values of a kind: z for SPI, percentile,
+// percent of normal.
+func KindUnit(k station.Kind) bands.Unit {
+	switch k {
+	case station.KindPercentile:
+		return bands.UnitPercentile
+	case station.KindPctOfNormal:
+		return bands.UnitPctOfNormal
+	}
+	return bands.UnitZ
+}
+
+// SchemeFor is the band scheme of a run of values of kind k: the scheme
+// file (or the kind's default bands, bands.DefaultFor, for ""), refused
+// with a usage error when its cuts are in a unit the kind does not take
+// (bands.Scheme.For), with its legends in the kind's unit.
+func SchemeFor(path string, k station.Kind) (*bands.Scheme, error) {
+	u := KindUnit(k)
+	if path == "" {
+		return bands.DefaultFor(u), nil
+	}
+	s, err := bands.LoadScheme(path)
+	if err != nil {
+		return nil, err
+	}
+	s, err = s.For(u)
+	if err != nil {
+		msg := fmt.Sprintf("scheme %s: %v (--kind %s)", path, err, k)
+		return nil, &UsageError{Msg: msg, Key: "bands.scheme", Detail: msg, Err: err}
+	}
+	return s, nil
 }
 
 // owned are the top-level names a run writes in its output directory.

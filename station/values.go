@@ -14,27 +14,48 @@ import (
 type Kind string
 
 // Value kinds (the --kind flag).
+//
+// SPI and percentile are probabilities: a percentile becomes z
+// (spi.PercentileToZ) and z is interpolated. Percent of normal (100 x the
+// window's total / the median of the reference totals, the index step's
+// pct_of_median) is not: a percent of normal has no z, so it is
+// interpolated as it is (the weighted mean of the values) and classified
+// by a scheme whose cuts are in percent of normal.
 const (
-	KindSPI        Kind = "spi"
-	KindPercentile Kind = "percentile"
+	KindSPI         Kind = "spi"
+	KindPercentile  Kind = "percentile"
+	KindPctOfNormal Kind = "pct-of-normal"
 )
 
-// ParseKind parses a --kind flag value: "spi" or "percentile" (any case).
+// Kinds lists the kinds, as flags and messages name them.
+const Kinds = "spi, percentile or pct-of-normal"
+
+// ParseKind parses a --kind flag value: "spi", "percentile" or
+// "pct-of-normal" ("percent-of-normal" is accepted), in any case.
 func ParseKind(s string) (Kind, error) {
 	switch k := Kind(strings.ToLower(strings.TrimSpace(s))); k {
-	case KindSPI, KindPercentile:
+	case KindSPI, KindPercentile, KindPctOfNormal:
 		return k, nil
+	case "percent-of-normal":
+		return KindPctOfNormal, nil
 	}
-	return "", fmt.Errorf("unknown kind %q (want spi or percentile)", s)
+	return "", fmt.Errorf("unknown kind %q (want %s)", s, Kinds)
 }
+
+// MaxPctOfNormal is the largest percent of normal accepted: 100 times
+// normal. In dry climates a window's median total can be a few mm, so a
+// few thousand percent happen; beyond 10,000 % the value is taken for a
+// mistake of units.
+const MaxPctOfNormal = 10000
 
 // Column aliases: columns are found by name, case-insensitively.
 var (
-	IDAliases         = []string{"station", "id", "station_id", "site"}
-	LatAliases        = []string{"latitude", "lat"}
-	LonAliases        = []string{"longitude", "lon", "long", "lng"}
-	SPIAliases        = []string{"spi"}
-	PercentileAliases = []string{"percentile", "pct", "percent"}
+	IDAliases          = []string{"station", "id", "station_id", "site"}
+	LatAliases         = []string{"latitude", "lat"}
+	LonAliases         = []string{"longitude", "lon", "long", "lng"}
+	SPIAliases         = []string{"spi"}
+	PercentileAliases  = []string{"percentile", "pct", "percent"}
+	PctOfNormalAliases = []string{"pct_of_normal", "pct_of_median", "percent_of_normal", "percent_of_median"}
 )
 
 // SPILimit is the largest |SPI| accepted: a value table's SPI beyond +/-5 is
@@ -59,11 +80,14 @@ type ValueOptions struct {
 // Station is one usable site of a value table.
 type Station struct {
 	ID       string
-	Lon, Lat float64  // Lon normalised to [-180, 180)
-	Value    float64  // the input value (SPI or percentile)
-	Z        float64  // z (SPI units): SPI as is, percentile via spi.PercentileToZ
-	Line     int      // line of first appearance
-	Merged   []string // other ids averaged into this site (same point), if any
+	Lon, Lat float64 // Lon normalised to [-180, 180)
+	Value    float64 // the input value (SPI, percentile or percent of normal)
+	// Z is the value interpolated: z (SPI units) for SPI (as is) and
+	// percentile (via spi.PercentileToZ); for percent of normal, which has
+	// no z, the percent of normal itself.
+	Z      float64
+	Line   int      // line of first appearance
+	Merged []string // other ids averaged into this site (same point), if any
 }
 
 // Rejection is a row that carries no usable value; it is kept for the summary.
@@ -266,6 +290,8 @@ func readValues(t *Table, opt ValueOptions) (*Values, error) {
 		valAliases = SPIAliases
 	case KindPercentile:
 		valAliases = PercentileAliases
+	case KindPctOfNormal:
+		valAliases = PctOfNormalAliases
 	case "":
 		// No kind given: an spi column if there is one, else a percentile column.
 		kind = KindSPI
@@ -274,7 +300,7 @@ func readValues(t *Table, opt ValueOptions) (*Values, error) {
 			kind, valAliases = KindPercentile, PercentileAliases
 		}
 	default:
-		return nil, fmt.Errorf("%s: unknown value kind %q (want spi or percentile)", t.Path, kind)
+		return nil, fmt.Errorf("%s: unknown value kind %q (want %s)", t.Path, kind, Kinds)
 	}
 	idC, err := t.FindColumn("station id", opt.IDColumn, IDAliases)
 	if err != nil {
@@ -410,6 +436,11 @@ func readValues(t *Table, opt ValueOptions) (*Values, error) {
 		// Every percentile in [0, 1], not all 0: fractions (0.0231 for
 		// 2.31 %), which read as percents would map everything driest.
 		return nil, t.FieldError(maxLine, valC, "every percentile lies in [0, 1] (the largest, %s, is on this line): these look like fractions; percentiles are 0-100; multiply by 100", maxRaw)
+	}
+	if kind == KindPctOfNormal && maxLine > 0 && maxValue > 0 && maxValue <= 3 {
+		// Every value in [0, 3], not all 0: ratios (1.0 for normal), which
+		// read as percents would map everything at 1-3 % of normal.
+		return nil, t.FieldError(maxLine, valC, "every percent of normal lies in [0, 3] (the largest, %s, is on this line): these look like ratios to normal; normal is 100; multiply by 100", maxRaw)
 	}
 	for si, m := range merged {
 		s := &stations[si]

@@ -114,6 +114,10 @@ func (b *valuesBatch) add(t *Table, kind Kind, idC, latC, lonC, valC int) error 
 			if x < 0 || x > 100 {
 				return t.FieldError(line, valC, "percentile %s outside [0, 100]", rec[valC])
 			}
+		case KindPctOfNormal:
+			if x < 0 || x > MaxPctOfNormal {
+				return t.FieldError(line, valC, "percent of normal %s outside [0, %d]", rec[valC], MaxPctOfNormal)
+			}
 		case KindSPI:
 			if math.Abs(x) > SPILimit {
 				return t.FieldError(line, valC, "spi %s outside [-%d, %d], implausible", rec[valC], SPILimit, SPILimit)

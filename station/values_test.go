@@ -52,7 +52,7 @@ func TestValuesValidationErrors(t *testing.T) {
 		{"no id column", "name,lat,lon,spi\n", ValueOptions{}, "v.csv line 1: no station id column (looked for station|id|station_id|site); the header has: name, lat, lon, spi"},
 		{"no lat column", "id,y,lon,spi\n", ValueOptions{}, "v.csv line 1: no latitude column (looked for latitude|lat); the header has: id, y, lon, spi"},
 		{"no lon column", "id,lat,x,spi\n", ValueOptions{}, "v.csv line 1: no longitude column (looked for longitude|lon|long|lng); the header has: id, lat, x, spi"},
-		{"unknown kind", h, ValueOptions{Kind: "spei"}, `v.csv: unknown value kind "spei" (want spi or percentile)`},
+		{"unknown kind", h, ValueOptions{Kind: "spei"}, `v.csv: unknown value kind "spei" (want spi, percentile or pct-of-normal)`},
 		{"table error passes through", h + "A,1,2\n", ValueOptions{}, "v.csv line 2: 3 fields, but the header (line 1) has 4"},
 	}
 	for _, c := range cases {
@@ -422,5 +422,33 @@ func TestValuesErrorsInFileOrder(t *testing.T) {
 	}
 	if v.Read != n || len(v.Stations) != n-1 || len(v.Warnings) != 1 || !strings.Contains(v.Warnings[0], "repeats station S5 of line 7") {
 		t.Errorf("read %d, %d stations, warnings %q; want %d, %d and the repeat of S5", v.Read, len(v.Stations), v.Warnings, n, n-1)
+	}
+}
+
+// Percent of normal: found by the index step's column name, kept as it is
+// (Z is the value: it has no z), refused below 0, above MaxPctOfNormal and
+// when every value looks like a ratio to normal.
+func TestValuesPctOfNormal(t *testing.T) {
+	for _, col := range PctOfNormalAliases {
+		v, err := ParseValues("p.csv", strings.NewReader("station,lat,lon,"+col+"\nA,1,2,62.5\nB,1,3,140\n"), ValueOptions{Kind: KindPctOfNormal})
+		if err != nil {
+			t.Fatalf("%s: %v", col, err)
+		}
+		if v.Kind != KindPctOfNormal || v.Stations[0].Value != 62.5 || v.Stations[0].Z != 62.5 || v.Stations[1].Z != 140 {
+			t.Errorf("%s: %+v", col, v.Stations)
+		}
+	}
+	for _, c := range []struct{ body, want string }{
+		{"A,1,2,-1\n", "percent of normal -1 outside [0, 10000]"},
+		{"A,1,2,10001\n", "percent of normal 10001 outside [0, 10000]"},
+		{"A,1,2,0.8\nB,1,3,1.2\n", "look like ratios to normal"},
+	} {
+		_, err := ParseValues("p.csv", strings.NewReader("station,lat,lon,pct_of_median\n"+c.body), ValueOptions{Kind: KindPctOfNormal})
+		if err == nil || !strings.Contains(err.Error(), c.want) {
+			t.Errorf("%q: %v, want %q", c.body, err, c.want)
+		}
+	}
+	if k, err := ParseKind(" Percent-of-Normal "); err != nil || k != KindPctOfNormal {
+		t.Errorf("ParseKind: %v %v", k, err)
 	}
 }

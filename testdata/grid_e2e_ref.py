@@ -5,6 +5,9 @@ independently (SciPy's norm.ppf for percentiles, clamped to [0.1, 99.9] as
 docs/design.md says), interpolate by brute force with the NumPy IDW of
 idw_ref.py (Shepard 1968, haversine on R = 6371.0088 km) and compare.
 
+Percent of normal (KIND pct-of-normal, column pct_of_median) is interpolated
+as it is, without conversion.
+
 usage: grid_e2e_ref.py INDEX.tif STATIONS.csv KIND POWER K RADIUS_KM MIN
 prints one JSON object: cells, masked_mismatch, max_abs_diff, first_bad.
 """
@@ -27,7 +30,9 @@ def main():
     pts = []
     with open(stations, newline="") as f:
         for row in csv.DictReader(f):
-            v = float(row[kind])
+            # percent of normal is interpolated as it is, from the index
+            # step's column pct_of_median; it is not a probability (no z).
+            v = float(row["pct_of_median" if kind == "pct-of-normal" else kind])
             if kind == "percentile":
                 v = float(norm.ppf(min(max(v, 0.1), 99.9) / 100))
             pts.append((float(row["longitude"]), float(row["latitude"]), v))

@@ -101,6 +101,10 @@ func TestBadInputCorpus(t *testing.T) {
 				args = []string{"grid", "--stations", p, "--layers", "index", "--out", out}
 			case "pct":
 				args = []string{"grid", "--stations", p, "--kind", "percentile", "--layers", "index", "--out", out}
+			case "pon":
+				args = []string{"grid", "--stations", p, "--kind", "pct-of-normal", "--layers", "index", "--out", out}
+			case "ponscheme":
+				args = []string{"grid", "--stations", "../../testdata/stations/pct_of_normal.csv", "--kind", "pct-of-normal", "--scheme", p, "--layers", "index", "--out", out}
 			case "totals":
 				args = []string{"index", "--totals", p, "--stations", "../../testdata/index/stations.csv", "--out", filepath.Join(out, "i.csv")}
 			case "stationlist":

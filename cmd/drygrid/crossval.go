@@ -108,7 +108,7 @@ func runCrossval(f crossvalFlags, terms []string, stdout, stderr io.Writer) erro
 			return usageError{err}
 		}
 	}
-	scheme, err := pipeline.LoadScheme(f.scheme)
+	scheme, err := pipeline.SchemeFor(f.scheme, values.Kind)
 	if err != nil {
 		return err
 	}

@@ -1,8 +1,6 @@
 package main
 
 import (
-	"strings"
-
 	"github.com/spf13/pflag"
 
 	"drygrid/interp"
@@ -21,7 +19,7 @@ type inputFlags struct {
 
 func (f *inputFlags) register(fl *pflag.FlagSet) {
 	fl.StringVar(&f.stations, "stations", "", "station value table (CSV or TSV, optionally .gz) with id, latitude, longitude and the value (required)")
-	fl.StringVar(&f.kind, "kind", "spi", "what the values are: spi or percentile")
+	fl.StringVar(&f.kind, "kind", "spi", "what the values are: spi, percentile or pct-of-normal (percent of normal, as index.csv's pct_of_median; interpolated as it is, not as z)")
 	fl.StringVar(&f.valueColumn, "value-column", "", "name of the value column (default: the column named like --kind)")
 	fl.StringVar(&f.idColumn, "id-column", "", "name of the station id column (default: station|id|station_id|site)")
 	fl.StringVar(&f.latColumn, "lat-column", "", "name of the latitude column (default: latitude|lat)")
@@ -33,9 +31,9 @@ func (f inputFlags) options() (station.ValueOptions, error) {
 	if f.stations == "" {
 		return station.ValueOptions{}, usagef("--stations FILE is required")
 	}
-	kind := station.Kind(strings.ToLower(f.kind))
-	if kind != station.KindSPI && kind != station.KindPercentile {
-		return station.ValueOptions{}, usagef("--kind must be spi or percentile, not %q", f.kind)
+	kind, err := station.ParseKind(f.kind)
+	if err != nil {
+		return station.ValueOptions{}, usagef("--kind must be %s, not %q", station.Kinds, f.kind)
 	}
 	return station.ValueOptions{Kind: kind, ValueColumn: f.valueColumn,
 		IDColumn: f.idColumn, LatColumn: f.latColumn, LonColumn: f.lonColumn}, nil

@@ -53,6 +53,10 @@ func TestGridAgainstBruteForce(t *testing.T) {
 			bbox: "-180,78,180,90", res: 2, power: 2, neighbors: 12, radiusKm: 400, minStations: 3},
 		{name: "default extent percentile power 3", lonC: 20, latC: 45, spreadLon: 3, spreadLat: 2, n: 30, kind: "percentile",
 			res: 0.2, power: 3, neighbors: 6, radiusKm: 80, minStations: 2},
+		// Percent of normal is interpolated as it is (not as z): the
+		// reference takes the pct_of_median column's values unconverted.
+		{name: "percent of normal", lonC: -60, latC: -30, spreadLon: 4, spreadLat: 3, n: 40, kind: "pct-of-normal",
+			res: 0.2, power: 2, neighbors: 10, radiusKm: 200, minStations: 3},
 		{name: "south polar cap spi", lonC: 90, latC: -80, spreadLon: 180, spreadLat: 8, n: 50, kind: "spi",
 			bbox: "-180,-90,180,-70", res: 2.5, power: 1.5, neighbors: 10, radiusKm: 600, minStations: 4},
 	}
@@ -61,7 +65,11 @@ func TestGridAgainstBruteForce(t *testing.T) {
 			dir := t.TempDir()
 			stations := filepath.Join(dir, "stations.csv")
 			var b strings.Builder
-			fmt.Fprintf(&b, "station,latitude,longitude,%s\n", c.kind)
+			column := c.kind
+			if c.kind == "pct-of-normal" {
+				column = "pct_of_median" // the index step's column
+			}
+			fmt.Fprintf(&b, "station,latitude,longitude,%s\n", column)
 			for i := 0; i < c.n; i++ {
 				lat := math.Max(-89.9, math.Min(89.9, c.latC+(rng.Float64()*2-1)*c.spreadLat))
 				lon := c.lonC + (rng.Float64()*2-1)*c.spreadLon
@@ -69,6 +77,8 @@ func TestGridAgainstBruteForce(t *testing.T) {
 				v := rng.NormFloat64() * 1.2
 				if c.kind == "percentile" {
 					v = rng.Float64() * 100
+				} else if c.kind == "pct-of-normal" {
+					v = rng.Float64() * 250 // 0 to 250 % of normal
 				} else {
 					v = math.Max(-4.9, math.Min(4.9, v))
 				}
@@ -104,8 +114,9 @@ func TestGridAgainstBruteForce(t *testing.T) {
 			if got.MaskedMismatch != 0 {
 				t.Errorf("%d cells masked differently from the reference, first %v", got.MaskedMismatch, got.FirstBad)
 			}
-			if got.MaxAbsDiff > 1e-5 {
-				t.Errorf("max |z - reference| = %g > 1e-5", got.MaxAbsDiff)
+			// Float32 holds percent of normal (up to 250) to ~1.5e-5.
+			if tol := map[bool]float64{false: 1e-5, true: 5e-5}[c.kind == "pct-of-normal"]; got.MaxAbsDiff > tol {
+				t.Errorf("max |value - reference| = %g > %g", got.MaxAbsDiff, tol)
 			}
 			if got.Covered < got.Cells/10 {
 				t.Errorf("only %d of %d cells covered: the case checks too little", got.Covered, got.Cells)

@@ -24,12 +24,16 @@ func printSummary(w io.Writer, job pipeline.Job, r *pipeline.Result) {
 	fmt.Fprintln(w)
 	fmt.Fprintf(w, "grid: %s, %d cells, %.1f%% of the area covered\n", r.Spec, r.Spec.Len(), r.CoveredPct)
 	fmt.Fprintf(w, "bands (share of covered area):\n")
+	width := 18 // the longest range in z; percent of normal is longer
+	for _, b := range r.Scheme.Bands {
+		width = max(width, len(r.Scheme.RangeOf(b)))
+	}
 	for _, b := range r.Scheme.Bands {
 		flag := ""
 		if b.Drought {
 			flag = "  in drought"
 		}
-		fmt.Fprintf(w, "  %-12s %-18s %5.1f%%%s\n", b.Label, b.Range(), r.BandPct[b.Code], flag)
+		fmt.Fprintf(w, "  %-12s %-*s %5.1f%%%s\n", b.Label, width, r.Scheme.RangeOf(b), r.BandPct[b.Code], flag)
 	}
 	fmt.Fprintf(w, "in drought: %.1f%% of the covered area\n", r.InDroughtPct)
 	if len(r.Files) > 0 {

@@ -140,6 +140,7 @@ type pageView struct {
 	Stations                 template.JS
 	Regions                  template.JS
 	Legend                   []pageBand
+	LegendNote               string // what the legend's ranges are in (bands.Scheme.LegendNote)
 	NoDataLabel              string
 	HasStations, HasRegions  bool
 	Produced                 string
@@ -170,6 +171,7 @@ func pageData(in Input, extraJS string) (*pageView, error) {
 		Subtitle:    strings.TrimSpace(in.Subtitle),
 		Caution:     strings.TrimSpace(in.Caution),
 		NoDataLabel: layer.NoDataLabel,
+		LegendNote:  in.Scheme.LegendNote(),
 		Style:       template.CSS(pageCSS),
 		Script:      template.JS(pageJS + extraJS),
 	}
@@ -203,7 +205,7 @@ func pageData(in Input, extraJS string) (*pageView, error) {
 	}
 	var dry []string
 	for _, band := range in.Scheme.Bands {
-		pb := pageBand{Code: band.Code, Key: band.Key, Label: band.Label, Color: band.Color, Range: pageRangeText(band.Range()), Drought: band.Drought}
+		pb := pageBand{Code: band.Code, Key: band.Key, Label: band.Label, Color: band.Color, Range: pageRangeText(in.Scheme.RangeOf(band)), Drought: band.Drought}
 		if c := band.RGBA(); fmt.Sprintf("#%02x%02x%02x", c.R, c.G, c.B) != strings.ToLower(band.Color) {
 			return nil, fmt.Errorf("page: band %s colour %q is not #rrggbb", band.Key, band.Color)
 		}

@@ -25,7 +25,7 @@ func (p *picPainter) legendItems() []picLegendItem {
 	var items []picLegendItem
 	for _, b := range p.in.Scheme.Bands {
 		c := b.RGBA()
-		items = append(items, picLegendItem{label: b.Label, rng: p.rangeText(b.Range()), swatch: func(dst *image.RGBA, r image.Rectangle) {
+		items = append(items, picLegendItem{label: b.Label, rng: p.rangeText(p.in.Scheme.RangeOf(b)), swatch: func(dst *image.RGBA, r image.Rectangle) {
 			draw.Draw(dst, r, image.NewUniform(c), image.Point{}, draw.Src)
 			picBorder(dst, r)
 		}})
@@ -85,7 +85,7 @@ func (p *picPainter) legend(dst *image.RGBA, x, y, w, cols int) int {
 		}
 	}
 	text(p.fHead, picInk, "Precipitation index band", w)
-	text(p.fSmall, picMuted, "z in standard deviations (SPI units)", w)
+	text(p.fSmall, picMuted, p.in.Scheme.LegendNote(), w)
 	y += p.px(10)
 
 	items := p.legendItems()

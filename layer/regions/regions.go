@@ -186,7 +186,7 @@ func WriteJSON(w io.Writer, stats []region.ZonalStats, s *bands.Scheme, meta Met
 	doc := regJSONDoc{Caution: Caution, Date: meta.Date, Window: meta.WindowDays, Kind: meta.Kind, Source: meta.Source, Regions: meta.Regions,
 		Grid: meta.Grid, Method: regMethod, Scheme: regJSONScheme{Name: s.Name}, Stats: []regJSONRegion{}}
 	for _, b := range s.Bands {
-		doc.Scheme.Bands = append(doc.Scheme.Bands, regJSONBand{b.Code, b.Key, b.Label, b.Color, b.Drought, b.Range()})
+		doc.Scheme.Bands = append(doc.Scheme.Bands, regJSONBand{b.Code, b.Key, b.Label, b.Color, b.Drought, s.RangeOf(b)})
 	}
 	for _, z := range stats {
 		r := regValues(z, s)

@@ -142,3 +142,15 @@ w("j_daily_negative.toml", 'date = "2021-01-31"\n' + DJ)
 w("m_no_polygons.geojson", '{"type":"FeatureCollection","features":[{"type":"Feature","properties":{},"geometry":{"type":"Point","coordinates":[-124.5,-40.5]}}]}\n')
 w("m_outside.geojson", '{"type":"FeatureCollection","features":[{"type":"Feature","properties":{},"geometry":{"type":"Polygon","coordinates":[[[40.5,-40.5],[42,-40.5],[42,-39],[40.5,-40.5]]]}}]}\n')
 w("j_mask_regions.toml", J + 'layers = ["index"]\n[grid]\nmask = "regions"\n')
+# percent of normal and scheme units (issue 18 item 4). Kind "pon" runs
+# grid --stations FILE --kind pct-of-normal; "scheme" runs an SPI table.
+P = "station,latitude,longitude,pct_of_median\n"
+w("p_negative.csv", P + "KLV-01,-40.1,-125.2,62\nKLV-02,-40.3,-124.6,-8\n")
+w("p_ratios.csv", P + "KLV-01,-40.1,-125.2,0.62\nKLV-02,-40.3,-124.6,1.35\nKLV-03,-40.5,-124.1,0.9\n")
+w("p_absurd.csv", P + "KLV-01,-40.1,-125.2,62\nKLV-02,-40.3,-124.6,250000\n")
+BANDS2 = '[[band]]\nkey = "dry"\nlabel = "Dry"\ncolor = "#bf812d"\n[[band]]\nkey = "wet"\nlabel = "Wet"\ncolor = "#80cdc1"\n'
+w("sc_unit_percentile_for_spi.toml", 'unit = "percentile"\ncuts = [20]\ncut_belongs_to = "outer"\n' + BANDS2)
+w("sc_unit_pon_for_spi.toml", 'unit = "pct-of-normal"\ncuts = [70]\ncut_belongs_to = "outer"\n' + BANDS2)
+w("sc_unit_unknown.toml", 'unit = "mm"\ncuts = [20]\ncut_belongs_to = "outer"\n' + BANDS2)
+w("sc_unit_percentile_clamp.toml", 'unit = "percentile"\ncuts = [0.05]\ncut_belongs_to = "outer"\n' + BANDS2)
+w("p_z_scheme.toml", 'cuts = [-1.0]\ncut_belongs_to = "outer"\n' + BANDS2)
