@@ -111,6 +111,11 @@ type Job struct {
 	// Clock, when not nil, is the clock of the manifest's timings and of
 	// the time made on the picture and the page.
 	Clock func() time.Time
+	// Made, when not zero, is the time written as made on the picture and
+	// the page instead of the run's start: a fixed time makes those files
+	// reproducible byte for byte (the command line takes it from
+	// SOURCE_DATE_EPOCH, the reproducible-builds convention).
+	Made time.Time
 
 	// set by the index step
 	extraInputs  []manifest.File

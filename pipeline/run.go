@@ -454,7 +454,11 @@ func writeLayers(ctx context.Context, job *Job, res *Result, regions []region.Re
 	stage.SetOptions(publish.Options{Owned: owned(job), Inputs: inputs, Previous: previousOutputs})
 	err := func(dir string) error {
 		writeStart := job.now()
-		w := &layerWriter{job: job, res: res, regions: regions, dir: dir, made: start}
+		made := start
+		if !job.Made.IsZero() {
+			made = job.Made
+		}
+		w := &layerWriter{job: job, res: res, regions: regions, dir: dir, made: made}
 		for _, name := range LayerNames() {
 			if !job.Layers[name] {
 				continue

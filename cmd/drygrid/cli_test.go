@@ -10,6 +10,7 @@ import (
 	"runtime"
 	"strings"
 	"testing"
+	"time"
 
 	"drygrid/internal/reftest"
 )
@@ -170,5 +171,34 @@ func TestDemo(t *testing.T) {
 		if !strings.Contains(string(b), `ID["EPSG",4326]`) {
 			t.Errorf("gdalinfo %s: no EPSG:4326\n%s", f, b)
 		}
+	}
+}
+
+// TestSourceDateEpoch: with SOURCE_DATE_EPOCH set (the reproducible-builds
+// convention), two runs an hour apart write the same picture and page, the
+// production line saying the given time; without it the line says the
+// run's own time.
+func TestSourceDateEpoch(t *testing.T) {
+	prev := manifestNow
+	defer func() { manifestNow = prev }()
+	dir := t.TempDir()
+	t.Setenv("SOURCE_DATE_EPOCH", "1764806400") // 2025-12-04 00:00 UTC
+	var hashes []map[string]string
+	for i, h := range []int{3, 4} {
+		manifestNow = func() time.Time { return time.Date(2026, 12, 4, h, 0, 0, 0, time.UTC) }
+		out := filepath.Join(dir, string(rune('a'+i)))
+		if code := run([]string{"grid", "--stations", exampleSPI, "--layers", "map,page", "--out", out}); code != exitOK {
+			t.Fatalf("exit %d", code)
+		}
+		hashes = append(hashes, hashDir(t, out))
+	}
+	for _, name := range []string{"map.png", "map.html"} {
+		if hashes[0][name] == "" || hashes[0][name] != hashes[1][name] {
+			t.Errorf("%s differs between two runs with SOURCE_DATE_EPOCH", name)
+		}
+	}
+	page, err := os.ReadFile(filepath.Join(dir, "a", "map.html"))
+	if err != nil || !strings.Contains(string(page), "2025-12-04 00:00 UTC") {
+		t.Errorf("the page does not say the SOURCE_DATE_EPOCH time (%v)", err)
 	}
 }

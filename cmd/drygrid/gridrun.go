@@ -6,6 +6,7 @@ import (
 	"io"
 	"os"
 	"os/signal"
+	"strconv"
 	"syscall"
 	"time"
 
@@ -23,6 +24,9 @@ var manifestNow = time.Now
 func report(job *pipeline.Job, stderr io.Writer) func() {
 	job.Version = version
 	job.Clock = func() time.Time { return manifestNow() }
+	if t, ok := sourceDateEpoch(); ok {
+		job.Made = t
+	}
 	job.Warn = func(msg string) { fmt.Fprintf(stderr, "warning: %s\n", msg) }
 	job.Note = func(msg string) { fmt.Fprintln(stderr, msg) }
 	bars := map[string]*progress{}
@@ -44,6 +48,22 @@ func report(job *pipeline.Job, stderr io.Writer) func() {
 		}
 		clear(bars)
 	}
+}
+
+// sourceDateEpoch is the time in SOURCE_DATE_EPOCH (seconds since 1970,
+// the reproducible-builds convention), when set and valid: the time made
+// written on the picture and the page, so that two runs on the same inputs
+// give the same bytes.
+func sourceDateEpoch() (time.Time, bool) {
+	s := os.Getenv("SOURCE_DATE_EPOCH")
+	if s == "" {
+		return time.Time{}, false
+	}
+	n, err := strconv.ParseInt(s, 10, 64)
+	if err != nil || n < 0 {
+		return time.Time{}, false
+	}
+	return time.Unix(n, 0).UTC(), true
 }
 
 // runJob runs a job with the command line's progress bar, warnings and
