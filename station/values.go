@@ -172,11 +172,13 @@ func (t *Table) FindColumn(what, name string, aliases []string) (int, error) {
 }
 
 // MaxStations is the most stations (distinct ids) a value table may hold:
-// five million, about a hundred times the largest station networks in use,
-// and at about 150 bytes a station while reading (the station itself, its
-// id and two hash-table entries) under a gigabyte. A larger table is
-// refused rather than left to exhaust memory.
-const MaxStations = 5_000_000
+// one million, twice the largest networks drygrid is measured on (500,000
+// stations) and about twenty times the largest station networks in use.
+// At about 170 bytes a station while reading (the station itself, its id
+// and two hash-table entries) and the collector's slack, the process stays
+// under 300 MB however large the file (BENCHMARKS.md, "Memory"). A larger
+// table is refused rather than left to exhaust memory.
+const MaxStations = 1_000_000
 
 // valuesMaxStations is MaxStations (lowered by tests).
 var valuesMaxStations = MaxStations
