@@ -207,7 +207,7 @@ func (p *picPainter) hatchAt(x, y int) color.RGBA {
 func (p *picPainter) farPer() int { return max(6, p.px(6)) }
 
 // farLine says whether pixel (x, y) lies on a line of the far-cell hatch:
-// thin lines rising to the right (the no-data hatch falls), in image
+// thin lines falling to the right (the no-data hatch rises), in image
 // coordinates so the legend swatch matches the map.
 func (p *picPainter) farLine(x, y int) bool {
 	per := p.farPer()
