@@ -1,5 +1,7 @@
 package layer
 
+import "strconv"
+
 // Caution is the caution that every human-facing output carries when the
 // caller gives none: the maps are interpolated estimates, not official
 // declarations, and the national service and local rules come first.
@@ -9,3 +11,9 @@ const Caution = "Caution: these bands are estimates interpolated from a network 
 
 // NoDataLabel names the cells without an estimate in legends.
 const NoDataLabel = "No data (too few stations)"
+
+// FarLabel is the legend entry of the far-cell hatch of the picture and
+// the page: "Nearest station over 150 km".
+func FarLabel(km float64) string {
+	return "Nearest station over " + strconv.FormatFloat(km, 'g', -1, 64) + " km"
+}

@@ -59,6 +59,11 @@ type Job struct {
 	// StationsOnMap says which station markers map.png draws: "auto" (""
 	// too: thinned and shrunk on a dense network), "all" or "none".
 	StationsOnMap string
+	// HatchBeyondKm, when above 0, hatches on map.png and map.html the
+	// cells that hold a value but whose nearest station is farther than
+	// this many km (Result.SupportRows), with a legend entry; 0 leaves
+	// the maps as they were.
+	HatchBeyondKm float64
 	Out           string // output directory, replaced atomically
 	// AllowEmpty publishes a map all the same when no station lies inside
 	// the grid or no cell has a value (otherwise an error: an empty map
@@ -200,7 +205,7 @@ func (j *Job) Validate() error {
 		return Usagef("--out DIR is required")
 	}
 	for _, check := range []func() error{j.checkRes, j.checkSimplify, j.checkParams, j.checkLayerNames,
-		j.checkHistory, j.checkDate, j.checkRegionsLayer, j.checkBBox, j.checkStationsOnMap, j.checkMask} {
+		j.checkHistory, j.checkDate, j.checkRegionsLayer, j.checkBBox, j.checkStationsOnMap, j.checkHatch, j.checkMask} {
 		if err := check(); err != nil {
 			return err
 		}
@@ -240,6 +245,13 @@ func (j *Job) checkRes() error {
 func (j *Job) checkStationsOnMap() error {
 	if _, err := picture.ParseStationMarks(j.StationsOnMap); err != nil {
 		return usageAt("--stations-on-map ", "output.stations_on_map", fmt.Sprintf("%q: must be auto, all or none", j.StationsOnMap))
+	}
+	return nil
+}
+
+func (j *Job) checkHatch() error {
+	if j.HatchBeyondKm < 0 || math.IsNaN(j.HatchBeyondKm) || math.IsInf(j.HatchBeyondKm, 0) {
+		return usageAt("--hatch-beyond-km ", "output.hatch_beyond_km", fmt.Sprintf("%g: must be 0 (off) or more", j.HatchBeyondKm))
 	}
 	return nil
 }

@@ -78,6 +78,7 @@ type jobFile struct {
 		Layers        []string `toml:"layers"`
 		SimplifyKm    float64  `toml:"simplify_km"`
 		StationsOnMap string   `toml:"stations_on_map"`
+		HatchBeyondKm float64  `toml:"hatch_beyond_km"`
 	} `toml:"output"`
 	History struct {
 		File string `toml:"file"`
@@ -93,7 +94,7 @@ var jobKnownKeys = map[string][]string{
 	"interpolation": {"power", "neighbors", "radius_km", "min_stations", "sectors", "crossval"},
 	"bands":         {"scheme"},
 	"regions":       {"file", "key"},
-	"output":        {"dir", "layers", "simplify_km", "stations_on_map"},
+	"output":        {"dir", "layers", "simplify_km", "stations_on_map", "hatch_beyond_km"},
 	"history":       {"file"},
 }
 
@@ -483,6 +484,7 @@ func (p *jobParser) build(f *jobFile, md *toml.MetaData) (*Job, error) {
 	j.Title = f.Title // "" = from the kind, window and date, at run time
 	j.Source = strings.TrimSpace(f.Source)
 	j.StationsOnMap = f.Output.StationsOnMap
+	j.HatchBeyondKm = f.Output.HatchBeyondKm
 	if err := j.Validate(); err != nil {
 		return nil, p.usage(err)
 	}
@@ -563,6 +565,7 @@ dir = "daily"                           # replaced atomically; files drygrid did
 layers = ["index", "bands", "geojson", "stations", "regions", "map", "page"]   # or ["all"]
 # simplify_km = 0.0                     # simplify band polygons (0: exact cell edges)
 # stations_on_map = "auto"              # station markers on map.png: auto (thinned when dense), all, none
+# hatch_beyond_km = 0.0                 # hatch cells whose nearest station is farther (0: off)
 
 [history]
 file = "history.csv"                    # area in drought per region and date, appended (needs date and regions)

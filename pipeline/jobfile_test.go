@@ -25,6 +25,7 @@ key = "code"
 dir = "../out"
 layers = ["index", "bands", "regions"]
 stations_on_map = "none"
+hatch_beyond_km = 150
 `
 	j, err := ParseJobFile(filepath.Join("jobs", "daily", "job.toml"), []byte(src))
 	if err != nil {
@@ -43,6 +44,13 @@ stations_on_map = "none"
 	p := j.Params
 	if j.Res != 0.1 || p.Power != 2 || p.Neighbors != 12 || p.RadiusKm != 300 || p.MinStations != 3 {
 		t.Errorf("defaults res %g params %+v", j.Res, p)
+	}
+	if j.HatchBeyondKm != 150 {
+		t.Errorf("hatch beyond %g km, want 150", j.HatchBeyondKm)
+	}
+	if _, err := ParseJobFile("job.toml", []byte("[inputs]\nstations = \"s.csv\"\n[output]\ndir = \"o\"\nhatch_beyond_km = -5\n")); err == nil ||
+		!strings.Contains(err.Error(), "hatch_beyond_km") {
+		t.Errorf("hatch_beyond_km = -5: %v, want an error naming the key", err)
 	}
 	if j.Source != "Invented Met Service" || j.StationsOnMap != "none" {
 		t.Errorf("source %q, stations on map %q", j.Source, j.StationsOnMap)

@@ -67,6 +67,9 @@ func buildManifest(job *Job, res *Result, dir string, start time.Time) (*manifes
 		params["index_unit"] = job.units()
 		params["scheme_unit"] = string(res.Scheme.Unit)
 	}
+	if job.HatchBeyondKm > 0 {
+		params["hatch_beyond_km"] = job.HatchBeyondKm // left out when off, so the manifest stays as it was
+	}
 	if job.Mask != "" {
 		params["mask"] = job.Mask
 	}

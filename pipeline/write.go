@@ -4,6 +4,7 @@ import (
 	"bufio"
 	"bytes"
 	"drygrid/geotiff"
+	"drygrid/grid"
 	"drygrid/layer"
 	"drygrid/layer/geojson"
 	"drygrid/publish"
@@ -25,6 +26,9 @@ type layerWriter struct {
 	made    time.Time // the run's start: the time made on the picture and the page
 
 	bandsGJ, stationsGJ []byte // encoded once, for the files and the page
+
+	far     *grid.Uint8 // the cells hatched on the picture and the page (Job.HatchBeyondKm), computed once
+	farDone bool
 }
 
 func (w *layerWriter) path(name string) string { return filepath.Join(w.dir, name) }

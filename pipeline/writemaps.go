@@ -75,6 +75,11 @@ func (w *layerWriter) writePicture() error {
 	in := picture.Input{Bands: w.res.Bands, Scheme: w.res.Scheme,
 		Title: w.title(), Subtitle: w.subtitle(), Caution: layer.Caution, Produced: w.produced()}
 	in.Stations = picturePoints(w.res.Values)
+	far, err := w.farRaster()
+	if err != nil {
+		return err
+	}
+	in.Far, in.FarKm = far, w.job.HatchBeyondKm
 	for _, r := range w.regions {
 		in.Regions = append(in.Regions, picture.Region{Name: r.Key, Geom: r.Geom})
 	}
@@ -95,6 +100,16 @@ func (w *layerWriter) writePage() error {
 	in := page.Input{Title: w.title(), Subtitle: w.subtitle(), Caution: layer.Caution,
 		Scheme: w.res.Scheme, BandsGeoJSON: bands, StationsGeoJSON: stations,
 		BBox: [4]float64{spec.West, spec.South(), spec.East(), spec.North}, Produced: w.produced()}
+	far, err := w.farRaster()
+	if err != nil {
+		return err
+	}
+	if far != nil {
+		if in.FarGeoJSON, err = farGeoJSON(far, w.job.HatchBeyondKm); err != nil {
+			return err
+		}
+		in.FarKm = w.job.HatchBeyondKm
+	}
 	if w.job.Layers["stations"] {
 		in.StationsHref = "stations.geojson" // beside map.html: every station when the page shows a subset
 	}

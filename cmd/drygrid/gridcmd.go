@@ -26,6 +26,7 @@ type gridFlags struct {
 	title      string
 	source     string
 	stationsOn string
+	hatchKm    float64
 	history    string
 	date       string
 	out        string
@@ -124,6 +125,7 @@ The layers are interpolated estimates, not official drought declarations.`,
 	fl.Float64Var(&f.simplifyKm, "simplify-km", 0, "simplify band polygons to this tolerance in km (0: exact cell edges)")
 	fl.StringVar(&f.title, "title", "", "title for the picture and the page")
 	fl.StringVar(&f.source, "source", "", "the data's source, named in the production line under the picture and the page (default: left out)")
+	fl.Float64Var(&f.hatchKm, "hatch-beyond-km", 0, "hatch on map.png and map.html the cells whose nearest station is farther than KM km (0: off)")
 	fl.StringVar(&f.stationsOn, "stations-on-map", "auto", "station markers on map.png: auto (every station up to 500; beyond, smaller and thinned to one per map cell, at most 2,000), all, or none")
 	fl.StringVar(&f.history, "history", "", "append the day's region rows to this CSV (with --regions); re-running a date replaces its rows")
 	fl.StringVar(&f.date, "date", "", "the date the values describe, YYYY-MM-DD: in the titles and metadata, and the key of the history rows (history default: today, UTC)")
@@ -144,7 +146,7 @@ func (f gridFlags) job() (pipeline.Job, error) {
 	j := pipeline.Job{
 		Stations: f.stations, Values: values,
 		Res: f.res, Params: f.params(), Scheme: f.scheme, Regions: f.regions, RegionKey: f.regionKey, Mask: f.mask,
-		SimplifyKm: f.simplifyKm, Title: f.title, Source: f.source, StationsOnMap: f.stationsOn, Out: f.out,
+		SimplifyKm: f.simplifyKm, Title: f.title, Source: f.source, StationsOnMap: f.stationsOn, HatchBeyondKm: f.hatchKm, Out: f.out,
 		History: f.history, Date: f.date, CrossVal: f.crossval, Command: "grid", AllowEmpty: f.allowEmpty,
 	}
 	layers, layersErr := pipeline.ParseLayers(f.layers)

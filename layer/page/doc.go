@@ -12,7 +12,11 @@
 // and the page says how many it shows of how many and links the whole
 // layer (Input.StationsHref, stations.geojson beside the page). Encode(w, in)
 // error writes the page to an io.Writer and WriteFile beside it writes the
-// file through a temporary name renamed at the end.
+// file through a temporary name renamed at the end. With Input.FarGeoJSON
+// the page draws the cells whose nearest station is farther than
+// Input.FarKm over the bands with an SVG hatch pattern (assets/far.js,
+// carried and hashed into the CSP only then) and the legend says "Nearest
+// station over FarKm km"; without it the page is as it was.
 //
 // The page loads nothing from the network: its HTML, script and style are
 // embedded (the assets directory) and the layers inlined, and its

@@ -55,6 +55,13 @@ type Input struct {
 	// "stations.geojson" beside map.html), linked when the page shows a
 	// subset.
 	StationsHref string
+	// FarGeoJSON is an RFC 7946 document of the cells whose nearest
+	// station is farther than FarKm km (drawn over the bands with a thin
+	// diagonal hatch); nil or empty leaves the layer out. FarKm above 0
+	// adds the legend entry "Nearest station over FarKm km"; 0 leaves the
+	// page as it was.
+	FarGeoJSON []byte
+	FarKm      float64
 }
 
 //go:embed assets/page.html
@@ -62,6 +69,9 @@ var pageHTML string
 
 //go:embed assets/page.js
 var pageJS string
+
+//go:embed assets/far.js
+var farJS string
 
 //go:embed assets/page.css
 var pageCSS string
@@ -139,6 +149,9 @@ type pageView struct {
 	Bands                    template.JS
 	Stations                 template.JS
 	Regions                  template.JS
+	Far                      template.JS
+	FarLabel                 string // the far layer's legend entry ("" without one)
+	HasFar                   bool
 	Legend                   []pageBand
 	LegendNote               string // what the legend's ranges are in (bands.Scheme.LegendNote)
 	NoDataLabel              string
@@ -173,8 +186,25 @@ func pageData(in Input, extraJS string) (*pageView, error) {
 		NoDataLabel: layer.NoDataLabel,
 		LegendNote:  in.Scheme.LegendNote(),
 		Style:       template.CSS(pageCSS),
-		Script:      template.JS(pageJS + extraJS),
 	}
+	if math.IsNaN(in.FarKm) || math.IsInf(in.FarKm, 0) || in.FarKm < 0 {
+		return nil, fmt.Errorf("page: far-cell distance %g km must be 0 (none) or more", in.FarKm)
+	}
+	if in.FarKm > 0 {
+		v.FarLabel = layer.FarLabel(in.FarKm)
+	}
+	script := pageJS
+	if s, err := pageEmbedJSON(in.FarGeoJSON); err != nil {
+		return nil, fmt.Errorf("page: far GeoJSON: %w", err)
+	} else if s != "null" {
+		if in.FarKm == 0 {
+			return nil, errors.New("page: a far layer needs its distance (FarKm)")
+		}
+		v.Far, v.HasFar = template.JS(s), true
+		script += farJS // the far layer's drawing, carried only with the layer
+	}
+	script += extraJS
+	v.Script = template.JS(script)
 	if v.Title == "" {
 		v.Title = "Precipitation index bands"
 	}
@@ -244,7 +274,7 @@ func pageData(in Input, extraJS string) (*pageView, error) {
 			*l.has = s != "null"
 		}
 	}
-	v.CSP = "default-src 'none'; script-src '" + pageHash(pageJS+extraJS) + "'; style-src '" + pageHash(pageCSS) +
+	v.CSP = "default-src 'none'; script-src '" + pageHash(script) + "'; style-src '" + pageHash(pageCSS) +
 		"'; img-src data:; base-uri 'none'; form-action 'none'"
 	return v, nil
 }

@@ -8,6 +8,10 @@
 // subtitle (the date, the window, the index kind and the interpolation
 // parameters, as the caller words them), the caution and the production
 // line (Input.Produced: when made, what it shows, the data's source).
+// With Input.Far the cells holding a value whose nearest station is farther
+// than Input.FarKm are overdrawn with thin dark-grey diagonal lines (falling
+// to the right, where the no-data hatch rises), only inside those cells,
+// and the legend says "Nearest station over FarKm km".
 //
 // Station markers (Options.Stations): in auto mode up to FewStations (500)
 // inside the map are all drawn at full size; beyond that the markers shrink

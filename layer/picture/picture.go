@@ -40,6 +40,13 @@ type Input struct {
 	// "made 2026-12-01 06:00 UTC · SPI, 30 days ending 2026-11-30 · data:
 	// Kelverin Met Service (fictitious)"; empty leaves it out.
 	Produced string
+	// Far, when set, marks (nonzero) the cells of Bands whose nearest
+	// station is farther than FarKm km; those holding a value are overdrawn
+	// with a thin dark-grey diagonal hatch and the legend gets the entry
+	// "Nearest station over FarKm km". It has Bands' grid. Nil leaves the
+	// picture as it was.
+	Far   *grid.Uint8
+	FarKm float64
 }
 
 // Options tunes the picture.
@@ -82,6 +89,7 @@ var (
 	picGrat       = color.NRGBA{20, 20, 20, 64}
 	picCautionBg  = color.RGBA{0xee, 0xee, 0xee, 255}
 	picCautionBar = color.RGBA{0x33, 0x33, 0x33, 255}
+	picFarLine    = color.RGBA{0x4d, 0x4d, 0x4d, 255} // the far-cell hatch: thin dark-grey lines
 )
 
 // layer.NoDataLabel labels the no-data swatch.
@@ -122,6 +130,12 @@ func picCheck(in Input, opt *Options) error {
 	}
 	if len(in.Bands.Data) != s.Len() {
 		return fmt.Errorf("picture: band raster holds %d cells, grid %d x %d needs %d", len(in.Bands.Data), s.Cols, s.Rows, s.Len())
+	}
+	if in.Far != nil && (in.Far.Spec != s || len(in.Far.Data) != len(in.Bands.Data)) {
+		return fmt.Errorf("picture: far-cell raster grid %v is not the bands' %v", in.Far.Spec, s)
+	}
+	if in.Far != nil && (!(in.FarKm > 0) || math.IsInf(in.FarKm, 0)) {
+		return fmt.Errorf("picture: far-cell distance %g km must be above 0", in.FarKm)
 	}
 	if opt.Width == 0 {
 		opt.Width = 1400

@@ -38,6 +38,20 @@ func (p *picPainter) legendItems() []picLegendItem {
 		}
 		picBorder(dst, r)
 	}})
+	if p.in.Far != nil {
+		items = append(items, picLegendItem{label: layer.FarLabel(p.in.FarKm), swatch: func(dst *image.RGBA, r image.Rectangle) {
+			for yy := r.Min.Y; yy < r.Max.Y; yy++ {
+				for xx := r.Min.X; xx < r.Max.X; xx++ {
+					c := picWhite
+					if p.farLine(xx, yy) {
+						c = picFarLine
+					}
+					dst.SetRGBA(xx, yy, c)
+				}
+			}
+			picBorder(dst, r)
+		}})
+	}
 	gap := true
 	if n := p.stationsDrawn(); n > 0 {
 		items = append(items, picLegendItem{label: picStationLabel(n, p.marks.inside), gapBefore: gap, swatch: func(dst *image.RGBA, r image.Rectangle) {

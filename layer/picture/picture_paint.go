@@ -203,6 +203,17 @@ func (p *picPainter) hatchAt(x, y int) color.RGBA {
 	return picNoData
 }
 
+// farPer is the spacing in pixels of the far-cell hatch.
+func (p *picPainter) farPer() int { return max(6, p.px(6)) }
+
+// farLine says whether pixel (x, y) lies on a line of the far-cell hatch:
+// thin lines falling to the right (the no-data hatch rises), in image
+// coordinates so the legend swatch matches the map.
+func (p *picPainter) farLine(x, y int) bool {
+	per := p.farPer()
+	return ((x-y)%per+per)%per == 0
+}
+
 // drawBands fills the map rectangle with the band colours, each pixel
 // taking the cell under its centre (nearest neighbour).
 func (p *picPainter) drawBands() {
@@ -222,6 +233,10 @@ func (p *picPainter) drawBands() {
 	for i := range cols {
 		cols[i] = min(int((float64(i)+0.5)/float64(r.Dx())*float64(spec.Cols)), spec.Cols-1)
 	}
+	var far []uint8
+	if p.in.Far != nil {
+		far = p.in.Far.Data
+	}
 	for j := 0; j < r.Dy(); j++ {
 		row := min(int((float64(j)+0.5)/float64(r.Dy())*float64(spec.Rows)), spec.Rows-1)
 		y := r.Min.Y + j
@@ -231,6 +246,8 @@ func (p *picPainter) drawBands() {
 			col := p.lut[code]
 			if p.noDataCodes[code] {
 				col = p.hatchAt(r.Min.X+i, y)
+			} else if far != nil && far[row*spec.Cols+c] != 0 && p.farLine(r.Min.X+i, y) {
+				col = picFarLine
 			}
 			px := p.img.Pix[off+4*i : off+4*i+4 : off+4*i+4]
 			px[0], px[1], px[2], px[3] = col.R, col.G, col.B, 255
