@@ -3,8 +3,6 @@ package interp
 import (
 	"fmt"
 	"math"
-
-	"drygrid/internal/pool"
 )
 
 // KmPerDegree is the length of a degree of latitude used to size the
@@ -82,20 +80,9 @@ func (ip *Interpolator) crossValidateBlocks(pts []Point, blockKm float64, classi
 		}
 		blockOf[r] = b
 	}
-	rank := make([]int32, n)
-	for r, i := range ip.id {
-		rank[i] = int32(r)
-	}
-	res := make([]Residual, n)
-	const chunk = 64
-	cands := make([]*cands, pool.Count(n, ip.p.Workers, chunk))
-	pool.Run(n, ip.p.Workers, chunk, func(w, lo, hi int) {
-		if cands[w] == nil {
-			cands[w] = newCands(ip.k)
-		}
-		for i := lo; i < hi; i++ {
-			res[i] = ip.leaveBlockOut(cands[w], pts[i], blockOf, blockOf[rank[i]], classify)
-		}
+	rank := ip.ranks(len(pts))
+	res := ip.predictEach(n, func(c *cands, i int) Residual {
+		return ip.leaveBlockOut(c, pts[i], blockOf, blockOf[rank[i]], classify)
 	})
 	out := summarise(ip.p, res, classify != nil)
 	out.BlockKm, out.Blocks = blockKm, len(ids)

@@ -60,23 +60,38 @@ func CrossValidate(pts []Point, p Params, classify func(z float64) uint8) (Cross
 
 // crossValidate is CrossValidate over the points ip was built from.
 func (ip *Interpolator) crossValidate(pts []Point, classify func(z float64) uint8) CrossValResult {
-	n := len(pts)
+	rank := ip.ranks(len(pts))
+	res := ip.predictEach(len(pts), func(c *cands, i int) Residual {
+		return ip.leaveOneOut(c, pts[i], rank[i], classify)
+	})
+	return summarise(ip.p, res, classify != nil)
+}
+
+// ranks gives each of the n input points its place in the interpolator's
+// sorted order.
+func (ip *Interpolator) ranks(n int) []int32 {
 	rank := make([]int32, n)
 	for r, i := range ip.id {
 		rank[i] = int32(r)
 	}
+	return rank
+}
+
+// predictEach runs predict for the points 0..n-1 on the worker pool, each
+// worker with its own candidate list, and gives the residuals in order.
+func (ip *Interpolator) predictEach(n int, predict func(c *cands, i int) Residual) []Residual {
 	res := make([]Residual, n)
 	const chunk = 64
-	cands := make([]*cands, pool.Count(n, ip.p.Workers, chunk))
+	cs := make([]*cands, pool.Count(n, ip.p.Workers, chunk))
 	pool.Run(n, ip.p.Workers, chunk, func(w, lo, hi int) {
-		if cands[w] == nil {
-			cands[w] = newCands(ip.k)
+		if cs[w] == nil {
+			cs[w] = newCands(ip.k)
 		}
 		for i := lo; i < hi; i++ {
-			res[i] = ip.leaveOneOut(cands[w], pts[i], rank[i], classify)
+			res[i] = predict(cs[w], i)
 		}
 	})
-	return summarise(ip.p, res, classify != nil)
+	return res
 }
 
 // leaveOneOut predicts station q (rank self) from the others.

@@ -15,7 +15,7 @@ var floor = map[string]int{
 	// Ground: imports nothing of ours.
 	"grid": 0, "spi": 0, "scenario": 0, "publish": 0, "layer": 0,
 	"internal/pool": 0, "internal/tomlpos": 0, "internal/reftest": 0, "interp/internal/lanes": 0,
-	"internal/layout": 0,
+	"internal/layout": 0, "internal/spitest": 1,
 	// Schemes, tables, polygons, the provenance record.
 	"bands": 1, "station": 1, "polygon": 1, "manifest": 1,
 	// Regions, interpolation, the GeoTIFF codec; test fixtures.
