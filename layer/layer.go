@@ -12,6 +12,9 @@ const Caution = "Caution: these bands are estimates interpolated from a network 
 // NoDataLabel names the cells without an estimate in legends.
 const NoDataLabel = "No data (too few stations)"
 
+// NoDataMaskedLabel names them when a mask also empties cells.
+const NoDataMaskedLabel = "No data (outside the mask, or too few stations)"
+
 // FarLabel is the legend entry of the far-cell hatch of the picture and
 // the page: "Nearest station over 150 km".
 func FarLabel(km float64) string {

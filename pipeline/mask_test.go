@@ -13,6 +13,7 @@ import (
 	"drygrid/geotiff"
 	"drygrid/grid"
 	"drygrid/internal/reftest"
+	"drygrid/layer"
 )
 
 // maskRing is an invented coastline around the example's stations, wholly
@@ -196,5 +197,32 @@ func TestMaskRegions(t *testing.T) {
 	}
 	if a.tally.Shares != b.tally.Shares || len(a.Regions) != 1 {
 		t.Errorf("mask regions %v, mask file %v", a.tally.AreaKm2, b.tally.AreaKm2)
+	}
+}
+
+// TestMaskNoDataLabel: with a mask the legends of the page say that cells
+// outside it are no data too; without one they say as before.
+func TestMaskNoDataLabel(t *testing.T) {
+	for _, withMask := range []bool{false, true} {
+		out := filepath.Join(t.TempDir(), "layers")
+		job := maskJob(out, writeMask(t, maskRing))
+		if !withMask {
+			job.Mask = ""
+		}
+		job.Layers, _ = ParseLayers("page")
+		if _, err := Run(context.Background(), job); err != nil {
+			t.Fatal(err)
+		}
+		page, err := os.ReadFile(filepath.Join(out, "map.html"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		want, other := layer.NoDataLabel, layer.NoDataMaskedLabel
+		if withMask {
+			want, other = other, want
+		}
+		if !strings.Contains(string(page), want) || strings.Contains(string(page), other) {
+			t.Errorf("mask %v: the page does not name no data as %q", withMask, want)
+		}
 	}
 }

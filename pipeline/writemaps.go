@@ -70,11 +70,21 @@ func (w *layerWriter) produced() string {
 	return strings.Join(parts, " · ")
 }
 
+// noDataLabel names the cells without a value in the legends: with a
+// mask, cells outside it are among them.
+func (w *layerWriter) noDataLabel() string {
+	if w.job.Mask != "" {
+		return layer.NoDataMaskedLabel
+	}
+	return layer.NoDataLabel
+}
+
 // writePicture writes map.png.
 func (w *layerWriter) writePicture() error {
 	in := picture.Input{Bands: w.res.Bands, Scheme: w.res.Scheme,
 		Title: w.title(), Subtitle: w.subtitle(), Caution: layer.Caution, Produced: w.produced()}
 	in.Stations = picturePoints(w.res.Values)
+	in.NoDataLabel = w.noDataLabel()
 	far, err := w.farRaster()
 	if err != nil {
 		return err
@@ -99,7 +109,8 @@ func (w *layerWriter) writePage() error {
 	spec := w.res.Spec
 	in := page.Input{Title: w.title(), Subtitle: w.subtitle(), Caution: layer.Caution,
 		Scheme: w.res.Scheme, BandsGeoJSON: bands, StationsGeoJSON: stations,
-		BBox: [4]float64{spec.West, spec.South(), spec.East(), spec.North}, Produced: w.produced()}
+		BBox: [4]float64{spec.West, spec.South(), spec.East(), spec.North}, Produced: w.produced(),
+		NoDataLabel: w.noDataLabel()}
 	far, err := w.farRaster()
 	if err != nil {
 		return err

@@ -3,6 +3,7 @@ package page
 import (
 	"bufio"
 	"bytes"
+	"cmp"
 	"crypto/sha256"
 	_ "embed"
 	"encoding/base64"
@@ -34,6 +35,7 @@ type RegionRow struct {
 type Input struct {
 	Title, Subtitle string
 	Caution         string // empty gives layer.Caution
+	NoDataLabel     string // the legend's no-data entry; empty gives layer.NoDataLabel
 	Scheme          *bands.Scheme
 	// RFC 7946 documents from drygrid's writers; nil or empty leaves the
 	// layer out. Bands: properties code, key, label, color, drought,
@@ -183,7 +185,7 @@ func pageData(in Input, extraJS string) (*pageView, error) {
 		Title:       strings.TrimSpace(in.Title),
 		Subtitle:    strings.TrimSpace(in.Subtitle),
 		Caution:     strings.TrimSpace(in.Caution),
-		NoDataLabel: layer.NoDataLabel,
+		NoDataLabel: cmp.Or(in.NoDataLabel, layer.NoDataLabel),
 		LegendNote:  in.Scheme.LegendNote(),
 		Style:       template.CSS(pageCSS),
 	}
@@ -250,7 +252,7 @@ func pageData(in Input, extraJS string) (*pageView, error) {
 	for _, r := range in.Regions {
 		v.Rows = append(v.Rows, pageMakeRow(r, v.Legend))
 	}
-	meta, err := json.Marshal(pageMeta{BBox: b, Bands: v.Legend, Regions: v.Rows, NoDataLabel: layer.NoDataLabel})
+	meta, err := json.Marshal(pageMeta{BBox: b, Bands: v.Legend, Regions: v.Rows, NoDataLabel: v.NoDataLabel})
 	if err != nil {
 		return nil, fmt.Errorf("page: encode region table: %w", err)
 	}

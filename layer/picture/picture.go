@@ -36,6 +36,8 @@ type Input struct {
 	Title    string // e.g. "Kelverin Islands (fictitious) - SPI, 30 days ending 30 November 2025"
 	Subtitle string // e.g. "IDW power 2, 12 neighbours, 300 km; 214 stations"
 	Caution  string // the caution line; empty gives drygrid's standard caution
+	// NoDataLabel labels the no-data swatch; empty gives layer.NoDataLabel.
+	NoDataLabel string
 	// Produced is the production line drawn under the caution, e.g.
 	// "made 2026-12-01 06:00 UTC · SPI, 30 days ending 2026-11-30 · data:
 	// Kelverin Met Service (fictitious)"; empty leaves it out.

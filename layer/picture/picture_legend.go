@@ -30,7 +30,11 @@ func (p *picPainter) legendItems() []picLegendItem {
 			picBorder(dst, r)
 		}})
 	}
-	items = append(items, picLegendItem{label: layer.NoDataLabel, swatch: func(dst *image.RGBA, r image.Rectangle) {
+	noData := p.in.NoDataLabel
+	if noData == "" {
+		noData = layer.NoDataLabel
+	}
+	items = append(items, picLegendItem{label: noData, swatch: func(dst *image.RGBA, r image.Rectangle) {
 		for yy := r.Min.Y; yy < r.Max.Y; yy++ {
 			for xx := r.Min.X; xx < r.Max.X; xx++ {
 				dst.SetRGBA(xx, yy, p.hatchAt(xx, yy))
