@@ -1,6 +1,7 @@
 package spi
 
 import (
+	"drygrid/internal/spitest"
 	"errors"
 	"math"
 	"testing"
@@ -50,22 +51,22 @@ func TestGammaFitSciPy(t *testing.T) {
 	samples := [][]float64{
 		{1, 2, 4},
 		{0.5, 3},
-		idxGammaSample(1, 20, 0.3, 40, false),
-		idxGammaSample(2, 30, 1, 25, true),
-		idxGammaSample(3, 60, 2.5, 12, true),
-		idxGammaSample(4, 100, 10, 3, false),
-		idxGammaSample(5, 200, 80, 0.5, false),
-		append([]float64{0, 0, 0}, idxGammaSample(6, 40, 0.8, 10, true)...),
+		spitest.GammaSample(1, 20, 0.3, 40, false),
+		spitest.GammaSample(2, 30, 1, 25, true),
+		spitest.GammaSample(3, 60, 2.5, 12, true),
+		spitest.GammaSample(4, 100, 10, 3, false),
+		spitest.GammaSample(5, 200, 80, 0.5, false),
+		append([]float64{0, 0, 0}, spitest.GammaSample(6, 40, 0.8, 10, true)...),
 	}
 	var ref []struct{ Shape, Scale, A2 float64 }
-	idxRunRef(t, &ref, samples, "fit")
+	spitest.RunRef(t, spitest.Script, &ref, samples, "fit")
 	for i, x := range samples {
 		shape, scale, err := GammaFit(x)
 		if err != nil {
 			t.Errorf("sample %d: %v", i, err)
 			continue
 		}
-		if !idxRelClose(shape, ref[i].Shape, 1e-6) || !idxRelClose(scale, ref[i].Scale, 1e-6) {
+		if !spitest.RelClose(shape, ref[i].Shape, 1e-6) || !spitest.RelClose(scale, ref[i].Scale, 1e-6) {
 			t.Errorf("sample %d: shape %.9g scale %.9g, SciPy %.9g %.9g", i, shape, scale, ref[i].Shape, ref[i].Scale)
 		}
 	}

@@ -1,6 +1,7 @@
 package spi
 
 import (
+	"drygrid/internal/spitest"
 	"math"
 	"math/rand/v2"
 	"testing"
@@ -11,20 +12,20 @@ import (
 // of Stephens (1974) (scipy.stats.anderson has no gamma case in 1.10).
 func TestADStatisticSciPy(t *testing.T) {
 	samples := [][]float64{
-		idxGammaSample(21, 30, 0.7, 20, true),
-		idxGammaSample(22, 60, 2, 25, true),
-		idxGammaSample(23, 100, 8, 4, false),
+		spitest.GammaSample(21, 30, 0.7, 20, true),
+		spitest.GammaSample(22, 60, 2, 25, true),
+		spitest.GammaSample(23, 100, 8, 4, false),
 		idxBimodal(24, 40),
 	}
 	var ref []struct{ Shape, Scale, A2 float64 }
-	idxRunRef(t, &ref, samples, "fit")
+	spitest.RunRef(t, spitest.Script, &ref, samples, "fit")
 	for i, x := range samples {
 		shape, scale, err := GammaFit(x)
 		if err != nil {
 			t.Fatal(err)
 		}
 		a2 := AndersonDarlingGamma(x, shape, scale)
-		if !idxRelClose(a2, ref[i].A2, 1e-6) {
+		if !spitest.RelClose(a2, ref[i].A2, 1e-6) {
 			t.Errorf("sample %d: A2 %.9f, SciPy/NumPy %.9f", i, a2, ref[i].A2)
 		}
 	}
@@ -47,7 +48,7 @@ func TestADCriticalValuesSciPy(t *testing.T) {
 			FittedShape float64 `json:"fitted_shape"`
 		}
 		in := map[string]any{"shape": shape, "scale": 10, "n": 100, "nmc": 2000, "seed": 100 + i}
-		idxRunRef(t, &ref, in, "adnull")
+		spitest.RunRef(t, spitest.Script, &ref, in, "adnull")
 		got := ADCritical5(ref.FittedShape)
 		t.Logf("shape %.3f: table 5 %% point %.3f, SciPy bootstrap %.3f", ref.FittedShape, got, ref.Crit5)
 		if math.Abs(got-ref.Crit5) > 0.04 {
@@ -73,7 +74,7 @@ func TestADCriticalValuesBootstrap(t *testing.T) {
 			SE    float64 `json:"se"`
 		} `json:"points"`
 	}
-	idxRunRef(t, &ref, map[string]any{"shapes": shapes, "n": 100, "nmc": 20000, "seed": 2026}, "adtable")
+	spitest.RunRef(t, spitest.Script, &ref, map[string]any{"shapes": shapes, "n": 100, "nmc": 20000, "seed": 2026}, "adtable")
 	if len(ref.Points) != len(shapes) {
 		t.Fatalf("%d points for %d shapes", len(ref.Points), len(shapes))
 	}
@@ -139,7 +140,7 @@ func idxADSize(t *testing.T, shape float64) {
 	rejected := 0
 	const m = 400
 	for i := 0; i < m; i++ {
-		x := idxGammaSample(uint64(1000+i), 50, shape, 30, false)
+		x := spitest.GammaSample(uint64(1000+i), 50, shape, 30, false)
 		shape, scale, err := GammaFit(x)
 		if err != nil {
 			t.Fatal(err)

@@ -1,6 +1,7 @@
 package spi
 
 import (
+	"drygrid/internal/spitest"
 	"math"
 	"testing"
 )
@@ -22,10 +23,10 @@ func TestMidRankPercentileSciPy(t *testing.T) {
 		{[]float64{4, 5, 6}, 1},
 		{[]float64{4, 5, 6}, 10},
 		{[]float64{7}, 7},
-		{idxGammaSample(9, 45, 1.5, 20, true), 20.1},
+		{spitest.GammaSample(9, 45, 1.5, 20, true), 20.1},
 	}
 	var ref []float64
-	idxRunRef(t, &ref, cases, "pct")
+	spitest.RunRef(t, spitest.Script, &ref, cases, "pct")
 	for i, c := range cases {
 		if got := MidRankPercentile(c.Sample, c.X); math.Abs(got-ref[i]) > 1e-9 {
 			t.Errorf("case %d: %.10f, SciPy %.10f", i, got, ref[i])
@@ -37,7 +38,7 @@ func TestMidRankPercentileSciPy(t *testing.T) {
 // mid-rank percentiles of its members average exactly 50, because the
 // mid-ranks sum to n(n+1)/2.
 func TestMidRankPercentileMeanIs50(t *testing.T) {
-	x := idxGammaSample(11, 300, 0.7, 5, true) // many ties at 0.1 mm
+	x := spitest.GammaSample(11, 300, 0.7, 5, true) // many ties at 0.1 mm
 	x = append(x, 0, 0, 0, 0)
 	var sum float64
 	for _, v := range x {

@@ -1,6 +1,7 @@
 package spi
 
 import (
+	"drygrid/internal/spitest"
 	"math"
 	"testing"
 )
@@ -21,7 +22,7 @@ func TestSPISciPy(t *testing.T) {
 		{95, 50, 2, 0}, {140, 50, 2, 0.05}, {1e-3, 3, 5, 0.1},
 	}
 	var ref []float64
-	idxRunRef(t, &ref, cases, "spi")
+	spitest.RunRef(t, spitest.Script, &ref, cases, "spi")
 	for i, c := range cases {
 		got := SPI(c.X, c.Shape, c.Scale, c.Q)
 		if math.Abs(got-ref[i]) > 1e-9 {
@@ -53,7 +54,7 @@ func TestSPIInvalid(t *testing.T) {
 // fitted parameters add a little, so the tolerances are 0.07 (3 se) and
 // 0.05 (3 se).
 func TestSPIStandardNormalProperty(t *testing.T) {
-	x := idxGammaSample(42, 2000, 2, 10, false)
+	x := spitest.GammaSample(42, 2000, 2, 10, false)
 	shape, scale, err := GammaFit(x)
 	if err != nil {
 		t.Fatal(err)

@@ -1,6 +1,7 @@
 package station
 
 import (
+	"drygrid/internal/spitest"
 	"drygrid/spi"
 	"math/rand/v2"
 	"runtime"
@@ -18,7 +19,7 @@ func idxBenchSeries() ([]idxSite, [][]idxEntry) {
 	r := rand.New(rand.NewPCG(7, 7))
 	base := make([][]idxEntry, distinct)
 	for i := range base {
-		x := idxGammaSample(uint64(i), years, 0.5+8*r.Float64(), 10+50*r.Float64(), true)
+		x := spitest.GammaSample(uint64(i), years, 0.5+8*r.Float64(), 10+50*r.Float64(), true)
 		s := make([]idxEntry, years)
 		for y := range s {
 			if r.Float64() < 0.05 {

@@ -2,6 +2,7 @@ package station
 
 import (
 	"bytes"
+	"drygrid/internal/spitest"
 	"drygrid/spi"
 	"fmt"
 	"math"
@@ -62,7 +63,7 @@ func TestIndexSciPy(t *testing.T) {
 			return r
 		}
 		var ref []idxRefRow
-		idxRunRef(t, &ref, nil, args...)
+		spitest.RunRef(t, spitest.Script, &ref, nil, args...)
 		refs[key] = ref
 		return ref
 	}
@@ -129,7 +130,7 @@ func idxCheck(t *testing.T, what string, got float64, want *float64, tol float64
 	case want == nil && math.IsNaN(got):
 	case want == nil || math.IsNaN(got):
 		t.Errorf("%s: %v, SciPy %v", what, got, want)
-	case rel && !idxRelClose(got, *want, tol), !rel && math.Abs(got-*want) > tol:
+	case rel && !spitest.RelClose(got, *want, tol), !rel && math.Abs(got-*want) > tol:
 		t.Errorf("%s: %.10g, SciPy %.10g", what, got, *want)
 	}
 }

@@ -22,15 +22,7 @@ import sys
 
 import numpy as np
 
-R_KM = 6371.0088
-
-
-def haversine_km(lon1, lat1, lon2, lat2):
-    p1, p2 = np.radians(lat1), np.radians(lat2)
-    dp = p2 - p1
-    dl = np.radians(lon2 - lon1)
-    h = np.sin(dp / 2) ** 2 + np.cos(p1) * np.cos(p2) * np.sin(dl / 2) ** 2
-    return 2 * R_KM * np.arcsin(np.sqrt(np.clip(h, 0.0, 1.0)))
+from sphere_ref import haversine_km
 
 
 def main():

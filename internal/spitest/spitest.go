@@ -15,6 +15,10 @@ import (
 	"gonum.org/v1/gonum/stat/distuv"
 )
 
+// Script is the SciPy reference of the index step, as a path from the
+// directory of a package one level below the module's root (spi, station).
+const Script = "../testdata/spi_ref.py"
+
 // RunRef runs the SciPy reference script (testdata/spi_ref.py, given as a
 // path from the test's package) in the mode args name, with in as JSON on
 // stdin (or nothing when nil), and decodes its JSON answer into out.
