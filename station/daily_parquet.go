@@ -25,7 +25,6 @@ type pqCol struct {
 	vr    parquet.ValueReader
 	buf   []parquet.Value
 	kind  parquet.Kind
-	date  int64 // for a date column: units per day (1 for DATE, 0 for text)
 }
 
 // fill reads exactly len(c.buf[:n]) values.
