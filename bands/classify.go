@@ -18,7 +18,16 @@ type Classifier struct {
 	// disjoint is set for a scheme that passes Validate: no value is in two
 	// bands, so the band of the previous cell may be tried first.
 	disjoint bool
+	// lut, with disjoint bands, gives the code of every float32 whose top
+	// 16 bits (sign, exponent, 7 mantissa bits) are its index, when all of
+	// them lie in one band: lutSure | code. An entry without lutSure (the
+	// prefix's values straddle a cut, lie outside every band, or are NaN)
+	// sends the value to the band tests.
+	lut []uint16
 }
+
+// lutSure marks a lut entry that holds the code of all its values.
+const lutSure = 0x100
 
 // NewClassifier prepares the classification of s.
 func NewClassifier(s *Scheme) *Classifier {
@@ -33,6 +42,19 @@ func NewClassifier(s *Scheme) *Classifier {
 		c.code = append(c.code, b.Code)
 	}
 	c.disjoint = s.Validate() == nil
+	if c.disjoint {
+		c.lut = make([]uint16, 1<<16)
+		for k := range c.lut {
+			// The values of one prefix form an interval between these two
+			// (bits grow with the magnitude); a band is an interval, so
+			// when it holds both ends it holds every value between.
+			a := float64(math.Float32frombits(uint32(k) << 16))
+			b := float64(math.Float32frombits(uint32(k)<<16 | 0xFFFF))
+			if i := c.band(a); i >= 0 && c.band(b) == i {
+				c.lut[k] = lutSure | uint16(c.code[i])
+			}
+		}
+	}
 	return c
 }
 
@@ -64,30 +86,33 @@ func (c *Classifier) Code(z float64) uint8 {
 }
 
 // Row writes the code of each value of src to dst (len(dst) >= len(src)):
-// 0 (no data) for nodata, else Code(v). With disjoint bands the previous
-// value's band is tried first (neighbouring cells mostly share a band);
-// the band holding a value is then the only one, so the code is the same.
+// 0 (no data) for nodata, else Code(v). With disjoint bands a lookup
+// table on the value's top 16 bits gives the code of all but the values
+// next to a cut, which take the band tests: the code is the same. Row
+// only reads the Classifier, so goroutines may classify rows at once.
 func (c *Classifier) Row(dst []uint8, src []float32, nodata float32) {
-	last := -1
+	dst = dst[:len(src)]
+	if c.lut == nil {
+		for i, v := range src {
+			if v == nodata {
+				dst[i] = 0
+				continue
+			}
+			dst[i] = c.Code(float64(v))
+		}
+		return
+	}
+	lut := c.lut
 	for i, v := range src {
+		if e := lut[math.Float32bits(v)>>16]; e&lutSure != 0 && v != nodata {
+			dst[i] = uint8(e)
+			continue
+		}
 		if v == nodata {
 			dst[i] = 0
 			continue
 		}
-		z := float64(v)
-		if last >= 0 && c.in(last, z) {
-			dst[i] = c.code[last]
-			continue
-		}
-		b := c.band(z)
-		if b < 0 {
-			dst[i], last = 0, -1
-			continue
-		}
-		dst[i] = c.code[b]
-		if c.disjoint {
-			last = b
-		}
+		dst[i] = c.Code(float64(v))
 	}
 }
 
