@@ -41,7 +41,15 @@ func TestFarCellsAgainstNumPy(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	far, err := res.farCells(km)
+	// Run streams its rasters; Compute, on the same job, holds the band
+	// raster whose far cells the picture and the page hatch (the grid is
+	// its own preview).
+	whole, err := Compute(context.Background(), job)
+	if err != nil {
+		t.Fatal(err)
+	}
+	res.Bands = whole.Bands
+	far, err := res.farCells(res.Bands, km)
 	if err != nil || far == nil {
 		t.Fatalf("far cells: %v, %v", far, err)
 	}
@@ -133,7 +141,7 @@ func TestFarCellsAgainstNumPy(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if f0, err := res0.farCells(0); f0 != nil || err != nil {
+	if f0, err := res0.farCells(whole.Bands, 0); f0 != nil || err != nil {
 		t.Errorf("far cells at 0 km: %v, %v", f0, err)
 	}
 	html0, err := os.ReadFile(filepath.Join(out0, "map.html"))

@@ -6,7 +6,6 @@ import (
 	"strconv"
 	"strings"
 
-	"drygrid/bands"
 	"drygrid/grid"
 	"drygrid/region"
 )
@@ -19,10 +18,8 @@ import (
 
 // cellMask applies a mask to the rows of a run.
 type cellMask struct {
-	m       *region.Mask
-	classes *bands.Classifier
-	tally   *bands.Tally
-	w       []float64 // one row's shares inside
+	m    *region.Mask
+	cols int
 }
 
 // newCellMask prepares the mask of the job on the grid s, or nil without
@@ -37,25 +34,23 @@ func newCellMask(job *Job, in *inputs, s grid.Spec) (*cellMask, error) {
 		return nil, fmt.Errorf("mask %s: %w; check the bbox (--bbox, [grid] bbox) and that the mask's positions are longitude, latitude in degrees (EPSG:4326)",
 			job.Mask, err)
 	}
-	return &cellMask{m: m, classes: bands.NewClassifier(in.scheme), tally: bands.NewTally(s), w: make([]float64, s.Cols)}, nil
+	return &cellMask{m: m, cols: s.Cols}, nil
 }
 
 // apply masks n rows from row0 of index (n * Cols values) in place: cells
-// with no share inside the mask become no data. It writes their band codes
-// into codes (n * Cols) and tallies them, each cell weighted by its share.
-func (c *cellMask) apply(row0, n int, index []float32, codes []uint8) {
-	cols := len(c.w)
+// with no share inside the mask become no data. It writes each cell's
+// share inside into weights (n * Cols), by which the tally weighs its area.
+func (c *cellMask) apply(row0, n int, index []float32, weights []float64) {
+	cols := c.cols
 	for r := range n {
-		c.m.Row(row0+r, c.w)
+		w := weights[r*cols : (r+1)*cols]
+		c.m.Row(row0+r, w)
 		idx := index[r*cols : (r+1)*cols]
-		for i, w := range c.w {
-			if w <= 0 {
+		for i, v := range w {
+			if v <= 0 {
 				idx[i] = grid.NoDataIndex
 			}
 		}
-		cr := codes[r*cols : (r+1)*cols]
-		c.classes.Row(cr, idx, grid.NoDataIndex)
-		c.tally.AddWeighted(row0+r, cr, c.w)
 	}
 }
 

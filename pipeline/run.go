@@ -8,7 +8,6 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
-	"slices"
 	"strings"
 	"time"
 	"unicode/utf8"
@@ -28,9 +27,8 @@ type Result struct {
 	Values *station.Values // the stations read
 	Spec   grid.Spec
 	Scheme *bands.Scheme
-	// Index and Bands are the rasters; nil when the run streamed them
-	// row block by row block into the GeoTIFF files (only the rasters
-	// asked for, no regions).
+	// Index and Bands are the whole rasters, made by Compute; Run streams
+	// them block by block into the layers and leaves them nil.
 	Index *grid.Float32
 	Bands *grid.Uint8
 	// Regions are the area-in-band statistics per region (with Job.Regions).
@@ -65,7 +63,7 @@ type Result struct {
 	// Timings are the seconds of each step, as in the manifest.
 	Timings map[string]float64
 
-	rows  func(row0, n int, dst []float32) error // streams the index rows (Index and Bands nil)
+	rows  func(row0, n int, dst []float32) error // the interpolated rows, for the pass
 	tally *bands.Tally
 	ip    *interp.Interpolator // for SupportRows
 	mask  *cellMask            // with Job.Mask
@@ -116,7 +114,7 @@ func Run(ctx context.Context, job Job) (*Result, error) {
 		return nil, err
 	}
 	defer stage.Close()
-	res, in, start, err := compute(ctx, &job, streamable(job))
+	res, in, start, err := compute(ctx, &job)
 	if err != nil {
 		return nil, err
 	}
@@ -147,13 +145,32 @@ func Compute(ctx context.Context, job Job) (*Result, error) {
 	if len(job.Layers) == 0 {
 		job.Layers = LayerSet{"index": true}
 	}
-	res, _, _, err := compute(ctx, &job, false)
-	return res, err
+	res, in, _, err := compute(ctx, &job)
+	if err != nil {
+		return nil, err
+	}
+	gridStart := job.now()
+	p := newPass(&job, res)
+	p.sinks = append(p.sinks, collect(res))
+	if err := p.run(ctx); err != nil {
+		return nil, err
+	}
+	res.tally = p.tally
+	res.shares()
+	if err := checkCovered(&job, res); err != nil {
+		return nil, err
+	}
+	if len(in.regions) > 0 {
+		res.Regions = region.Zonal(res.Bands, res.Index, in.regions)
+	}
+	res.Timings["grid_s"] = seconds(job.now().Sub(gridStart))
+	return res, nil
 }
 
-// compute validates the job and runs it up to the layers; with stream the
-// rasters are left to be streamed into the files.
-func compute(ctx context.Context, job *Job, stream bool) (*Result, *inputs, time.Time, error) {
+// compute validates the job and runs it up to the pass over the rows:
+// the index step, the inputs, the stations, the grid, the mask and the
+// interpolator.
+func compute(ctx context.Context, job *Job) (*Result, *inputs, time.Time, error) {
 	start := job.now()
 	if err := job.resolve(); err != nil {
 		return nil, nil, start, err
@@ -196,61 +213,21 @@ func compute(ctx context.Context, job *Job, stream bool) (*Result, *inputs, time
 	}
 	read := job.now()
 	res.Values, res.Spec, res.Scheme, res.ip = vals, spec, in.scheme, ip
-	progress := func(done int) {
+	// Rows go from the interpolator into the pass (pass.go), block by
+	// block; the rasters are never held whole unless Compute asks.
+	res.rows = func(row0, n int, dst []float32) error {
+		if err := ctx.Err(); err != nil {
+			return err
+		}
+		if err := ip.Rows(spec, row0, n, dst); err != nil {
+			return err
+		}
 		if job.Progress != nil {
-			job.Progress("grid", done, spec.Rows)
+			job.Progress("grid", row0+n, spec.Rows)
 		}
+		return nil
 	}
-	if stream {
-		// Only the rasters: rows go from the interpolator straight into
-		// the GeoTIFF writers (the same bytes, bounded memory).
-		res.rows = func(row0, n int, dst []float32) error {
-			if err := ctx.Err(); err != nil {
-				return err
-			}
-			if err := ip.Rows(spec, row0, n, dst); err != nil {
-				return err
-			}
-			progress(row0 + n)
-			return nil
-		}
-	} else {
-		index := grid.NewFloat32(spec, grid.NoDataIndex)
-		var codes []uint8 // a block's band codes, for the mask's tally
-		for row0 := 0; row0 < spec.Rows; row0 += rowBlock {
-			if err := ctx.Err(); err != nil {
-				return nil, nil, start, err
-			}
-			n := min(rowBlock, spec.Rows-row0)
-			block := index.Data[row0*spec.Cols : (row0+n)*spec.Cols]
-			if err := ip.Rows(spec, row0, n, block); err != nil {
-				return nil, nil, start, err
-			}
-			if mask != nil {
-				codes = slices.Grow(codes[:0], len(block))[:len(block)]
-				mask.apply(row0, n, block, codes)
-			}
-			progress(row0 + n)
-		}
-		res.Index, res.Bands = index, bands.NewClassifier(in.scheme).Raster(index)
-		if mask != nil {
-			res.tally = mask.tally
-		} else {
-			res.tally = bands.NewTally(spec)
-			res.tally.Add(0, spec.Rows, res.Bands.Data)
-		}
-		res.shares()
-		if err := checkCovered(job, &res); err != nil {
-			return nil, nil, start, err
-		}
-		if len(in.regions) > 0 {
-			res.Regions = region.Zonal(res.Bands, index, in.regions)
-		}
-	}
-	gridded := job.now()
-	res.Timings = map[string]float64{
-		"read_s": seconds(read.Sub(start)), "grid_s": seconds(gridded.Sub(read)),
-	}
+	res.Timings = map[string]float64{"read_s": seconds(read.Sub(start))}
 	return &res, in, start, nil
 }
 
@@ -330,20 +307,6 @@ func ReadValues(name string, data []byte, opt station.ValueOptions, warn func(st
 		return nil, fmt.Errorf("stations %s: no station with a usable %s value (%d rows read)", name, vals.Column, vals.Read)
 	}
 	return vals, nil
-}
-
-// streamable reports whether the run writes only the rasters (index,
-// bands) and no regions, so the grid can be streamed row block by row block.
-func streamable(job Job) bool {
-	if job.Regions != "" {
-		return false
-	}
-	for name, on := range job.Layers {
-		if on && name != "index" && name != "bands" && name != "support" {
-			return false
-		}
-	}
-	return true
 }
 
 // gridSpec is the grid of the run: the bbox, or the stations' extent
@@ -459,6 +422,14 @@ func writeLayers(ctx context.Context, job *Job, res *Result, regions []region.Re
 			made = job.Made
 		}
 		w := &layerWriter{job: job, res: res, regions: regions, dir: dir, made: made}
+		if err := w.runPass(ctx); err != nil {
+			return err
+		}
+		res.Timings["grid_s"] = seconds(job.now().Sub(writeStart))
+		if err := checkCovered(job, res); err != nil {
+			return err
+		}
+		writeStart = job.now()
 		for _, name := range LayerNames() {
 			if !job.Layers[name] {
 				continue
@@ -468,11 +439,6 @@ func writeLayers(ctx context.Context, job *Job, res *Result, regions []region.Re
 			}
 			if err := w.write(name); err != nil {
 				return fmt.Errorf("layer %s: %w", name, err)
-			}
-		}
-		if res.rows != nil { // streamed: the band shares are known now
-			if err := checkCovered(job, res); err != nil {
-				return err
 			}
 		}
 		for _, name := range sortedKeys(job.Extra) {

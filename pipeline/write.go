@@ -27,7 +27,8 @@ type layerWriter struct {
 
 	bandsGJ, stationsGJ []byte // encoded once, for the files and the page
 
-	far     *grid.Uint8 // the cells hatched on the picture and the page (Job.HatchBeyondKm), computed once
+	preview *preview    // the band raster of the picture and the page
+	far     *grid.Uint8 // the preview's cells hatched on the picture and the page (Job.HatchBeyondKm), computed once
 	farDone bool
 }
 
@@ -66,15 +67,9 @@ func (w *layerWriter) tiffOptions() geotiff.Options {
 }
 
 func (w *layerWriter) write(name string) error {
-	opt := w.tiffOptions()
-	if w.res.rows != nil && (name == "index" || name == "bands") {
-		return w.writeStreamed(name, opt)
-	}
 	switch name {
-	case "index":
-		return geotiff.WriteIndex(w.path("index.tif"), w.res.Index, opt)
-	case "bands":
-		return geotiff.WriteBands(w.path("bands.tif"), w.res.Bands, w.res.Scheme, opt)
+	case "index", "bands":
+		return nil // written by the pass (runPass)
 	case "geojson":
 		b, err := w.bandsGeoJSON()
 		if err != nil {
@@ -94,7 +89,7 @@ func (w *layerWriter) write(name string) error {
 	case "page":
 		return w.writePage()
 	case "support":
-		return w.writeSupport(opt)
+		return w.writeSupport(w.tiffOptions())
 	}
 	return fmt.Errorf("unknown layer %q", name)
 }

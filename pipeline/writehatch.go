@@ -3,6 +3,7 @@ package pipeline
 import (
 	"bytes"
 	"encoding/json"
+	"errors"
 	"fmt"
 
 	"drygrid/grid"
@@ -13,27 +14,26 @@ import (
 // the far cells are marked.
 const farBlockRows = 64
 
-// farCells marks the cells of the run's band raster that hold a value but
+// farCells marks the cells of the band raster b (the run's grid or its
+// preview, whose cells are cells of the run's grid) that hold a value but
 // whose nearest station is farther than km (Job.HatchBeyondKm): 1 there, 0
-// elsewhere, on the band raster's grid. The distances come from
-// SupportRows a block of rows at a time, so no more than this one byte per
-// cell and one block of distances is held. It gives nil when km is 0 or
-// the run kept no band raster.
-func (r *Result) farCells(km float64) (*grid.Uint8, error) {
-	if !(km > 0) || r.Bands == nil {
+// elsewhere, on b's grid. The distances come from the interpolator's
+// Support a block of rows at a time, so no more than this one byte per
+// cell and one block of distances is held. It gives nil when km is 0.
+func (r *Result) farCells(b *grid.Uint8, km float64) (*grid.Uint8, error) {
+	if !(km > 0) || b == nil {
 		return nil, nil
 	}
-	b := r.Bands
-	spec := b.Spec
-	if spec != r.Spec {
-		return nil, fmt.Errorf("hatch: band raster grid %v is not the run's %v", spec, r.Spec)
+	if r.ip == nil {
+		return nil, errors.New("hatch: the result has no interpolator (not made by Run or Compute)")
 	}
+	spec := b.Spec
 	far := grid.NewUint8(spec, 0)
 	dist := make([]float32, min(farBlockRows, spec.Rows)*spec.Cols)
 	for row0 := 0; row0 < spec.Rows; row0 += farBlockRows {
 		n := min(farBlockRows, spec.Rows-row0)
 		d := dist[:n*spec.Cols]
-		if err := r.SupportRows(row0, n, d, nil); err != nil {
+		if err := r.ip.Support(spec, row0, n, d, nil); err != nil {
 			return nil, err
 		}
 		off := row0 * spec.Cols
@@ -83,7 +83,10 @@ func (w *layerWriter) farRaster() (*grid.Uint8, error) {
 	if w.farDone {
 		return w.far, nil
 	}
-	far, err := w.res.farCells(w.job.HatchBeyondKm)
+	if w.preview == nil {
+		return nil, errors.New("hatch: no preview raster (the pass did not run)")
+	}
+	far, err := w.res.farCells(w.preview.r, w.job.HatchBeyondKm)
 	if err != nil {
 		return nil, err
 	}

@@ -1,7 +1,9 @@
 package pipeline
 
 import (
+	"bytes"
 	"drygrid/bands"
+	"drygrid/layer/geojson"
 	"fmt"
 	"io"
 	"math"
@@ -47,8 +49,12 @@ func (w *layerWriter) subtitle() string {
 	if d := w.job.Describe(); w.job.describes() && !strings.Contains(w.title(), d) {
 		shows = d + "; " // a title of the user's own: the line says what the map shows
 	}
-	return shows + fmt.Sprintf("IDW power %g, %d neighbours within %g km, at least %d stations; %d stations; %g deg grid",
-		p.Power, p.Neighbors, p.RadiusKm, p.MinStations, len(w.res.Values.Stations), w.res.Spec.Res)
+	grid := fmt.Sprintf("%g deg grid", w.res.Spec.Res)
+	if w.preview != nil && w.preview.f > 1 {
+		grid += fmt.Sprintf(" (shown at %g deg)", w.preview.r.Spec.Res)
+	}
+	return shows + fmt.Sprintf("IDW power %g, %d neighbours within %g km, at least %d stations; %d stations; %s",
+		p.Power, p.Neighbors, p.RadiusKm, p.MinStations, len(w.res.Values.Stations), grid)
 }
 
 func (w *layerWriter) title() string {
@@ -81,7 +87,7 @@ func (w *layerWriter) noDataLabel() string {
 
 // writePicture writes map.png.
 func (w *layerWriter) writePicture() error {
-	in := picture.Input{Bands: w.res.Bands, Scheme: w.res.Scheme,
+	in := picture.Input{Bands: w.preview.r, Scheme: w.res.Scheme,
 		Title: w.title(), Subtitle: w.subtitle(), Caution: layer.Caution, Produced: w.produced()}
 	in.Stations = picturePoints(w.res.Values)
 	in.NoDataLabel = w.noDataLabel()
@@ -98,7 +104,7 @@ func (w *layerWriter) writePicture() error {
 
 // writePage writes map.html with the layers inline.
 func (w *layerWriter) writePage() error {
-	bands, err := w.bandsGeoJSON()
+	bands, err := w.pageBands()
 	if err != nil {
 		return err
 	}
@@ -133,6 +139,23 @@ func (w *layerWriter) writePage() error {
 		in.Regions = pageRows(w.res.Regions, w)
 	}
 	return page.WriteFile(w.path("map.html"), in)
+}
+
+// pageBands is the band layer the page carries: bands.geojson when the
+// grid is its own preview, else the band polygons of the preview raster
+// (a grid of f times the resolution), traced and encoded as bands.geojson
+// is.
+func (w *layerWriter) pageBands() ([]byte, error) {
+	if w.preview.f == 1 {
+		return w.bandsGeoJSON()
+	}
+	var buf bytes.Buffer
+	opt := w.geojsonOptions()
+	opt.SimplifyKm = w.job.SimplifyKm
+	if err := geojson.EncodeBands(&buf, w.preview.r, w.res.Scheme, opt); err != nil {
+		return nil, err
+	}
+	return buf.Bytes(), nil
 }
 
 // pageRows turns zonal statistics into the page's table rows.

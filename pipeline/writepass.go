@@ -1,0 +1,106 @@
+package pipeline
+
+import (
+	"context"
+
+	"drygrid/grid"
+	"drygrid/region"
+)
+
+// runPass makes the run's one pass over the rows (pass.go): index.tif and
+// bands.tif, when asked for, are written as the rows come, and the other
+// layers' sinks take the rows they need; the band shares are known at its
+// end.
+func (w *layerWriter) runPass(ctx context.Context) error {
+	job, res := w.job, w.res
+	p := newPass(job, res)
+	if job.Layers["map"] || job.Layers["page"] {
+		w.preview = newPreview(res.Spec)
+		p.sinks = append(p.sinks, w.preview.rows)
+	}
+	if job.Layers["geojson"] || job.Layers["page"] || len(w.regions) > 0 {
+		p.sinks = append(p.sinks, collect(res))
+	}
+	var err error
+	if job.Layers["index"] || job.Layers["bands"] {
+		idx, bnd := "", ""
+		if job.Layers["index"] {
+			idx = w.path("index.tif")
+		}
+		if job.Layers["bands"] {
+			bnd = w.path("bands.tif")
+		}
+		opt := w.tiffOptions()
+		opt.SpillDir = w.dir
+		err = p.runTIFF(idx, bnd, res.Scheme, opt)
+	} else {
+		err = p.run(ctx)
+	}
+	if err != nil {
+		return err
+	}
+	res.tally = p.tally
+	res.shares()
+	if res.Bands != nil && len(w.regions) > 0 {
+		res.Regions = region.Zonal(res.Bands, res.Index, w.regions)
+	}
+	return nil
+}
+
+// previewMaxCells is the most cells the preview raster holds: a grid up to
+// this size (the global 0.1 degree grid has 6,480,000 cells) is its own
+// preview.
+const previewMaxCells = 6_500_000
+
+// preview is the band raster the picture and the page are drawn from: the
+// grid itself when it has at most previewMaxCells cells, else every f-th
+// cell of every f-th row, f the smallest odd number that brings it within
+// that size. With f odd the preview's cells are a grid of f times the
+// resolution whose cell centres are cells of the run's grid (the centre
+// one of each f x f block), so its values, and the distances to the
+// nearest station behind the hatching, are those of real cells. Up to f-1
+// columns and rows at the east and south edges fall outside the preview.
+type preview struct {
+	f int
+	r *grid.Uint8
+}
+
+// previewSpec is the preview's grid of s and its step f.
+func previewSpec(s grid.Spec) (grid.Spec, int) {
+	f := 1
+	for s.Cols/f*(s.Rows/f) > previewMaxCells {
+		f += 2
+	}
+	if f == 1 {
+		return s, 1
+	}
+	return grid.Spec{West: s.West, North: s.North, Res: s.Res * float64(f), Cols: max(1, s.Cols/f), Rows: max(1, s.Rows/f)}, f
+}
+
+// newPreview starts the preview of the grid s.
+func newPreview(s grid.Spec) *preview {
+	ps, f := previewSpec(s)
+	return &preview{f: f, r: grid.NewUint8(ps, 0)}
+}
+
+// rows is the preview's sink: it keeps the codes of its cells.
+func (p *preview) rows(row0, n int, _ []float32, codes []uint8) error {
+	ps, f := p.r.Spec, p.f
+	cols := len(codes) / n
+	for r := range n {
+		row := row0 + r
+		if row%f != f/2 || row/f >= ps.Rows {
+			continue
+		}
+		src := codes[r*cols : (r+1)*cols]
+		dst := p.r.Data[row/f*ps.Cols : (row/f+1)*ps.Cols]
+		if f == 1 {
+			copy(dst, src)
+			continue
+		}
+		for c := range dst {
+			dst[c] = src[c*f+f/2]
+		}
+	}
+	return nil
+}
