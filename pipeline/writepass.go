@@ -15,7 +15,7 @@ func (w *layerWriter) runPass(ctx context.Context) error {
 	job, res := w.job, w.res
 	p := newPass(job, res)
 	if job.Layers["map"] || job.Layers["page"] {
-		w.preview = newPreview(res.Spec)
+		w.preview = newPreview(res.Spec, previewMaxCells)
 		p.sinks = append(p.sinks, w.preview.rows)
 	}
 	if job.Layers["geojson"] || job.Layers["page"] || len(w.regions) > 0 {
@@ -65,10 +65,11 @@ type preview struct {
 	r *grid.Uint8
 }
 
-// previewSpec is the preview's grid of s and its step f.
-func previewSpec(s grid.Spec) (grid.Spec, int) {
+// previewSpec is the preview's grid of s and its step f, for a preview of
+// at most maxCells cells.
+func previewSpec(s grid.Spec, maxCells int) (grid.Spec, int) {
 	f := 1
-	for s.Cols/f*(s.Rows/f) > previewMaxCells {
+	for s.Cols/f*(s.Rows/f) > maxCells {
 		f += 2
 	}
 	if f == 1 {
@@ -77,9 +78,9 @@ func previewSpec(s grid.Spec) (grid.Spec, int) {
 	return grid.Spec{West: s.West, North: s.North, Res: s.Res * float64(f), Cols: max(1, s.Cols/f), Rows: max(1, s.Rows/f)}, f
 }
 
-// newPreview starts the preview of the grid s.
-func newPreview(s grid.Spec) *preview {
-	ps, f := previewSpec(s)
+// newPreview starts the preview of the grid s, of at most maxCells cells.
+func newPreview(s grid.Spec, maxCells int) *preview {
+	ps, f := previewSpec(s, maxCells)
 	return &preview{f: f, r: grid.NewUint8(ps, 0)}
 }
 
