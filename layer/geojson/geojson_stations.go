@@ -33,6 +33,35 @@ type Station struct {
 // are checked (and the bbox found) in a first pass over pts, so a bad
 // position writes nothing.
 func EncodeStations(w io.Writer, pts []Station, s *bands.Scheme, opt Options) error {
+	return gjEncodeStations(w, pts, nil, s, opt)
+}
+
+// EncodeStationsSubset writes the station layer of pts as a page carries
+// a subset of it (page.ChooseStations gives keep, one flag per station):
+// when keep marks every station, or is nil, it is EncodeStations' output;
+// otherwise the same collection (the same foreign members and the bbox of
+// every station in pts) with only the Features keep marks, in their order,
+// laid out as the page's own thinning of a whole layer copies them (no
+// newline before a Feature, none before the closing bracket), so that a
+// page given this subset is byte for byte the page given the whole layer.
+// keep must be as long as pts.
+func EncodeStationsSubset(w io.Writer, pts []Station, keep []bool, s *bands.Scheme, opt Options) error {
+	if keep != nil && len(keep) != len(pts) {
+		return fmt.Errorf("stations geojson: %d flags for %d stations", len(keep), len(pts))
+	}
+	all := true
+	for _, k := range keep {
+		all = all && k
+	}
+	if all {
+		keep = nil
+	}
+	return gjEncodeStations(w, pts, keep, s, opt)
+}
+
+// gjEncodeStations writes the layer of every station (keep nil), or of the
+// stations keep marks (the page's layout, EncodeStationsSubset).
+func gjEncodeStations(w io.Writer, pts []Station, keep []bool, s *bands.Scheme, opt Options) error {
 	meta, err := gjMeta(opt)
 	if err != nil {
 		return fmt.Errorf("stations geojson: %w", err)
@@ -65,17 +94,28 @@ func EncodeStations(w io.Writer, pts []Station, s *bands.Scheme, opt Options) er
 		buf = append(buf, ']')
 	}
 	buf = append(buf, `,"features":[`...)
+	shown := 0
 	for k, p := range pts {
-		if k > 0 {
+		if keep != nil && !keep[k] {
+			continue
+		}
+		if shown > 0 {
 			buf = append(buf, ',')
 		}
+		if keep == nil {
+			buf = append(buf, '\n')
+		}
 		buf = gjAppendStation(buf, p, &keys)
+		shown++
 		if len(buf) >= 1<<12 {
 			bw.Write(buf)
 			buf = buf[:0]
 		}
 	}
-	buf = append(buf, "\n]}\n"...)
+	if keep == nil {
+		buf = append(buf, '\n')
+	}
+	buf = append(buf, "]}\n"...)
 	bw.Write(buf)
 	if err := bw.Flush(); err != nil {
 		return fmt.Errorf("stations geojson: write: %w", err)
@@ -112,12 +152,10 @@ func gjStationKeys(s *bands.Scheme) [256][]byte {
 	return keys
 }
 
-// gjAppendStation appends the station's Feature, preceded by a newline,
-// byte for byte as json.Marshal writes the orb Feature of a Point with
+// gjAppendStation appends the station's Feature byte for byte as json.Marshal writes the orb Feature of a Point with
 // the properties code, id, in_grid, key, value and z (in that order, as
 // encoding/json sorts map keys).
 func gjAppendStation(b []byte, p Station, keys *[256][]byte) []byte {
-	b = append(b, "\n"...)
 	b = append(b, `{"type":"Feature","geometry":{"type":"Point","coordinates":[`...)
 	b = gjAppendFloat(b, gjLon(p.Lon))
 	b = append(b, ',')
