@@ -4,8 +4,10 @@
 // polygons (package polygon), and the station layer is the station values
 // that were gridded, each with its z and band. The encoders write to
 // an io.Writer and return an error: EncodeBands(w, r, s, opt) and
-// EncodeStations(w, pts, s, opt); there is no file helper here, the caller
-// writes the file. Options controls both. The same input gives the same
+// EncodeStations(w, pts, s, opt) (and EncodeStationsSubset, the part of the
+// station layer a page carries); there is no file helper here, the caller
+// writes the file. The station layer is written Feature by Feature with
+// nothing held per station, however many stations there are. Options controls both. The same input gives the same
 // bytes, whatever the number of cores.
 //
 // The layers follow these definitions:

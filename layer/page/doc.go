@@ -10,7 +10,11 @@
 // (2,000; Input.MaxStations) is thinned to a deterministic subset, one
 // station per square cell of the map (the one nearest the cell's centre),
 // and the page says how many it shows of how many and links the whole
-// layer (Input.StationsHref, stations.geojson beside the page). Encode(w, in)
+// layer (Input.StationsHref, stations.geojson beside the page). A caller
+// holding the stations need not hand the page the whole layer's text:
+// ChooseStations makes the same choice from the positions, and the subset
+// (geojson.EncodeStationsSubset) given with Input.StationsTotal makes the
+// same page, byte for byte. Encode(w, in)
 // error writes the page to an io.Writer and WriteFile beside it writes the
 // file through a temporary name renamed at the end. With Input.FarGeoJSON
 // the page draws the cells whose nearest station is farther than

@@ -53,6 +53,15 @@ type Input struct {
 	// DefaultMaxStations, 2,000); a larger station layer is thinned to a
 	// deterministic subset and the page says how many it shows.
 	MaxStations int
+	// StationsTotal, when above 0, says StationsGeoJSON is already the
+	// page's subset of a layer of that many stations (ChooseStations'
+	// choice, written by geojson.EncodeStationsSubset): the page embeds it
+	// as given, without thinning it again, and says how many it shows of
+	// StationsTotal (and links StationsHref) when it shows fewer, as when
+	// it thins the whole layer itself. The subset must hold no more than
+	// MaxStations stations nor more than StationsTotal. 0 leaves the page
+	// to thin StationsGeoJSON itself.
+	StationsTotal int
 	// StationsHref, when set, is the file holding every station (usually
 	// "stations.geojson" beside map.html), linked when the page shows a
 	// subset.
@@ -218,12 +227,22 @@ func pageData(in Input, extraJS string) (*pageView, error) {
 	if limit < 0 {
 		return nil, fmt.Errorf("page: MaxStations %d is negative", limit)
 	}
+	if in.StationsTotal < 0 {
+		return nil, fmt.Errorf("page: StationsTotal %d is negative", in.StationsTotal)
+	}
 	stations := in.StationsGeoJSON
 	if len(bytes.TrimSpace(stations)) > 0 {
-		kx := math.Max(math.Cos((b[1]+b[3])/2*math.Pi/180), 0.25)
-		th, err := pageThinStations(stations, limit, b[0], b[2] > 180+1e-9, kx)
+		// A subset given (StationsTotal) is only counted: it holds at
+		// most limit stations, so pageThinStations leaves it as it is.
+		th, err := pageThinStations(stations, limit, pageProjectionOf(b))
 		if err != nil {
 			return nil, fmt.Errorf("page: stations GeoJSON: %w", err)
+		}
+		if in.StationsTotal > 0 {
+			if th.shown < th.total || th.total > in.StationsTotal {
+				return nil, fmt.Errorf("page: stations GeoJSON holds %d stations, more than the page carries (%d) or StationsTotal (%d): give ChooseStations' subset", th.total, limit, in.StationsTotal)
+			}
+			th.total = in.StationsTotal
 		}
 		stations = th.doc
 		if th.shown < th.total {

@@ -26,13 +26,13 @@ type pageThinned struct {
 // streaming pass (the points and where each feature lies in src) and,
 // when it holds more than limit features, keeps at most limit of them:
 // the map's extent is cut into square cells (in degrees of latitude,
-// longitude scaled by kx), the smallest cell size found by bisection at
+// longitude scaled as pr places it), the smallest cell size found by bisection at
 // which at most limit cells hold a station, and each cell keeps the
 // station nearest its centre (the first on a tie). Everything outside the
 // features array stays as it is, byte for byte; the features kept are
 // copied as they are, in their order; features without a point are left
 // out of a thinned layer.
-func pageThinStations(src []byte, limit int, west float64, crossing bool, kx float64) (*pageThinned, error) {
+func pageThinStations(src []byte, limit int, pr pageProjection) (*pageThinned, error) {
 	var xs, ys []float64
 	var spans [][2]int64
 	arr := [2]int64{-1, -1}
@@ -73,11 +73,7 @@ func pageThinStations(src []byte, limit int, west float64, crossing bool, kx flo
 					return nil, err
 				}
 			} else if g := f.Geometry; g != nil && g.Type == "Point" && len(g.Coordinates) >= 2 {
-				lon := g.Coordinates[0]
-				if crossing && lon < west-1e-9 {
-					lon += 360
-				}
-				x, y = lon*kx, g.Coordinates[1]
+				x, y = pr.xy(g.Coordinates[0], g.Coordinates[1])
 			}
 			xs, ys = append(xs, x), append(ys, y)
 			spans = append(spans, [2]int64{from, dec.InputOffset()})
