@@ -7,6 +7,7 @@ import (
 	"drygrid/grid"
 	"drygrid/layer"
 	"drygrid/layer/geojson"
+	"drygrid/layer/page"
 	"drygrid/publish"
 	"fmt"
 	"io"
@@ -25,7 +26,8 @@ type layerWriter struct {
 	dir     string
 	made    time.Time // the run's start: the time made on the picture and the page
 
-	bandsGJ, stationsGJ []byte // encoded once, for the files and the page
+	bandsGJ []byte            // bands.geojson, encoded once for the file and the page
+	pts     []geojson.Station // the station layer's points, made once
 
 	preview *preview    // the band raster of the picture and the page
 	far     *grid.Uint8 // the preview's cells hatched on the picture and the page (Job.HatchBeyondKm), computed once
@@ -77,11 +79,9 @@ func (w *layerWriter) write(name string) error {
 		}
 		return writeBytes(w.path("bands.geojson"), b)
 	case "stations":
-		b, err := w.stationsGeoJSON()
-		if err != nil {
-			return err
-		}
-		return writeBytes(w.path("stations.geojson"), b)
+		return writeStream(w.path("stations.geojson"), func(out io.Writer) error {
+			return geojson.EncodeStations(out, w.stationPoints(), w.res.Scheme, w.geojsonOptions())
+		})
 	case "regions":
 		return w.writeRegions()
 	case "map":
@@ -108,17 +108,31 @@ func (w *layerWriter) bandsGeoJSON() ([]byte, error) {
 	return w.bandsGJ, nil
 }
 
-// stationsGeoJSON encodes the station points once.
-func (w *layerWriter) stationsGeoJSON() ([]byte, error) {
-	if w.stationsGJ == nil {
-		var buf bytes.Buffer
-		opt := w.geojsonOptions()
-		if err := geojson.EncodeStations(&buf, stationPoints(w.res.Values, w.res.Spec, w.res.Scheme), w.res.Scheme, opt); err != nil {
-			return nil, err
-		}
-		w.stationsGJ = buf.Bytes()
+// stationPoints are the station layer's points, made once.
+func (w *layerWriter) stationPoints() []geojson.Station {
+	if w.pts == nil {
+		w.pts = stationPoints(w.res.Values, w.res.Spec, w.res.Scheme)
 	}
-	return w.stationsGJ, nil
+	return w.pts
+}
+
+// pageStations is the station layer the page carries: at most
+// page.DefaultMaxStations of the stations (page.ChooseStations), with the
+// whole layer's bbox and members; the page links stations.geojson for the
+// rest.
+func (w *layerWriter) pageStations() ([]byte, int, error) {
+	pts := w.stationPoints()
+	lons, lats := make([]float64, len(pts)), make([]float64, len(pts))
+	for i, p := range pts {
+		lons[i], lats[i] = p.Lon, p.Lat
+	}
+	spec := w.res.Spec
+	keep := page.ChooseStations(lons, lats, 0, [4]float64{spec.West, spec.South(), spec.East(), spec.North})
+	var buf bytes.Buffer
+	if err := geojson.EncodeStationsSubset(&buf, pts, keep, w.res.Scheme, w.geojsonOptions()); err != nil {
+		return nil, 0, err
+	}
+	return buf.Bytes(), len(pts), nil
 }
 
 // writeStream writes one file of a layer through a streaming encoder.

@@ -108,7 +108,7 @@ func (w *layerWriter) writePage() error {
 	if err != nil {
 		return err
 	}
-	stations, err := w.stationsGeoJSON()
+	stations, total, err := w.pageStations()
 	if err != nil {
 		return err
 	}
@@ -116,7 +116,7 @@ func (w *layerWriter) writePage() error {
 	in := page.Input{Title: w.title(), Subtitle: w.subtitle(), Caution: layer.Caution,
 		Scheme: w.res.Scheme, BandsGeoJSON: bands, StationsGeoJSON: stations,
 		BBox: [4]float64{spec.West, spec.South(), spec.East(), spec.North}, Produced: w.produced(),
-		NoDataLabel: w.noDataLabel()}
+		NoDataLabel: w.noDataLabel(), StationsTotal: total}
 	far, err := w.farRaster()
 	if err != nil {
 		return err
