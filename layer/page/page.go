@@ -107,12 +107,10 @@ func pageEncode(w io.Writer, in Input, extraJS string) error {
 	if err != nil {
 		return err
 	}
-	var buf bytes.Buffer
-	if err := pageTmpl.Execute(&buf, d); err != nil {
+	// Straight to w: the page is not held a second time (WriteFile's
+	// file is published only when complete).
+	if err := pageTmpl.Execute(w, d); err != nil {
 		return fmt.Errorf("page: render template: %w", err)
-	}
-	if _, err := w.Write(buf.Bytes()); err != nil {
-		return fmt.Errorf("page: write: %w", err)
 	}
 	return nil
 }
