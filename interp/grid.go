@@ -338,8 +338,10 @@ func (ip *Interpolator) gridRowLanes(w *rowWork, lat, colStep float64, colLon, c
 	}
 	sp, cp := math.Sincos(lat * degToRad)
 	if need := lanes.Width * len(span.lons); cap(w.d2) < need {
-		w.d2 = make([]float64, need)
-		w.kth = make([]uint64, len(span.lons))
+		// Half again as much: the rows' spans grow and shrink with the
+		// latitude, and a worker's scratch should not be remade each row.
+		w.d2 = make([]float64, need+need/2)
+		w.kth = make([]uint64, len(span.lons)+len(span.lons)/2)
 	}
 	c := w.c
 	c.reset(len(span.lons) + 1)
