@@ -24,16 +24,16 @@ import (
 // once.
 type ZonalRows struct {
 	spec    grid.Spec
-	rowArea []float64  // km^2 of a whole cell, by row
-	covers  []rowCover // by region; emptied once the region is done
+	rowArea []float64    // km^2 of a whole cell, by row
+	covers  []rowCover   // by region; emptied once the region is done
 	stats   []ZonalStats // by region: the sums so far
 	sumZ    []zonalZ     // by region
-	order   []int      // regions that reach the grid, by first row
-	next    int        // order[next:] have not started
-	active  []int      // regions started and not done
-	row     int        // the next row expected
-	index   int        // 0 before the first block, 1 with an index, -1 without
-	auth    []authCoef // f of each row of the block (authalic.go)
+	order   []int        // regions that reach the grid, by first row
+	next    int          // order[next:] have not started
+	active  []int        // regions started and not done
+	row     int          // the next row expected
+	index   int          // 0 before the first block, 1 with an index, -1 without
+	auth    []authCoef   // f of each row of the block (authalic.go)
 	scratch []rowScratch
 }
 
@@ -77,10 +77,10 @@ func NewZonalRows(s grid.Spec, regions []Region) *ZonalRows {
 // where the previous one ended, the first at row 0.
 func (z *ZonalRows) Rows(row0 int, codes []uint8, nodata uint8, index []float32, indexNoData float32) error {
 	s := z.spec
+	if z.row == s.Rows {
+		return fmt.Errorf("zonal rows: a block at row %d after the last row (%d rows)", row0, s.Rows)
+	}
 	if row0 != z.row {
-		if z.row == s.Rows {
-			return fmt.Errorf("zonal rows: a block at row %d after the last row (%d rows)", row0, s.Rows)
-		}
 		return fmt.Errorf("zonal rows: a block at row %d, want row %d (blocks come in order)", row0, z.row)
 	}
 	if len(codes) == 0 || len(codes)%s.Cols != 0 {
