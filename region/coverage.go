@@ -148,7 +148,9 @@ func covClipY(in, out []covPt, lim float64, below bool) []covPt {
 // covIntegrate adds -integral of f(y - base) dx along each edge of the
 // closed ring to the columns c0..c1 it spans (row[i] is column c0+i): the
 // share of each cell's ellipsoidal area that the ring encloses, f being the
-// row's authalic height (see authalic.go).
+// row's authalic height (see authalic.go). An edge along the strip's
+// southern edge (y = base) adds nothing, f being exactly 0 there, and is
+// skipped.
 func covIntegrate(ring []covPt, base float64, c0, c1 int, row []float64, f *authCoef) {
 	n := len(ring)
 	if n < 3 {
@@ -156,7 +158,7 @@ func covIntegrate(ring []covPt, base float64, c0, c1 int, row []float64, f *auth
 	}
 	a := ring[n-1]
 	for _, b := range ring {
-		if a.x != b.x {
+		if a.x != b.x && (a.y != base || b.y != base) {
 			lo, hi := a, b
 			sign := -1.0
 			if b.x < a.x {

@@ -160,7 +160,7 @@ func (c *prevCovWork) polygon(s grid.Spec, p orb.Polygon, dlon float64, out []Ce
 			}
 			c.clipA = covClipY(ring, c.clipA[:0], fj+1, true)
 			c.cut = covClipY(c.clipA, c.cut[:0], fj, false)
-			covIntegrate(c.cut, fj, c0, c1, row, c.rowAuth(s, j))
+			prevCovIntegrate(c.cut, fj, c0, c1, row, c.rowAuth(s, j))
 		}
 	}
 	for j := j1; j >= j0; j-- {
@@ -186,4 +186,46 @@ func (c *prevCovWork) rowAuth(s grid.Spec, j int) *authCoef {
 		c.auth[j], c.authOK[j] = authRow(so, n), true
 	}
 	return &c.auth[j]
+}
+
+// prevCovIntegrate is the previous covIntegrate: it adds -integral of
+// f(y - base) dx along each edge of the closed ring to the columns c0..c1
+// it spans (row[i] is column c0+i).
+func prevCovIntegrate(ring []covPt, base float64, c0, c1 int, row []float64, f *authCoef) {
+	n := len(ring)
+	if n < 3 {
+		return
+	}
+	a := ring[n-1]
+	for _, b := range ring {
+		if a.x != b.x {
+			lo, hi := a, b
+			sign := -1.0
+			if b.x < a.x {
+				lo, hi = b, a
+				sign = 1
+			}
+			ylo, yhi := lo.y-base, hi.y-base
+			slope := (yhi - ylo) / (hi.x - lo.x)
+			cs := max(c0, int(math.Floor(lo.x)))
+			ce := min(c1, int(math.Ceil(hi.x))-1)
+			for col := cs; col <= ce; col++ {
+				u0 := math.Max(lo.x, float64(col))
+				u1 := math.Min(hi.x, float64(col+1))
+				if u1 <= u0 {
+					continue
+				}
+				y0 := ylo + slope*(u0-lo.x)
+				y1 := ylo + slope*(u1-lo.x)
+				if u0 == lo.x {
+					y0 = ylo
+				}
+				if u1 == hi.x {
+					y1 = yhi
+				}
+				row[col-c0] += sign * (u1 - u0) * f.mean(y0, y1)
+			}
+		}
+		a = b
+	}
 }
