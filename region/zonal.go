@@ -25,9 +25,9 @@ func (z ZonalStats) MaskedKm2() float64 { return z.AreaKm2 - z.CoveredKm2 }
 // index is not nil and on the same grid, the area-weighted mean index (an
 // index raster on another grid is ignored: check with SameGrid first to
 // report it). Regions outside the grid get zero areas. Stats come back in
-// the order of regions; a nil band raster gives nil. The result does not
-// depend on the core count: regions are summed independently, each in
-// row-major cell order.
+// the order of regions; a nil band raster, or one whose data does not fill
+// its grid, gives nil. The result does not depend on the core count:
+// regions are summed independently, each in row-major cell order.
 //
 // Zonal is ZonalRows fed the whole raster as one block; use ZonalRows to
 // pass the rasters a block of rows at a time.
@@ -44,14 +44,15 @@ func Zonal(bands *grid.Uint8, index *grid.Float32, regions []Region) []ZonalStat
 		idx, idxNoData = index.Data, index.NoData
 	}
 	z := NewZonalRows(bands.Spec, regions)
-	if len(bands.Data) > 0 {
-		if err := z.Rows(0, bands.Data, bands.NoData, idx, idxNoData); err != nil {
-			panic("region: Zonal: " + err.Error()) // the rasters were checked above
-		}
+	if len(bands.Data) == 0 {
+		return z.stats // a grid without cells: zero areas
+	}
+	if err := z.Rows(0, bands.Data, bands.NoData, idx, idxNoData); err != nil {
+		return nil // not reached: the rasters were checked above
 	}
 	st, err := z.Stats()
 	if err != nil {
-		panic("region: Zonal: " + err.Error())
+		return nil // not reached: every row was passed
 	}
 	return st
 }

@@ -83,7 +83,7 @@ func (z *ZonalRows) Rows(row0 int, codes []uint8, nodata uint8, index []float32,
 	if row0 != z.row {
 		return fmt.Errorf("zonal rows: a block at row %d, want row %d (blocks come in order)", row0, z.row)
 	}
-	if len(codes) == 0 || len(codes)%s.Cols != 0 {
+	if s.Cols <= 0 || len(codes) == 0 || len(codes)%s.Cols != 0 {
 		return fmt.Errorf("zonal rows: a block of %d codes at row %d, not whole rows of %d", len(codes), row0, s.Cols)
 	}
 	n := len(codes) / s.Cols
@@ -98,7 +98,10 @@ func (z *ZonalRows) Rows(row0 int, codes []uint8, nodata uint8, index []float32,
 		has = 1
 	}
 	if z.index != 0 && z.index != has {
-		return fmt.Errorf("zonal rows: a block at row %d with the index present %v, unlike the blocks before", row0, has > 0)
+		if has > 0 {
+			return fmt.Errorf("zonal rows: a block at row %d with an index, the blocks before without", row0)
+		}
+		return fmt.Errorf("zonal rows: a block at row %d without an index, the blocks before with one", row0)
 	}
 	z.index = has
 	row1 := row0 + n // end of the block

@@ -265,7 +265,11 @@ func TestZonalRowsErrors(t *testing.T) {
 		{"index in some blocks", func(z *ZonalRows) error {
 			_ = z.Rows(0, codes, 0, idx, 0)
 			return z.Rows(1, codes, 0, nil, 0)
-		}, "unlike the blocks before"},
+		}, "without an index, the blocks before with one"},
+		{"index in later blocks", func(z *ZonalRows) error {
+			_ = z.Rows(0, codes, 0, nil, 0)
+			return z.Rows(1, codes, 0, idx, 0)
+		}, "with an index, the blocks before without"},
 		{"after the last row", func(z *ZonalRows) error {
 			_ = z.Rows(0, make([]uint8, 12), 0, nil, 0)
 			return z.Rows(3, codes, 0, nil, 0)
