@@ -3,7 +3,6 @@ package region
 import (
 	"drygrid/grid"
 	"math"
-	"sort"
 
 	"github.com/paulmach/orb"
 )
@@ -49,64 +48,26 @@ const covMinFrac = 1e-12
 // integral -∮ f(y) dx of the clipped ring (f the authalic height, 0 at the
 // row's southern edge and 1 at its northern) is split among the columns
 // each edge spans; clipping to a column only adds vertical edges, on which
-// dx = 0, so the per-column sums are the exact clipped shares.
+// dx = 0, so the per-column sums are the exact clipped shares. The rows are
+// made one at a time by rowCover (rowcover.go), which Mask and ZonalRows use
+// too.
 func Coverage(s grid.Spec, g orb.MultiPolygon) []CellWeight {
-	var cov covWork
-	return cov.coverage(s, g, nil)
-}
-
-// coverage is Coverage appending to all[:0] and reusing c's buffers.
-func (c *covWork) coverage(s grid.Spec, g orb.MultiPolygon, all []CellWeight) []CellWeight {
-	all = all[:0]
-	for _, p := range g {
-		if len(p) == 0 {
-			continue
-		}
-		b := orb.MultiPolygon{p}.Bound()
-		for _, k := range [3]float64{0, -360, 360} {
-			if b.Max[0]+k <= s.West || b.Min[0]+k >= s.East() {
-				continue
+	rc := newRowCover(s, g)
+	var out []CellWeight
+	var sc rowScratch
+	for j := rc.j1; j >= rc.j0; j-- { // north to south: row-major order
+		r := s.Rows - 1 - j
+		f := stripAuth(s, j)
+		for i, v := range rc.row(j, &f, &sc) {
+			if v > 0 {
+				out = append(out, CellWeight{Cell: s.Index(rc.c0+i, r), Frac: v})
 			}
-			all = c.polygon(s, p, k, all)
 		}
 	}
-	if len(all) == 0 {
-		return all
-	}
-	if !sort.SliceIsSorted(all, func(i, j int) bool { return all[i].Cell < all[j].Cell }) {
-		sort.SliceStable(all, func(i, j int) bool { return all[i].Cell < all[j].Cell })
-	}
-	out := all[:0]
-	for _, w := range all {
-		if n := len(out); n > 0 && out[n-1].Cell == w.Cell {
-			out[n-1].Frac += w.Frac
-			continue
-		}
-		out = append(out, w)
-	}
-	res := out[:0]
-	for _, w := range out {
-		if w.Frac < covMinFrac {
-			continue
-		}
-		w.Frac = math.Min(w.Frac, 1)
-		res = append(res, w)
-	}
-	return res
+	return out
 }
 
 type covPt struct{ x, y float64 }
-
-// covWork holds buffers reused across polygons.
-type covWork struct {
-	spec       grid.Spec  // the grid auth was made for
-	auth       []authCoef // f of each row (see authalic.go), by strip from the south
-	authOK     []bool
-	rings      [][]covPt
-	ylo, yhi   []float64
-	clipA, cut []covPt
-	buf        []float64
-}
 
 func covSnapped(v float64) float64 {
 	if r := math.Round(v); math.Abs(v-r) < covSnap {
@@ -155,60 +116,6 @@ func covPrepare(s grid.Spec, p orb.Polygon, dlon float64, rings [][]covPt, ylo, 
 	return rings, ylo, yhi, c0, c1, j0, j1, ymin, ymax, c0 <= c1 && j0 <= j1
 }
 
-// polygon adds the shares of one polygon shifted by dlon degrees.
-func (c *covWork) polygon(s grid.Spec, p orb.Polygon, dlon float64, out []CellWeight) []CellWeight {
-	var c0, c1, j0, j1 int
-	var ok bool
-	c.rings, c.ylo, c.yhi, c0, c1, j0, j1, _, _, ok = covPrepare(s, p, dlon, c.rings[:0], c.ylo[:0], c.yhi[:0])
-	if !ok {
-		return out
-	}
-	w := c1 - c0 + 1
-	n := w * (j1 - j0 + 1)
-	if cap(c.buf) < n {
-		c.buf = make([]float64, n)
-	}
-	buf := c.buf[:n]
-	clear(buf)
-	for j := j0; j <= j1; j++ {
-		row := buf[(j-j0)*w : (j-j0+1)*w]
-		fj := float64(j)
-		for ri, ring := range c.rings {
-			if c.yhi[ri] <= fj || c.ylo[ri] >= fj+1 {
-				continue // a ring wholly above or below adds nothing to the strip
-			}
-			c.clipA = covClipY(ring, c.clipA[:0], fj+1, true)
-			c.cut = covClipY(c.clipA, c.cut[:0], fj, false)
-			covIntegrate(c.cut, fj, c0, c1, row, c.rowAuth(s, j))
-		}
-	}
-	for j := j1; j >= j0; j-- { // north to south: row-major order
-		r := s.Rows - 1 - j
-		row := buf[(j-j0)*w : (j-j0+1)*w]
-		for i, v := range row {
-			if v > covMinFrac {
-				out = append(out, CellWeight{Cell: s.Index(c0+i, r), Frac: v})
-			}
-		}
-	}
-	return out
-}
-
-// rowAuth gives f for strip j (counted from the south) of s, made once per
-// grid.
-func (c *covWork) rowAuth(s grid.Spec, j int) *authCoef {
-	if c.spec != s || len(c.auth) != s.Rows {
-		c.spec = s
-		c.auth = make([]authCoef, s.Rows)
-		c.authOK = make([]bool, s.Rows)
-	}
-	if !c.authOK[j] {
-		n, so := s.RowLats(s.Rows - 1 - j)
-		c.auth[j], c.authOK[j] = authRow(so, n), true
-	}
-	return &c.auth[j]
-}
-
 // covClipY clips a closed ring (implicitly closed) to y <= lim (below) or
 // y >= lim, Sutherland-Hodgman style.
 func covClipY(in, out []covPt, lim float64, below bool) []covPt {
@@ -241,7 +148,9 @@ func covClipY(in, out []covPt, lim float64, below bool) []covPt {
 // covIntegrate adds -integral of f(y - base) dx along each edge of the
 // closed ring to the columns c0..c1 it spans (row[i] is column c0+i): the
 // share of each cell's ellipsoidal area that the ring encloses, f being the
-// row's authalic height (see authalic.go).
+// row's authalic height (see authalic.go). An edge along the strip's
+// southern edge (y = base) adds nothing, f being exactly 0 there, and is
+// skipped.
 func covIntegrate(ring []covPt, base float64, c0, c1 int, row []float64, f *authCoef) {
 	n := len(ring)
 	if n < 3 {
@@ -249,7 +158,7 @@ func covIntegrate(ring []covPt, base float64, c0, c1 int, row []float64, f *auth
 	}
 	a := ring[n-1]
 	for _, b := range ring {
-		if a.x != b.x {
+		if a.x != b.x && (a.y != base || b.y != base) {
 			lo, hi := a, b
 			sign := -1.0
 			if b.x < a.x {

@@ -19,5 +19,13 @@
 // by the share of it inside the region; shares in drought are percent of the
 // covered (not no-data) area. Results do not depend on the number of cores.
 //
+// Zonal statistics come from rows as they come: ZonalRows takes the band
+// and index rasters a block of whole rows at a time, in order from the
+// northernmost row, and works out each region's shares row by row, so it
+// holds the regions' polygons and a few rows per core, never a raster nor
+// the cells of a region. Zonal is ZonalRows fed the whole raster at once,
+// and gives the same sums bit for bit for any block size. Coverage, Mask
+// and ZonalRows share one row-coverage core (rowcover.go).
+//
 // See docs/design.md for the regions.csv columns.
 package region

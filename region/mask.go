@@ -3,7 +3,6 @@ package region
 import (
 	"errors"
 	"fmt"
-	"math"
 	"os"
 
 	"drygrid/grid"
@@ -60,26 +59,10 @@ func (e *maskError) Unwrap() error { return e.err }
 // Mask is not safe for use by several goroutines at once.
 type Mask struct {
 	spec     grid.Spec
-	features []maskFeature
-	cov      covWork
-	part     []float64 // one part's shares over its columns
-	feat     []float64 // one feature's shares over its columns
-}
-
-// maskFeature is one feature's polygons that reach the grid.
-type maskFeature struct {
-	parts      []maskPart
-	c0, c1     int     // columns the parts span
-	ymin, ymax float64 // strips (grid units from the south) the parts span
-}
-
-// maskPart is one polygon at one shift of -360, 0 or +360 degrees, in
-// grid units (columns from the west, strips from the south).
-type maskPart struct {
-	rings      [][]covPt
-	ylo, yhi   []float64
-	c0, c1     int
-	ymin, ymax float64
+	features []rowCover
+	sc       rowScratch
+	auth     authCoef // of strip authJ
+	authJ    int
 }
 
 // ErrMaskOutside is returned by NewMask when no polygon of the mask reaches
@@ -92,7 +75,7 @@ var ErrMaskOutside = errors.New("the mask does not reach the grid")
 // (wrapped) when no polygon's bounding box overlaps the grid, or when the
 // mask holds no polygon.
 func NewMask(s grid.Spec, regions []Region) (*Mask, error) {
-	m := &Mask{spec: s}
+	m := &Mask{spec: s, authJ: -1}
 	polygons := 0
 	var all orb.Bound
 	for i, r := range regions {
@@ -101,29 +84,12 @@ func NewMask(s grid.Spec, regions []Region) (*Mask, error) {
 		} else {
 			all = all.Union(r.Geom.Bound())
 		}
-		f := maskFeature{c0: s.Cols, c1: -1, ymin: math.Inf(1), ymax: math.Inf(-1)}
 		for _, p := range r.Geom {
-			if len(p) == 0 {
-				continue
-			}
-			polygons++
-			b := orb.MultiPolygon{p}.Bound()
-			for _, k := range [3]float64{0, -360, 360} {
-				if b.Max[0]+k <= s.West || b.Min[0]+k >= s.East() {
-					continue
-				}
-				var mp maskPart
-				var ok bool
-				mp.rings, mp.ylo, mp.yhi, mp.c0, mp.c1, _, _, mp.ymin, mp.ymax, ok = covPrepare(s, p, k, nil, nil, nil)
-				if !ok {
-					continue
-				}
-				f.parts = append(f.parts, mp)
-				f.c0, f.c1 = min(f.c0, mp.c0), max(f.c1, mp.c1)
-				f.ymin, f.ymax = math.Min(f.ymin, mp.ymin), math.Max(f.ymax, mp.ymax)
+			if len(p) > 0 {
+				polygons++
 			}
 		}
-		if len(f.parts) > 0 {
+		if f := newRowCover(s, r.Geom); f.reaches() {
 			m.features = append(m.features, f)
 		}
 	}
@@ -146,44 +112,18 @@ func (m *Mask) Row(r int, dst []float64) {
 	dst = dst[:s.Cols]
 	clear(dst)
 	j := s.Rows - 1 - r // strip from the south
-	fj := float64(j)
 	for fi := range m.features {
 		f := &m.features[fi]
-		if f.ymax <= fj || f.ymin >= fj+1 {
+		if j < f.j0 || j > f.j1 {
 			continue
 		}
-		fw := f.c1 - f.c0 + 1
-		m.feat = grow(m.feat, fw)
-		clear(m.feat)
-		for pi := range f.parts {
-			p := &f.parts[pi]
-			if p.ymax <= fj || p.ymin >= fj+1 {
-				continue
-			}
-			w := p.c1 - p.c0 + 1
-			m.part = grow(m.part, w)
-			clear(m.part)
-			for ri, ring := range p.rings {
-				if p.yhi[ri] <= fj || p.ylo[ri] >= fj+1 {
-					continue
-				}
-				m.cov.clipA = covClipY(ring, m.cov.clipA[:0], fj+1, true)
-				m.cov.cut = covClipY(m.cov.clipA, m.cov.cut[:0], fj, false)
-				covIntegrate(m.cov.cut, fj, p.c0, p.c1, m.part, m.cov.rowAuth(s, j))
-			}
-			// As Coverage: each part's shares above the noise, summed
-			// in part order.
-			for i, v := range m.part {
-				if v > covMinFrac {
-					m.feat[p.c0-f.c0+i] += v
-				}
-			}
+		if m.authJ != j {
+			m.auth, m.authJ = stripAuth(s, j), j
 		}
-		for i, v := range m.feat {
-			if v < covMinFrac {
-				continue
+		for i, v := range f.row(j, &m.auth, &m.sc) {
+			if v > 0 {
+				dst[f.c0+i] += v
 			}
-			dst[f.c0+i] += math.Min(v, 1)
 		}
 	}
 	for i, v := range dst {
@@ -191,12 +131,4 @@ func (m *Mask) Row(r int, dst []float64) {
 			dst[i] = 1
 		}
 	}
-}
-
-// grow gives b with length n.
-func grow(b []float64, n int) []float64 {
-	if cap(b) < n {
-		return make([]float64, n)
-	}
-	return b[:n]
 }

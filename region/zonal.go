@@ -3,11 +3,7 @@ package region
 import (
 	"drygrid/bands"
 	"drygrid/grid"
-	"drygrid/internal/pool"
 	"fmt"
-	"math"
-
-	"github.com/tidwall/rtree"
 )
 
 // ZonalStats are one region's areas on a band raster, all in km^2 on the
@@ -29,43 +25,36 @@ func (z ZonalStats) MaskedKm2() float64 { return z.AreaKm2 - z.CoveredKm2 }
 // index is not nil and on the same grid, the area-weighted mean index (an
 // index raster on another grid is ignored: check with SameGrid first to
 // report it). Regions outside the grid get zero areas. Stats come back in
-// the order of regions; a nil band raster gives nil. The result does not depend on the core count: regions
-// are summed independently, each in row-major cell order.
+// the order of regions; a nil band raster, or one whose data does not fill
+// its grid, gives nil. The result does not depend on the core count:
+// regions are summed independently, each in row-major cell order.
 //
-// An rtree over the region bounds (shifted by -360, 0, +360 for the
-// antimeridian, see Coverage) picks the regions that reach the grid.
+// Zonal is ZonalRows fed the whole raster as one block; use ZonalRows to
+// pass the rasters a block of rows at a time.
 func Zonal(bands *grid.Uint8, index *grid.Float32, regions []Region) []ZonalStats {
 	if bands == nil || len(bands.Data) != bands.Spec.Len() {
 		return nil
 	}
-	s := bands.Spec
 	if SameGrid(bands, index) != nil {
 		index = nil
 	}
-	var tr rtree.RTreeG[int]
-	for i, r := range regions {
-		b := r.Geom.Bound()
-		for _, k := range [3]float64{0, -360, 360} {
-			tr.Insert([2]float64{b.Min[0] + k, b.Min[1]}, [2]float64{b.Max[0] + k, b.Max[1]}, i)
-		}
+	var idx []float32
+	var idxNoData float32
+	if index != nil {
+		idx, idxNoData = index.Data, index.NoData
 	}
-	reach := make([]bool, len(regions))
-	tr.Search([2]float64{s.West, s.South()}, [2]float64{s.East(), s.North}, func(_, _ [2]float64, i int) bool {
-		reach[i] = true
-		return true
-	})
-	rowArea := s.RowAreasKm2()
-	out := make([]ZonalStats, len(regions))
-	type scratch struct {
-		cov covWork
-		buf []CellWeight
+	z := NewZonalRows(bands.Spec, regions)
+	if len(bands.Data) == 0 {
+		return z.stats // a grid without cells: zero areas
 	}
-	work := make([]scratch, pool.Count(len(regions), 0, 1))
-	pool.Run(len(regions), 0, 1, func(w, i, _ int) {
-		sc := &work[w]
-		out[i], sc.buf = zonalOne(bands, index, regions[i], reach[i], rowArea, &sc.cov, sc.buf)
-	})
-	return out
+	if err := z.Rows(0, bands.Data, bands.NoData, idx, idxNoData); err != nil {
+		return nil // not reached: the rasters were checked above
+	}
+	st, err := z.Stats()
+	if err != nil {
+		return nil // not reached: every row was passed
+	}
+	return st
 }
 
 // SameGrid reports an error when the index raster is not on the band
@@ -78,33 +67,4 @@ func SameGrid(bands *grid.Uint8, index *grid.Float32) error {
 		return fmt.Errorf("index raster grid (%s) differs from the band raster's (%s)", index.Spec, bands.Spec)
 	}
 	return nil
-}
-
-func zonalOne(bands *grid.Uint8, index *grid.Float32, r Region, reach bool, rowArea []float64, cov *covWork, buf []CellWeight) (ZonalStats, []CellWeight) {
-	z := ZonalStats{Key: r.Key}
-	if !reach {
-		return z, buf
-	}
-	s := bands.Spec
-	var sumZ, sumZA float64
-	buf = cov.coverage(s, r.Geom, buf)
-	for _, w := range buf {
-		a := w.Frac * rowArea[w.Cell/s.Cols]
-		z.AreaKm2 += a
-		if c := bands.Data[w.Cell]; c != bands.NoData {
-			z.CoveredKm2 += a
-			z.CodeKm2[c] += a
-		}
-		if index != nil {
-			v := index.Data[w.Cell]
-			if v != index.NoData && !math.IsNaN(float64(v)) && !math.IsInf(float64(v), 0) {
-				sumZ += a * float64(v)
-				sumZA += a
-			}
-		}
-	}
-	if sumZA > 0 {
-		z.MeanZ, z.HasMeanZ = sumZ/sumZA, true
-	}
-	return z, buf
 }
