@@ -152,6 +152,11 @@ func Compute(ctx context.Context, job Job) (*Result, error) {
 	gridStart := job.now()
 	p := newPass(&job, res)
 	p.sinks = append(p.sinks, collect(res))
+	var zonal *region.ZonalRows
+	if len(in.regions) > 0 {
+		zonal = region.NewZonalRows(res.Spec, in.regions)
+		p.sinks = append(p.sinks, zonalSink(zonal))
+	}
 	if err := p.run(ctx); err != nil {
 		return nil, err
 	}
@@ -160,8 +165,10 @@ func Compute(ctx context.Context, job Job) (*Result, error) {
 	if err := checkCovered(&job, res); err != nil {
 		return nil, err
 	}
-	if len(in.regions) > 0 {
-		res.Regions = region.Zonal(res.Bands, res.Index, in.regions)
+	if zonal != nil {
+		if res.Regions, err = zonal.Stats(); err != nil {
+			return nil, err
+		}
 	}
 	res.Timings["grid_s"] = seconds(job.now().Sub(gridStart))
 	return res, nil

@@ -18,7 +18,12 @@ func (w *layerWriter) runPass(ctx context.Context) error {
 		w.preview = newPreview(res.Spec, previewMaxCells)
 		p.sinks = append(p.sinks, w.preview.rows)
 	}
-	if job.Layers["geojson"] || job.Layers["page"] || len(w.regions) > 0 {
+	var zonal *region.ZonalRows
+	if len(w.regions) > 0 {
+		zonal = region.NewZonalRows(res.Spec, w.regions)
+		p.sinks = append(p.sinks, zonalSink(zonal))
+	}
+	if job.Layers["geojson"] || job.Layers["page"] {
 		p.sinks = append(p.sinks, collect(res))
 	}
 	var err error
@@ -41,10 +46,21 @@ func (w *layerWriter) runPass(ctx context.Context) error {
 	}
 	res.tally = p.tally
 	res.shares()
-	if res.Bands != nil && len(w.regions) > 0 {
-		res.Regions = region.Zonal(res.Bands, res.Index, w.regions)
+	if zonal != nil {
+		stats, err := zonal.Stats()
+		if err != nil {
+			return err
+		}
+		res.Regions = stats
 	}
 	return nil
+}
+
+// zonalSink gives the rows to the zonal statistics of the regions.
+func zonalSink(z *region.ZonalRows) rowSink {
+	return func(row0, _ int, index []float32, codes []uint8) error {
+		return z.Rows(row0, codes, 0, index, grid.NoDataIndex)
+	}
 }
 
 // previewMaxCells is the most cells the preview raster holds: a grid up to
