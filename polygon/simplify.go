@@ -2,6 +2,7 @@ package polygon
 
 import (
 	"math"
+	"slices"
 
 	"drygrid/grid"
 
@@ -35,18 +36,19 @@ func PolygonizeSimplified(r *grid.Uint8, km float64) map[uint8]orb.MultiPolygon 
 	if !(km > 0) || math.IsInf(km, 0) {
 		km = 0
 	}
-	return polyRFC7946(r, km)
+	return polyWhole(r, km, true)
 }
 
 // polyKmPerDeg is one degree of arc on the authalic sphere, km.
 var polyKmPerDeg = grid.AuthalicRadiusM / 1000 * math.Pi / 180
 
-// polySimp simplifies the rings of one traced raster.
+// polySimp simplifies the rings of one traced column part. nodes holds
+// the vertex ids (vid) of its nodes, sorted: the sweep records them as it
+// passes (polyIsNode), since the raster is not kept.
 type polySimp struct {
 	km         float64
 	cols, rows int
-	P          int
-	pad        []uint8
+	nodes      []int32
 	lons, lats []float64
 }
 
@@ -55,36 +57,10 @@ func (s *polySimp) ij(v int32) (int32, int32) {
 	return v % int32(s.cols+1), v / int32(s.cols+1)
 }
 
-// isNode: a vertex where three or more regions meet (no data and the
-// outside count as one region), a saddle, a grid corner, or a border vertex
-// where the regions just inside the border change.
+// isNode: vertex (i, j) is a node (see polyIsNode).
 func (s *polySimp) isNode(i, j int) bool {
-	b := j*s.P + i
-	a, bb, c, d := s.pad[b], s.pad[b+1], s.pad[b+s.P], s.pad[b+s.P+1] // NW, NE, SW, SE
-	onX, onY := i == 0 || i == s.cols, j == 0 || j == s.rows
-	switch {
-	case onX && onY:
-		return true
-	case i == 0:
-		return bb != d
-	case i == s.cols:
-		return a != c
-	case j == 0:
-		return c != d
-	case j == s.rows:
-		return a != bb
-	}
-	n := 1
-	if bb != a {
-		n++
-	}
-	if c != a && c != bb {
-		n++
-	}
-	if d != a && d != bb && d != c {
-		n++
-	}
-	return n >= 3 || (n == 2 && a == d && bb == c)
+	_, ok := slices.BinarySearch(s.nodes, s.vid(int32(i), int32(j)))
+	return ok
 }
 
 // polyArc is one arc in its canonical direction; keep marks kept vertices.
