@@ -76,8 +76,9 @@ type polyUse struct {
 
 type polySeg [2]int32 // vertex ids of a segment
 
-// apply simplifies rings in place.
-func (s *polySimp) apply(rings []polyRing) {
+// apply simplifies the rings, whose vertices are held in pts, and returns
+// the arena of the simplified vertices, to which it points the rings.
+func (s *polySimp) apply(rings []polyRing, pts *polyArena) *polyArena {
 	var arcs []*polyArc
 	index := map[[2]int32]int32{}
 	uses := make([][]polyUse, len(rings))
@@ -103,12 +104,13 @@ func (s *polySimp) apply(rings []polyRing) {
 		return polyUse{int32(len(arcs) - 1), rev}
 	}
 	for ri, rg := range rings {
-		n := len(rg.pts) / 2
+		rp := pts.ring(&rg)
+		n := len(rp) / 2
 		ids := make([]int32, n)
 		first := -1
 		for k := 0; k < n; k++ {
-			ids[k] = s.vid(rg.pts[2*k], rg.pts[2*k+1])
-			if first < 0 && s.isNode(int(rg.pts[2*k]), int(rg.pts[2*k+1])) {
+			ids[k] = s.vid(rp[2*k], rp[2*k+1])
+			if first < 0 && s.isNode(int(rp[2*k]), int(rp[2*k+1])) {
 				first = k
 			}
 		}
@@ -151,8 +153,10 @@ func (s *polySimp) apply(rings []polyRing) {
 		s.simplifyArc(a, &tr, box)
 	}
 
+	out := &polyArena{}
+	var buf []int32
 	for ri := range rings {
-		var pts []int32
+		buf = buf[:0]
 		for _, u := range uses[ri] {
 			a := arcs[u.arc]
 			var kept []int32
@@ -168,11 +172,12 @@ func (s *polySimp) apply(rings []polyRing) {
 			}
 			for _, v := range kept[:len(kept)-1] {
 				i, j := s.ij(v)
-				pts = append(pts, i, j)
+				buf = append(buf, i, j)
 			}
 		}
-		rings[ri].pts = pts
+		out.add(&rings[ri], buf)
 	}
+	return out
 }
 
 // simplifyArc runs Douglas-Peucker on one arc and accepts each chord only if

@@ -7,6 +7,7 @@ package polygon
 
 import (
 	"math"
+	"sort"
 
 	"drygrid/grid"
 
@@ -113,7 +114,7 @@ func polyTraceOld(data []uint8, cols, rows int, nodata uint8, lons, lats []float
 		simp = &polySimp{km: km, cols: cols, rows: rows, nodes: nodes, lons: lons, lats: lats}
 	}
 	vis := make([]uint8, (rows+1)*cols) // bit 1: traversed eastward, bit 2: westward
-	var rings []polyRing
+	var rings []polyRingOld
 	var turns []int32
 	var saddles []polySaddle
 	trace := func(code uint8, i0, j0, d0 int, rep int32) {
@@ -147,8 +148,8 @@ func polyTraceOld(data []uint8, cols, rows int, nodata uint8, lons, lats []float
 				break
 			}
 		}
-		for _, loop := range polySplit(turns, saddles) {
-			rings = append(rings, polyRing{code: code, rep: rep, shell: polyArea2(loop) > 0, pts: loop})
+		for _, loop := range polySplitOld(turns, saddles) {
+			rings = append(rings, polyRingOld{code: code, rep: rep, shell: polyArea2(loop) > 0, pts: loop})
 		}
 	}
 	for j := 0; j <= rows; j++ {
@@ -170,7 +171,16 @@ func polyTraceOld(data []uint8, cols, rows int, nodata uint8, lons, lats []float
 		return out
 	}
 	if simp != nil {
-		simp.apply(rings)
+		// The simplifier now reads the rings from an arena.
+		arena := &polyArena{}
+		nr := make([]polyRing, len(rings))
+		for k, rg := range rings {
+			arena.add(&nr[k], rg.pts)
+		}
+		arena = simp.apply(nr, arena)
+		for k := range rings {
+			rings[k].pts = arena.ring(&nr[k])
+		}
 	}
 	label := polyLabelOld(data, cols, rows, nodata)
 	type where struct {
@@ -269,4 +279,50 @@ func polyIsNodeOld(pad []uint8, P, cols, rows, i, j int) bool {
 		n++
 	}
 	return n >= 3 || (n == 2 && a == d && bb == c)
+}
+
+// polyRingOld is the previous polyRing.
+type polyRingOld struct {
+	code  uint8
+	rep   int32 // a cell of the ring's 4-connected component
+	shell bool
+	pts   []int32 // i0, j0, i1, j1, ... (open: last != first)
+}
+
+// polySplitOld is the previous polySplit.
+func polySplitOld(turns []int32, saddles []polySaddle) [][]int32 {
+	own := func() [][]int32 { return [][]int32{append([]int32(nil), turns...)} }
+	if len(saddles) < 2 {
+		return own()
+	}
+	sort.Slice(saddles, func(a, b int) bool { return saddles[a].v < saddles[b].v })
+	dup := map[int32]bool{}
+	for k := 1; k < len(saddles); k++ {
+		if saddles[k].v == saddles[k-1].v {
+			dup[saddles[k].v] = true
+		}
+	}
+	if len(dup) == 0 {
+		return own()
+	}
+	var loops [][]int32
+	keyAt := map[int32]int32{}
+	for _, sd := range saddles {
+		if dup[sd.v] {
+			keyAt[sd.pos] = sd.v
+		}
+	}
+	stack := make([]int32, 0, len(turns))
+	at := map[int32]int{}
+	for k := 0; k < len(turns); k += 2 {
+		if key, ok := keyAt[int32(k)]; ok {
+			if p, ok := at[key]; ok && p+1 < len(stack) && stack[p] == turns[k] && stack[p+1] == turns[k+1] {
+				loops = append(loops, append([]int32(nil), stack[p:]...))
+				stack = stack[:p]
+			}
+			at[key] = len(stack)
+		}
+		stack = append(stack, turns[k], turns[k+1])
+	}
+	return append(loops, stack)
 }

@@ -1,18 +1,43 @@
 package polygon
 
 import (
-	"sort"
+	"cmp"
+	"slices"
 
 	"github.com/paulmach/orb"
 )
 
-// polyRing is one traced ring in vertex indices before conversion.
+// polyRing is one closed ring in vertex indices; its vertices are held in
+// a polyArena: i0, j0, i1, j1, ... (open: last != first).
 type polyRing struct {
-	code  uint8
-	rep   int32 // component id of a cell on the ring's left
-	key   int64 // where the ring's cycle was first met (see closeRing)
-	shell bool
-	pts   []int32 // i0, j0, i1, j1, ... (open: last != first)
+	code          uint8
+	shell         bool
+	rep           int32 // component id of a cell on the ring's left
+	key           int64 // where the ring's cycle was first met (see closeRing)
+	chunk, off, n int32 // where its vertices are in the arena, and how many int32
+}
+
+// polyArena holds the vertices of many rings in chunks, so that it grows
+// without copying what it holds; each ring is contiguous in one chunk.
+type polyArena struct{ chunks [][]int32 }
+
+const polyChunk = 1 << 16
+
+// add copies v into the arena and points r at it.
+func (a *polyArena) add(r *polyRing, v []int32) {
+	n := len(a.chunks)
+	if n == 0 || len(a.chunks[n-1])+len(v) > cap(a.chunks[n-1]) {
+		a.chunks = append(a.chunks, make([]int32, 0, max(polyChunk, len(v))))
+		n++
+	}
+	c := a.chunks[n-1]
+	r.chunk, r.off, r.n = int32(n-1), int32(len(c)), int32(len(v))
+	a.chunks[n-1] = append(c, v...)
+}
+
+// ring is r's vertices (capped: appending copies).
+func (a *polyArena) ring(r *polyRing) []int32 {
+	return a.chunks[r.chunk][r.off : r.off+r.n : r.off+r.n]
 }
 
 // polySaddle records that the ring passed saddle vertex v when it had
@@ -20,27 +45,31 @@ type polyRing struct {
 type polySaddle struct{ v, pos int32 }
 
 // polySplit cuts a closed ring at every vertex it visits twice (only saddle
-// vertices can be) into simple loops. Cutting a loop out at a repeated
-// vertex is the same as pairing that saddle's edges the other way.
-func polySplit(turns []int32, saddles []polySaddle) [][]int32 {
-	own := func() [][]int32 { return [][]int32{append([]int32(nil), turns...)} }
+// vertices can be) into simple loops, passed to emit (valid during the
+// call only). Cutting a loop out at a repeated vertex is the same as
+// pairing that saddle's edges the other way.
+func polySplit(turns []int32, saddles []polySaddle, emit func(loop []int32)) {
 	if len(saddles) < 2 {
-		return own()
+		emit(turns)
+		return
 	}
-	sort.Slice(saddles, func(a, b int) bool { return saddles[a].v < saddles[b].v })
-	dup := map[int32]bool{}
+	slices.SortFunc(saddles, func(a, b polySaddle) int { return cmp.Compare(a.v, b.v) })
+	var dup map[int32]bool
 	for k := 1; k < len(saddles); k++ {
 		if saddles[k].v == saddles[k-1].v {
+			if dup == nil {
+				dup = map[int32]bool{}
+			}
 			dup[saddles[k].v] = true
 		}
 	}
 	if len(dup) == 0 {
-		return own()
+		emit(turns)
+		return
 	}
 	// The saddle's vertex is recorded at the position saved in pos; walk
 	// the turn list with a stack and cut a loop whenever a repeated vertex
 	// reappears on it.
-	var loops [][]int32
 	keyAt := map[int32]int32{} // turn position -> repeated saddle vertex
 	for _, sd := range saddles {
 		if dup[sd.v] {
@@ -52,14 +81,14 @@ func polySplit(turns []int32, saddles []polySaddle) [][]int32 {
 	for k := 0; k < len(turns); k += 2 {
 		if key, ok := keyAt[int32(k)]; ok {
 			if p, ok := at[key]; ok && p+1 < len(stack) && stack[p] == turns[k] && stack[p+1] == turns[k+1] {
-				loops = append(loops, append([]int32(nil), stack[p:]...))
+				emit(stack[p:])
 				stack = stack[:p]
 			}
 			at[key] = len(stack)
 		}
 		stack = append(stack, turns[k], turns[k+1])
 	}
-	return append(loops, stack)
+	emit(stack)
 }
 
 // polyArea2 is twice the signed area of a ring in vertex units, y up
@@ -76,84 +105,117 @@ func polyArea2(pts []int32) int64 {
 	return a
 }
 
-// polyStart rotates a ring to start at its north-most, then west-most
-// vertex (smallest vertex row, then column), keeping its direction.
-func polyStart(pts []int32) []int32 {
+// polyStart rotates a ring in place to start at its north-most, then
+// west-most vertex (smallest vertex row, then column), keeping its
+// direction.
+func polyStart(pts []int32) {
 	m := 0
 	for k := 2; k < len(pts); k += 2 {
 		if pts[k+1] < pts[m+1] || (pts[k+1] == pts[m+1] && pts[k] < pts[m]) {
 			m = k
 		}
 	}
-	if m == 0 {
-		return pts
+	if m > 0 {
+		slices.Reverse(pts[:m])
+		slices.Reverse(pts[m:])
+		slices.Reverse(pts)
 	}
-	out := make([]int32, 0, len(pts))
-	return append(append(out, pts[m:]...), pts[:m]...)
 }
 
-// polyBefore orders rings by their start vertex, north to south, then west
-// to east.
-func polyBefore(a, b []int32) bool {
-	return a[1] < b[1] || (a[1] == b[1] && a[0] < b[0])
+// polyCmpStart orders rings by their start vertex, north to south, then
+// west to east.
+func polyCmpStart(a, b []int32) int {
+	if c := cmp.Compare(a[1], b[1]); c != 0 {
+		return c
+	}
+	return cmp.Compare(a[0], b[0])
 }
 
 // polygons assembles the closed rings into each code's MultiPolygon, after
 // simplifying them when asked, in the canonical order: rings start at
 // their north-most, then west-most vertex; polygons by their shell's start,
-// holes likewise.
+// holes likewise (ties, possible only after simplification, by the order
+// the rings closed in, which the sweep fixes).
 func (s *polySweep) polygons() map[uint8]orb.MultiPolygon {
 	out := map[uint8]orb.MultiPolygon{}
-	rings := s.rings
-	s.rings = nil
+	n := 0
+	for _, c := range s.rings {
+		n += len(c)
+	}
+	rings := make([]polyRing, 0, n)
+	for _, c := range s.rings {
+		rings = append(rings, c...)
+	}
+	arena := s.pts
+	s.rings, s.pts = nil, nil
 	if len(rings) == 0 {
 		return out
 	}
-	// The order the previous tracer found the rings in; the loops cut from
-	// one cycle keep their order.
-	sort.SliceStable(rings, func(a, b int) bool { return rings[a].key < rings[b].key })
 	if s.km > 0 {
+		// The simplification depends on the order it meets the rings in:
+		// the order the previous tracer found them in (closeRing); the
+		// loops cut from one cycle keep their order.
+		slices.SortStableFunc(rings, func(a, b polyRing) int { return cmp.Compare(a.key, b.key) })
 		simp := &polySimp{km: s.km, cols: s.cols, rows: s.rows, nodes: s.nodeIDs, lons: s.lons, lats: s.lats}
-		simp.apply(rings)
+		arena = simp.apply(rings, arena)
 	}
-	type poly struct {
-		code  uint8
-		rings [][]int32 // shell first
-	}
-	var polys []*poly
-	shellOf := map[int32]*poly{}
+	// Shells in canonical order give each component its polygon number.
+	var shells, holes []int32
 	for k := range rings {
 		rg := &rings[k]
-		rg.pts = polyStart(rg.pts)
+		polyStart(arena.ring(rg))
 		rg.rep = s.find(rg.rep)
 		if rg.shell {
-			p := &poly{code: rg.code, rings: [][]int32{rg.pts}}
-			shellOf[rg.rep] = p
-			polys = append(polys, p)
+			shells = append(shells, int32(k))
+		} else {
+			holes = append(holes, int32(k))
 		}
 	}
+	byStart := func(a, b int32) int {
+		if c := polyCmpStart(arena.ring(&rings[a]), arena.ring(&rings[b])); c != 0 {
+			return c
+		}
+		return cmp.Compare(a, b)
+	}
+	slices.SortFunc(shells, byStart)
+	polyOf := make([]int32, len(s.parent)) // component -> polygon number + 1
+	for n, k := range shells {
+		polyOf[rings[k].rep] = int32(n + 1)
+	}
+	// Holes whose component has no shell cannot happen: they are dropped.
+	holes = slices.DeleteFunc(holes, func(k int32) bool { return polyOf[rings[k].rep] == 0 })
+	slices.SortFunc(holes, func(a, b int32) int {
+		if c := cmp.Compare(polyOf[rings[a].rep], polyOf[rings[b].rep]); c != 0 {
+			return c
+		}
+		return byStart(a, b)
+	})
+	// One backing array for all points and one for all rings; each ring
+	// and polygon is capped, so appending to one never touches another.
+	npts := 0
 	for _, rg := range rings {
-		if !rg.shell {
-			p, ok := shellOf[rg.rep]
-			if !ok || p.code != rg.code {
-				continue // cannot happen: every component has one shell
-			}
-			p.rings = append(p.rings, rg.pts)
-		}
+		npts += int(rg.n)/2 + 1
 	}
-	sort.SliceStable(polys, func(a, b int) bool { return polyBefore(polys[a].rings[0], polys[b].rings[0]) })
-	for _, p := range polys {
-		holes := p.rings[1:]
-		sort.SliceStable(holes, func(a, b int) bool { return polyBefore(holes[a], holes[b]) })
-		pg := make(orb.Polygon, len(p.rings))
-		for k, pts := range p.rings {
-			ring := make(orb.Ring, 0, len(pts)/2+1)
-			for m := 0; m < len(pts); m += 2 {
-				ring = append(ring, orb.Point{s.lons[pts[m]], s.lats[pts[m+1]]})
-			}
-			pg[k] = append(ring, ring[0])
+	pbuf := make([]orb.Point, 0, npts)
+	rbuf := make([]orb.Ring, 0, len(shells)+len(holes))
+	ring := func(k int32) orb.Ring {
+		rp := arena.ring(&rings[k])
+		at := len(pbuf)
+		for m := 0; m < len(rp); m += 2 {
+			pbuf = append(pbuf, orb.Point{s.lons[rp[m]], s.lats[rp[m+1]]})
 		}
-		out[p.code] = append(out[p.code], pg)
+		pbuf = append(pbuf, pbuf[at])
+		return pbuf[at:len(pbuf):len(pbuf)]
+	}
+	h := 0
+	for n, k := range shells {
+		at := len(rbuf)
+		rbuf = append(rbuf, ring(k))
+		for ; h < len(holes) && polyOf[rings[holes[h]].rep] == int32(n+1); h++ {
+			rbuf = append(rbuf, ring(holes[h]))
+		}
+		code := rings[k].code
+		out[code] = append(out[code], orb.Polygon(rbuf[at:len(rbuf):len(rbuf)]))
 	}
 	return out
 }

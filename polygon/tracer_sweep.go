@@ -77,7 +77,8 @@ type polySweep struct {
 	nodes []polyNode
 	free  int32 // free list of nodes, through next
 
-	rings []polyRing
+	rings [][]polyRing // closed rings, in chunks
+	pts   *polyArena   // their vertices
 
 	// Simplification: km > 0; nodeIDs are the vertex ids of the nodes
 	// (polySimp.isNode), in sweep order, so sorted.
@@ -90,7 +91,7 @@ type polySweep struct {
 }
 
 func newPolySweep(cols, rows int, nodata uint8, km float64, lons, lats []float64) *polySweep {
-	s := &polySweep{cols: cols, rows: rows, nodata: nodata, km: km, lons: lons, lats: lats, free: -1}
+	s := &polySweep{cols: cols, rows: rows, nodata: nodata, km: km, lons: lons, lats: lats, free: -1, pts: &polyArena{}}
 	s.up = make([]uint8, cols+2)
 	s.down = make([]uint8, cols+2)
 	for k := range s.up {
@@ -363,8 +364,15 @@ func (s *polySweep) closeRing(start int32, code uint8, rep int32) {
 			break
 		}
 	}
-	for _, loop := range polySplit(turns, saddles) {
-		s.rings = append(s.rings, polyRing{code: code, rep: rep, key: key, shell: polyArea2(loop) > 0, pts: loop})
-	}
+	polySplit(turns, saddles, func(loop []int32) {
+		n := len(s.rings)
+		if n == 0 || len(s.rings[n-1]) == cap(s.rings[n-1]) {
+			s.rings = append(s.rings, make([]polyRing, 0, 1<<12))
+			n++
+		}
+		rg := polyRing{code: code, shell: polyArea2(loop) > 0, rep: rep, key: key}
+		s.pts.add(&rg, loop)
+		s.rings[n-1] = append(s.rings[n-1], rg)
+	})
 	s.turns, s.saddles = turns, saddles
 }
