@@ -122,15 +122,6 @@ func polyStart(pts []int32) {
 	}
 }
 
-// polyCmpStart orders rings by their start vertex, north to south, then
-// west to east.
-func polyCmpStart(a, b []int32) int {
-	if c := cmp.Compare(a[1], b[1]); c != 0 {
-		return c
-	}
-	return cmp.Compare(a[0], b[0])
-}
-
 // polygons assembles the closed rings into each code's MultiPolygon, after
 // simplifying them when asked, in the canonical order: rings start at
 // their north-most, then west-most vertex; polygons by their shell's start,
@@ -160,36 +151,45 @@ func (s *polySweep) polygons() map[uint8]orb.MultiPolygon {
 		arena = simp.apply(rings, arena)
 	}
 	// Shells in canonical order give each component its polygon number.
-	var shells, holes []int32
+	// Sort keys: the start vertex's id in the high half, the ring's index
+	// (the order rings closed in) in the low half.
+	w := int64(s.cols + 1)
+	var shells, holes []uint64
 	for k := range rings {
 		rg := &rings[k]
-		polyStart(arena.ring(rg))
+		rp := arena.ring(rg)
+		polyStart(rp)
 		rg.rep = s.find(rg.rep)
+		sk := uint64(int64(rp[1])*w+int64(rp[0]))<<32 | uint64(k)
 		if rg.shell {
-			shells = append(shells, int32(k))
+			shells = append(shells, sk)
 		} else {
-			holes = append(holes, int32(k))
+			holes = append(holes, sk)
 		}
 	}
-	byStart := func(a, b int32) int {
-		if c := polyCmpStart(arena.ring(&rings[a]), arena.ring(&rings[b])); c != 0 {
-			return c
-		}
-		return cmp.Compare(a, b)
-	}
-	slices.SortFunc(shells, byStart)
+	slices.Sort(shells)
 	polyOf := make([]int32, len(s.parent)) // component -> polygon number + 1
-	for n, k := range shells {
-		polyOf[rings[k].rep] = int32(n + 1)
+	for n, sk := range shells {
+		polyOf[rings[uint32(sk)].rep] = int32(n + 1)
 	}
-	// Holes whose component has no shell cannot happen: they are dropped.
-	holes = slices.DeleteFunc(holes, func(k int32) bool { return polyOf[rings[k].rep] == 0 })
-	slices.SortFunc(holes, func(a, b int32) int {
-		if c := cmp.Compare(polyOf[rings[a].rep], polyOf[rings[b].rep]); c != 0 {
-			return c
-		}
-		return byStart(a, b)
-	})
+	// Holes in canonical order, then grouped by polygon (a stable counting
+	// sort); holes whose component has no shell cannot happen and are
+	// dropped.
+	slices.Sort(holes)
+	first := make([]int32, len(shells)+2)
+	for _, sk := range holes {
+		first[polyOf[rings[uint32(sk)].rep]+1]++
+	}
+	for n := 1; n < len(first); n++ {
+		first[n] += first[n-1]
+	}
+	grouped := make([]uint64, len(holes))
+	for _, sk := range holes {
+		p := polyOf[rings[uint32(sk)].rep]
+		grouped[first[p]] = sk
+		first[p]++
+	}
+	holes = grouped[first[0]:] // past those without a shell
 	// One backing array for all points and one for all rings; each ring
 	// and polygon is capped, so appending to one never touches another.
 	npts := 0
@@ -198,8 +198,8 @@ func (s *polySweep) polygons() map[uint8]orb.MultiPolygon {
 	}
 	pbuf := make([]orb.Point, 0, npts)
 	rbuf := make([]orb.Ring, 0, len(shells)+len(holes))
-	ring := func(k int32) orb.Ring {
-		rp := arena.ring(&rings[k])
+	ring := func(sk uint64) orb.Ring {
+		rp := arena.ring(&rings[uint32(sk)])
 		at := len(pbuf)
 		for m := 0; m < len(rp); m += 2 {
 			pbuf = append(pbuf, orb.Point{s.lons[rp[m]], s.lats[rp[m+1]]})
@@ -208,13 +208,13 @@ func (s *polySweep) polygons() map[uint8]orb.MultiPolygon {
 		return pbuf[at:len(pbuf):len(pbuf)]
 	}
 	h := 0
-	for n, k := range shells {
+	for n, sk := range shells {
 		at := len(rbuf)
-		rbuf = append(rbuf, ring(k))
-		for ; h < len(holes) && polyOf[rings[holes[h]].rep] == int32(n+1); h++ {
+		rbuf = append(rbuf, ring(sk))
+		for ; h < len(holes) && polyOf[rings[uint32(holes[h])].rep] == int32(n+1); h++ {
 			rbuf = append(rbuf, ring(holes[h]))
 		}
-		code := rings[k].code
+		code := rings[uint32(sk)].code
 		out[code] = append(out[code], orb.Polygon(rbuf[at:len(rbuf):len(rbuf)]))
 	}
 	return out

@@ -320,18 +320,21 @@ func (s *polySweep) link(in, out int32, inOld, outOld, rec bool, i, j int32, sad
 // closeRing takes the closed cycle of nodes through start off the chains,
 // frees its nodes, cuts it at vertices visited twice and keeps the loops.
 //
-// The cycle is read from where the previous, whole-raster tracer began it,
-// so that the simplification, which depends on the order it meets the
-// rings in, gives the same result: that tracer scanned the horizontal cell
+// When simplifying, the cycle is read from where the previous,
+// whole-raster tracer began it, so that the simplification, which depends
+// on the order it meets the rings in, gives the same result: that tracer scanned the horizontal cell
 // edges row by row, west to east (at one edge the code above first) and
 // traced a ring from the first edge it met, recording vertices from the
 // end of that edge's segment on. The key of that edge orders the rings
 // (polyRing.key).
 func (s *polySweep) closeRing(start int32, code uint8, rep int32) {
 	w := int64(s.cols + 1)
-	first, key := start, int64(math.MaxInt64)
+	first, key := start, int64(0)
 	k := start
-	for {
+	for s.km > 0 { // the order matters only to the simplification
+		if key == 0 {
+			key = math.MaxInt64
+		}
 		p := &s.nodes[k]
 		q := &s.nodes[p.next]
 		if p.j == q.j {
