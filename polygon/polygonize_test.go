@@ -7,7 +7,10 @@ import (
 	"drygrid/polygon"
 	"fmt"
 	"math"
+	"reflect"
 	"testing"
+
+	"github.com/paulmach/orb"
 )
 
 // TestPolygonizeProperties runs the Go-side laws (rastertest.Check) over 800
@@ -80,20 +83,51 @@ func TestPolygonizeCornerRule(t *testing.T) {
 	}
 }
 
+// feedBlocks feeds r to a polygon.Tracer in blocks whose sizes cycle
+// through sizes (each 1 + byte % rows). The grids of the fuzz targets do
+// not cross 180, so the layer is Polygonize's.
+func feedBlocks(t *testing.T, r *grid.Uint8, km float64, sizes []byte) map[uint8]orb.MultiPolygon {
+	t.Helper()
+	tr, err := polygon.NewTracer(r.Spec, r.NoData, km)
+	if err != nil {
+		t.Fatal(err)
+	}
+	cols, rows := r.Spec.Cols, r.Spec.Rows
+	for row, k := 0, 0; row < rows; k++ {
+		n := rows
+		if len(sizes) > 0 {
+			n = 1 + int(sizes[k%len(sizes)])%rows
+		}
+		end := min(row+n, rows)
+		if err := tr.Rows(row, r.Data[row*cols:end*cols]); err != nil {
+			t.Fatal(err)
+		}
+		row = end
+	}
+	out, err := tr.Finish()
+	if err != nil {
+		t.Fatal(err)
+	}
+	return out
+}
+
 // FuzzPolygonize polygonizes arbitrary small rasters (the first byte picks
-// the width) and checks the laws of rastertest.Check: area = count x res^2,
-// orientations, simple rings, point in polygon, one polygon per component.
+// the width, the second the block sizes the rows are fed in) and checks
+// the laws of rastertest.Check: area = count x res^2, orientations, simple
+// rings, point in polygon, one polygon per component; and that the layer
+// fed in blocks equals the whole raster's.
 func FuzzPolygonize(f *testing.F) {
-	f.Add([]byte{2, 1, 0, 0, 1})
-	f.Add([]byte{3, 1, 1, 1, 1, 0, 1, 1, 1, 0})
-	f.Add([]byte{4, 1, 1, 1, 1, 1, 0, 1, 1, 1, 1, 0, 1, 1, 1, 1, 1})
-	f.Add([]byte{1, 5})
+	f.Add([]byte{2, 1, 1, 0, 0, 1})
+	f.Add([]byte{3, 2, 1, 1, 1, 1, 0, 1, 1, 1, 0})
+	f.Add([]byte{4, 7, 1, 1, 1, 1, 1, 0, 1, 1, 1, 1, 0, 1, 1, 1, 1, 1})
+	f.Add([]byte{1, 0, 5})
 	f.Fuzz(func(t *testing.T, b []byte) {
-		if len(b) < 2 || len(b) > 400 {
+		if len(b) < 3 || len(b) > 400 {
 			return
 		}
 		cols := 1 + int(b[0])%20
-		cells := b[1:]
+		sizes := []byte{b[1], b[1] / 3, b[1] / 7}
+		cells := b[2:]
 		rows := len(cells) / cols
 		if rows == 0 {
 			return
@@ -102,7 +136,11 @@ func FuzzPolygonize(f *testing.F) {
 		for i := range r.Data {
 			r.Data[i] = cells[i] % 5 // few codes, so that regions and saddles form
 		}
-		rastertest.Check(t, "fuzz", r, polygon.Polygonize(r))
+		whole := polygon.Polygonize(r)
+		rastertest.Check(t, "fuzz", r, whole)
+		if got := feedBlocks(t, r, 0, sizes); !reflect.DeepEqual(got, whole) {
+			t.Fatalf("blocks %v: another layer than the whole raster's", sizes)
+		}
 	})
 }
 

@@ -242,3 +242,35 @@ func TestTracerErrors(t *testing.T) {
 		t.Error("rows after Finish: no error")
 	}
 }
+
+// FuzzTracerOracle compares the streaming tracer, fed in blocks of
+// arbitrary size, with the previous implementation on arbitrary small
+// rasters (byte 0: width, byte 1: grid and tolerance, byte 2: block size),
+// on grids that cross 180 too.
+func FuzzTracerOracle(f *testing.F) {
+	f.Add([]byte{3, 0, 1, 1, 1, 1, 1, 0, 1, 1, 1, 0})
+	f.Add([]byte{4, 9, 2, 1, 2, 2, 1, 2, 1, 1, 2, 0, 2, 1, 1, 2, 2, 1, 2})
+	f.Add([]byte{5, 22, 0, 1, 0, 1, 0, 1, 0, 1, 0, 1, 0, 1, 0, 1, 0, 1})
+	f.Fuzz(func(t *testing.T, b []byte) {
+		if len(b) < 4 || len(b) > 500 {
+			return
+		}
+		cols := 1 + int(b[0])%22
+		specs := []grid.Spec{{West: 10, North: 40, Res: 0.25}, {West: 175, North: 10, Res: 1}, {West: 179.2, North: -30, Res: 0.7}}
+		s := specs[int(b[1])%len(specs)]
+		km := []float64{0, 0, 20, 200}[int(b[1]/3)%4]
+		cells := b[3:]
+		s.Cols, s.Rows = cols, len(cells)/cols
+		if s.Rows == 0 {
+			return
+		}
+		r := grid.NewUint8(s, 0)
+		for i := range r.Data {
+			r.Data[i] = cells[i] % 4
+		}
+		got := traceBlocks(t, r, km, true, 1+int(b[2])%s.Rows)
+		if g, w := normRings(got), normRings(polyRFC7946Old(r, km)); g != w {
+			t.Fatalf("rings differ from the previous tracer\ngot:\n%s\nwant:\n%s", g, w)
+		}
+	})
+}
