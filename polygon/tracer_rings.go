@@ -13,7 +13,7 @@ type polyRing struct {
 	code          uint8
 	shell         bool
 	rep           int32 // component id of a cell on the ring's left
-	key           int64 // where the ring's cycle was first met (see closeRing)
+	key           int64 // when simplifying, where the previous tracer met the ring's cycle (see closeRing)
 	chunk, off, n int32 // where its vertices are in the arena, and how many int32
 }
 
