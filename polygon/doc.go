@@ -8,6 +8,38 @@
 // GeoJSONDecimals and Round give the decimals the coordinates are written
 // with.
 //
+// The tracer: all of them feed the whole raster to a Tracer (NewTracer,
+// Rows, Finish), which a caller can also feed row block by row block, in
+// order, without ever holding the raster. It is a scanline sweep over the
+// vertex rows, north to south, holding only the two cell rows beside the
+// current vertex row (tracer_sweep.go):
+//
+//   - at each vertex the four cells around it give the directed boundary
+//     edges of each code (walked with the code on the left) and how they
+//     pair: straight on, or turning, where at a saddle each cell of the
+//     code is wrapped on its own (the corner rule below);
+//   - the edges are linked into open chains whose ends wait on the current
+//     vertex row (per vertex column); a chain joined to itself is a closed
+//     ring, which is then cut at the vertices it visits twice, and each
+//     loop is a shell or a hole by its signed area;
+//   - a union-find over component ids (one new id per run of a code that
+//     starts with no equal cell above, so per ring vertex, not per cell)
+//     tells each hole its shell;
+//   - for the simplification the sweep records the nodes as it passes, and
+//     the simplifier works on the closed rings and that node set.
+//
+// Memory is O(columns + boundary vertices + components), never a number
+// per cell: about 22 MB allocated in all for a smooth field on the global
+// 0.025 deg grid (104 M cells, BenchmarkTracerStream0025).
+//
+// Order: the output is the same whatever the block sizes. Each ring starts
+// at its north-most, then west-most vertex, keeping its orientation; the
+// polygons of a code are ordered by their shell's start vertex (north to
+// south, then west to east), and the holes of a polygon likewise; on a
+// grid split at 180 the polygons of the western part come first, then
+// those of the eastern part (ties, possible only after simplification, go
+// by the order the rings closed in during the sweep).
+//
 // The polygons follow these definitions:
 //
 //   - Dissolved along cell edges: every ring runs along cell edges, with

@@ -1,11 +1,16 @@
 package polygon_test
 
 import (
+	"drygrid/bands"
 	"drygrid/grid"
 	"drygrid/internal/rastertest"
 	"drygrid/polygon"
 	"fmt"
+	"math"
+	"reflect"
 	"testing"
+
+	"github.com/paulmach/orb"
 )
 
 // TestPolygonizeProperties runs the Go-side laws (rastertest.Check) over 800
@@ -78,20 +83,51 @@ func TestPolygonizeCornerRule(t *testing.T) {
 	}
 }
 
+// feedBlocks feeds r to a polygon.Tracer in blocks whose sizes cycle
+// through sizes (each 1 + byte % rows). The grids of the fuzz targets do
+// not cross 180, so the layer is Polygonize's.
+func feedBlocks(t *testing.T, r *grid.Uint8, km float64, sizes []byte) map[uint8]orb.MultiPolygon {
+	t.Helper()
+	tr, err := polygon.NewTracer(r.Spec, r.NoData, km)
+	if err != nil {
+		t.Fatal(err)
+	}
+	cols, rows := r.Spec.Cols, r.Spec.Rows
+	for row, k := 0, 0; row < rows; k++ {
+		n := rows
+		if len(sizes) > 0 {
+			n = 1 + int(sizes[k%len(sizes)])%rows
+		}
+		end := min(row+n, rows)
+		if err := tr.Rows(row, r.Data[row*cols:end*cols]); err != nil {
+			t.Fatal(err)
+		}
+		row = end
+	}
+	out, err := tr.Finish()
+	if err != nil {
+		t.Fatal(err)
+	}
+	return out
+}
+
 // FuzzPolygonize polygonizes arbitrary small rasters (the first byte picks
-// the width) and checks the laws of rastertest.Check: area = count x res^2,
-// orientations, simple rings, point in polygon, one polygon per component.
+// the width, the second the block sizes the rows are fed in) and checks
+// the laws of rastertest.Check: area = count x res^2, orientations, simple
+// rings, point in polygon, one polygon per component; and that the layer
+// fed in blocks equals the whole raster's.
 func FuzzPolygonize(f *testing.F) {
-	f.Add([]byte{2, 1, 0, 0, 1})
-	f.Add([]byte{3, 1, 1, 1, 1, 0, 1, 1, 1, 0})
-	f.Add([]byte{4, 1, 1, 1, 1, 1, 0, 1, 1, 1, 1, 0, 1, 1, 1, 1, 1})
-	f.Add([]byte{1, 5})
+	f.Add([]byte{2, 1, 1, 0, 0, 1})
+	f.Add([]byte{3, 2, 1, 1, 1, 1, 0, 1, 1, 1, 0})
+	f.Add([]byte{4, 7, 1, 1, 1, 1, 1, 0, 1, 1, 1, 1, 0, 1, 1, 1, 1, 1})
+	f.Add([]byte{1, 0, 5})
 	f.Fuzz(func(t *testing.T, b []byte) {
-		if len(b) < 2 || len(b) > 400 {
+		if len(b) < 3 || len(b) > 400 {
 			return
 		}
 		cols := 1 + int(b[0])%20
-		cells := b[1:]
+		sizes := []byte{b[1], b[1] / 3, b[1] / 7}
+		cells := b[2:]
 		rows := len(cells) / cols
 		if rows == 0 {
 			return
@@ -100,7 +136,11 @@ func FuzzPolygonize(f *testing.F) {
 		for i := range r.Data {
 			r.Data[i] = cells[i] % 5 // few codes, so that regions and saddles form
 		}
-		rastertest.Check(t, "fuzz", r, polygon.Polygonize(r))
+		whole := polygon.Polygonize(r)
+		rastertest.Check(t, "fuzz", r, whole)
+		if got := feedBlocks(t, r, 0, sizes); !reflect.DeepEqual(got, whole) {
+			t.Fatalf("blocks %v: another layer than the whole raster's", sizes)
+		}
 	})
 }
 
@@ -110,5 +150,84 @@ func BenchmarkPolygonizeOnly(b *testing.B) {
 	b.ResetTimer()
 	for b.Loop() {
 		polygon.Polygonize(r)
+	}
+}
+
+// benchField is a smooth classified field made row by row (like
+// rastertest.BenchRaster without blobs and noise): z and the no-data mask
+// are sums of sines separable in column and row, so a cell costs a few
+// multiplications.
+type benchField struct {
+	sp  grid.Spec
+	col [][8]float64
+}
+
+func newBenchField(sp grid.Spec) *benchField {
+	f := &benchField{sp: sp, col: make([][8]float64, sp.Cols)}
+	for c := range f.col {
+		x := (float64(c) + 0.5) / float64(sp.Cols) * 2 * math.Pi
+		f.col[c] = [8]float64{math.Sin(2*x + 1), math.Sin(5 * x), math.Cos(5 * x), math.Sin(3 * x),
+			math.Sin(7*x + 0.5), math.Cos(7*x + 0.5), math.Sin(11 * x), math.Cos(11 * x)}
+	}
+	return f
+}
+
+func (f *benchField) rows(row0 int, block []uint8) {
+	sc := bands.Default()
+	cols := f.sp.Cols
+	for k := 0; k < len(block)/cols; k++ {
+		y := (float64(row0+k) + 0.5) / float64(f.sp.Rows) * math.Pi
+		s2, c2, s3, c3 := math.Sin(2*y), math.Cos(2*y), math.Sin(3*y), math.Cos(3*y)
+		s5, c5, s9, c9 := math.Sin(5*y), math.Cos(5*y), math.Sin(9*y), math.Cos(9*y)
+		line := block[k*cols : (k+1)*cols]
+		for c := range line {
+			t := &f.col[c]
+			if t[0]*c3+0.6*(t[1]*c3+t[2]*s3) < -0.38 {
+				line[c] = 0
+				continue
+			}
+			line[c] = sc.Classify(0.8*t[3]*c2 + 0.5*(t[4]*c5+t[5]*s5) + 0.3*(t[7]*c9+t[6]*s9) + 0.2*s2)
+		}
+	}
+}
+
+// BenchmarkTracerStream0025 traces a smooth band field on the global
+// 0.025 deg grid (14400 x 7200, 104 M cells) fed in blocks of 256 rows,
+// each made as it is fed: the raster is never held. B/op (every byte
+// allocated, the polygons included) must stay far below the cell count;
+// the field alone takes part of the time.
+func BenchmarkTracerStream0025(b *testing.B) {
+	s, err := grid.Global(0.025)
+	if err != nil {
+		b.Fatal(err)
+	}
+	field := newBenchField(s)
+	block := make([]uint8, 256*s.Cols)
+	b.ResetTimer()
+	for b.Loop() {
+		t, err := polygon.NewTracer(s, 0, 0)
+		if err != nil {
+			b.Fatal(err)
+		}
+		for row := 0; row < s.Rows; row += 256 {
+			n := min(256, s.Rows-row)
+			field.rows(row, block[:n*s.Cols])
+			if err := t.Rows(row, block[:n*s.Cols]); err != nil {
+				b.Fatal(err)
+			}
+		}
+		polys, err := t.Finish()
+		if err != nil {
+			b.Fatal(err)
+		}
+		pts := 0
+		for _, mp := range polys {
+			for _, p := range mp {
+				for _, r := range p {
+					pts += len(r)
+				}
+			}
+		}
+		b.ReportMetric(float64(pts), "positions")
 	}
 }

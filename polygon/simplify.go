@@ -2,6 +2,7 @@ package polygon
 
 import (
 	"math"
+	"slices"
 
 	"drygrid/grid"
 
@@ -35,18 +36,19 @@ func PolygonizeSimplified(r *grid.Uint8, km float64) map[uint8]orb.MultiPolygon 
 	if !(km > 0) || math.IsInf(km, 0) {
 		km = 0
 	}
-	return polyRFC7946(r, km)
+	return polyWhole(r, km, true)
 }
 
 // polyKmPerDeg is one degree of arc on the authalic sphere, km.
 var polyKmPerDeg = grid.AuthalicRadiusM / 1000 * math.Pi / 180
 
-// polySimp simplifies the rings of one traced raster.
+// polySimp simplifies the rings of one traced column part. nodes holds
+// the vertex ids (vid) of its nodes, sorted: the sweep records them as it
+// passes (polyIsNode), since the raster is not kept.
 type polySimp struct {
 	km         float64
 	cols, rows int
-	P          int
-	pad        []uint8
+	nodes      []int32
 	lons, lats []float64
 }
 
@@ -55,36 +57,10 @@ func (s *polySimp) ij(v int32) (int32, int32) {
 	return v % int32(s.cols+1), v / int32(s.cols+1)
 }
 
-// isNode: a vertex where three or more regions meet (no data and the
-// outside count as one region), a saddle, a grid corner, or a border vertex
-// where the regions just inside the border change.
+// isNode: vertex (i, j) is a node (see polyIsNode).
 func (s *polySimp) isNode(i, j int) bool {
-	b := j*s.P + i
-	a, bb, c, d := s.pad[b], s.pad[b+1], s.pad[b+s.P], s.pad[b+s.P+1] // NW, NE, SW, SE
-	onX, onY := i == 0 || i == s.cols, j == 0 || j == s.rows
-	switch {
-	case onX && onY:
-		return true
-	case i == 0:
-		return bb != d
-	case i == s.cols:
-		return a != c
-	case j == 0:
-		return c != d
-	case j == s.rows:
-		return a != bb
-	}
-	n := 1
-	if bb != a {
-		n++
-	}
-	if c != a && c != bb {
-		n++
-	}
-	if d != a && d != bb && d != c {
-		n++
-	}
-	return n >= 3 || (n == 2 && a == d && bb == c)
+	_, ok := slices.BinarySearch(s.nodes, s.vid(int32(i), int32(j)))
+	return ok
 }
 
 // polyArc is one arc in its canonical direction; keep marks kept vertices.
@@ -100,8 +76,9 @@ type polyUse struct {
 
 type polySeg [2]int32 // vertex ids of a segment
 
-// apply simplifies rings in place.
-func (s *polySimp) apply(rings []polyRing) {
+// apply simplifies the rings, whose vertices are held in pts, and returns
+// the arena of the simplified vertices, to which it points the rings.
+func (s *polySimp) apply(rings []polyRing, pts *polyArena) *polyArena {
 	var arcs []*polyArc
 	index := map[[2]int32]int32{}
 	uses := make([][]polyUse, len(rings))
@@ -127,12 +104,13 @@ func (s *polySimp) apply(rings []polyRing) {
 		return polyUse{int32(len(arcs) - 1), rev}
 	}
 	for ri, rg := range rings {
-		n := len(rg.pts) / 2
+		rp := pts.ring(&rg)
+		n := len(rp) / 2
 		ids := make([]int32, n)
 		first := -1
 		for k := 0; k < n; k++ {
-			ids[k] = s.vid(rg.pts[2*k], rg.pts[2*k+1])
-			if first < 0 && s.isNode(int(rg.pts[2*k]), int(rg.pts[2*k+1])) {
+			ids[k] = s.vid(rp[2*k], rp[2*k+1])
+			if first < 0 && s.isNode(int(rp[2*k]), int(rp[2*k+1])) {
 				first = k
 			}
 		}
@@ -175,8 +153,10 @@ func (s *polySimp) apply(rings []polyRing) {
 		s.simplifyArc(a, &tr, box)
 	}
 
+	out := &polyArena{}
+	var buf []int32
 	for ri := range rings {
-		var pts []int32
+		buf = buf[:0]
 		for _, u := range uses[ri] {
 			a := arcs[u.arc]
 			var kept []int32
@@ -192,11 +172,12 @@ func (s *polySimp) apply(rings []polyRing) {
 			}
 			for _, v := range kept[:len(kept)-1] {
 				i, j := s.ij(v)
-				pts = append(pts, i, j)
+				buf = append(buf, i, j)
 			}
 		}
-		rings[ri].pts = pts
+		out.add(&rings[ri], buf)
 	}
+	return out
 }
 
 // simplifyArc runs Douglas-Peucker on one arc and accepts each chord only if

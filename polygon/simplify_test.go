@@ -5,6 +5,7 @@ import (
 	"drygrid/internal/rastertest"
 	"drygrid/polygon"
 	"math"
+	"reflect"
 	"testing"
 
 	"github.com/paulmach/orb"
@@ -95,18 +96,20 @@ func TestSimplifyLaws(t *testing.T) {
 }
 
 // FuzzSimplify simplifies arbitrary small rasters (byte 0: width, byte 1:
-// tolerance) and checks the planar arrangement, orientations and polygon
-// counts of the result.
+// tolerance, byte 2: the block sizes the rows are fed in) and checks the
+// planar arrangement, orientations and polygon counts of the result, and
+// that the layer fed in blocks equals the whole raster's.
 func FuzzSimplify(f *testing.F) {
-	f.Add([]byte{4, 30, 1, 1, 2, 2, 1, 1, 2, 2, 3, 3, 3, 3, 1, 0, 0, 1})
-	f.Add([]byte{3, 200, 1, 1, 1, 1, 0, 1, 1, 1, 0})
+	f.Add([]byte{4, 30, 1, 1, 1, 2, 2, 1, 1, 2, 2, 3, 3, 3, 3, 1, 0, 0, 1})
+	f.Add([]byte{3, 200, 2, 1, 1, 1, 1, 0, 1, 1, 1, 0})
 	f.Fuzz(func(t *testing.T, b []byte) {
-		if len(b) < 3 || len(b) > 600 {
+		if len(b) < 4 || len(b) > 600 {
 			return
 		}
 		cols := 1 + int(b[0])%24
 		km := 1 + float64(b[1])
-		cells := b[2:]
+		sizes := []byte{b[2], b[2] / 3, b[2] / 7}
+		cells := b[3:]
 		rows := len(cells) / cols
 		if rows == 0 {
 			return
@@ -129,5 +132,8 @@ func FuzzSimplify(f *testing.F) {
 			}
 		}
 		rastertest.PlanarCheck(t, "fuzz", r.Spec, polys)
+		if got := feedBlocks(t, r, km, sizes); !reflect.DeepEqual(got, polys) {
+			t.Fatalf("blocks %v: another layer than the whole raster's", sizes)
+		}
 	})
 }

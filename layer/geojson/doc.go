@@ -10,6 +10,12 @@
 // nothing held per station, however many stations there are. Options controls both. The same input gives the same
 // bytes, whatever the number of cores.
 //
+// A caller that streams the band rows instead of holding the raster feeds
+// them, in order, to a BandAreas (each band's cell count and area, and the
+// bbox) and a polygon.Tracer, and writes the layer with
+// EncodeBandPolygons: the same bytes as EncodeBands on the whole raster,
+// which is itself that path fed all rows at once.
+//
 // The layers follow these definitions:
 //
 //   - RFC 7946: a FeatureCollection with a bbox (section 5), no crs member

@@ -11,6 +11,8 @@ import (
 	"drygrid/bands"
 	"drygrid/grid"
 	"drygrid/polygon"
+
+	"github.com/paulmach/orb"
 )
 
 // Caution is the caution text written when Options.Caution is
@@ -44,6 +46,10 @@ type Options struct {
 // to w; coordinates are formatted with strconv, not encoding/json, to get a
 // fixed number of decimals and to avoid holding a whole band's text in
 // memory. A code in r that the scheme lacks is an error (nothing written).
+//
+// It is BandAreas, a polygon.Tracer and EncodeBandPolygons fed the whole
+// raster: a caller that streams the rows can do the same without holding
+// the raster, and gets the same bytes.
 func EncodeBands(w io.Writer, r *grid.Uint8, s *bands.Scheme, opt Options) error {
 	if r == nil || s == nil {
 		return fmt.Errorf("bands geojson: nil raster or scheme")
@@ -55,41 +61,136 @@ func EncodeBands(w io.Writer, r *grid.Uint8, s *bands.Scheme, opt Options) error
 	if math.IsNaN(opt.SimplifyKm) || opt.SimplifyKm < 0 || math.IsInf(opt.SimplifyKm, 0) {
 		return fmt.Errorf("bands geojson: simplify tolerance %g km must be a finite number >= 0", opt.SimplifyKm)
 	}
-	// Cell counts per code and row give the ellipsoidal areas and the bbox.
-	rowArea := sp.RowAreasKm2()
-	var area [256]float64
-	var count [256]int
-	minC, maxC, minR, maxR := sp.Cols, -1, sp.Rows, -1
-	for row := 0; row < sp.Rows; row++ {
+	areas := NewBandAreas(sp, r.NoData)
+	if err := areas.Rows(0, r.Data); err != nil {
+		return fmt.Errorf("bands geojson: %w", err)
+	}
+	if err := areas.check(s); err != nil {
+		return err
+	}
+	if _, err := gjMeta(opt); err != nil {
+		return fmt.Errorf("bands geojson: %w", err)
+	}
+	tr, err := polygon.NewTracer(sp, r.NoData, opt.SimplifyKm)
+	if err != nil {
+		return fmt.Errorf("bands geojson: %w", err)
+	}
+	if err := tr.Rows(0, r.Data); err != nil {
+		return fmt.Errorf("bands geojson: %w", err)
+	}
+	polys, err := tr.Finish()
+	if err != nil {
+		return fmt.Errorf("bands geojson: %w", err)
+	}
+	return EncodeBandPolygons(w, sp, polys, areas, s, opt)
+}
+
+// BandAreas accumulates, from the rows of a band raster fed in order, what
+// the band layer needs besides the polygons: each code's cell count and
+// area on the WGS84 ellipsoid (per row, the cell count times the row's
+// cell area, grid.Spec.RowAreasKm2, summed north to south) and the
+// bounding box of the cells with data. Its memory does not grow with the
+// rows.
+type BandAreas struct {
+	spec    grid.Spec
+	nodata  uint8
+	rowArea []float64
+	next    int // next row expected
+
+	count [256]int
+	area  [256]float64
+	// Columns and rows of the cells with data: bounding box (maxC < 0:
+	// none).
+	minC, maxC, minR, maxR int
+}
+
+// NewBandAreas starts the accumulation for a raster on grid spec whose
+// no-data code is nodata.
+func NewBandAreas(spec grid.Spec, nodata uint8) *BandAreas {
+	return &BandAreas{spec: spec, nodata: nodata, rowArea: spec.RowAreasKm2(), minC: spec.Cols, maxC: -1, minR: spec.Rows, maxR: -1}
+}
+
+// Rows adds rows row0, row0+1, ... held in codes (whole rows, row-major).
+// Blocks must come in order, from row 0, each where the previous ended.
+func (a *BandAreas) Rows(row0 int, codes []uint8) error {
+	sp := a.spec
+	switch {
+	case sp.Cols <= 0 || sp.Rows <= 0:
+		return fmt.Errorf("band areas: grid %s has no cells", sp)
+	case row0 != a.next:
+		return fmt.Errorf("band areas: rows out of order: block starts at row %d, row %d expected", row0, a.next)
+	case len(codes)%sp.Cols != 0:
+		return fmt.Errorf("band areas: block of %d codes is not whole rows of %d", len(codes), sp.Cols)
+	case row0+len(codes)/sp.Cols > sp.Rows:
+		return fmt.Errorf("band areas: block of rows %d..%d runs past the grid's %d rows", row0, row0+len(codes)/sp.Cols-1, sp.Rows)
+	}
+	for k := 0; k < len(codes); k += sp.Cols {
+		row := a.next
 		var n [256]int
-		line := r.Data[row*sp.Cols : (row+1)*sp.Cols]
-		for col, c := range line {
-			if c == r.NoData {
+		for col, c := range codes[k : k+sp.Cols] {
+			if c == a.nodata {
 				continue
 			}
 			n[c]++
-			minC, maxC = min(minC, col), max(maxC, col)
-			minR, maxR = min(minR, row), max(maxR, row)
+			a.minC, a.maxC = min(a.minC, col), max(a.maxC, col)
+			a.minR, a.maxR = min(a.minR, row), max(a.maxR, row)
 		}
-		for c, k := range n {
-			if k > 0 {
-				area[c] += float64(k) * rowArea[row]
-				count[c] += k
+		for c, m := range n {
+			if m > 0 {
+				a.area[c] += float64(m) * a.rowArea[row]
+				a.count[c] += m
+			}
+		}
+		a.next++
+	}
+	return nil
+}
+
+// Count is the number of cells of code c fed so far.
+func (a *BandAreas) Count(c uint8) int { return a.count[c] }
+
+// AreaKm2 is the area of the cells of code c fed so far, km2.
+func (a *BandAreas) AreaKm2(c uint8) float64 { return a.area[c] }
+
+// check: every code present has a band in s.
+func (a *BandAreas) check(s *bands.Scheme) error {
+	for c := range a.count {
+		if a.count[c] > 0 {
+			if _, ok := s.Band(uint8(c)); !ok {
+				return fmt.Errorf("bands geojson: raster holds code %d in %d cells, which scheme %q has no band for", c, a.count[c], s.Name)
 			}
 		}
 	}
-	for c := range count {
-		if count[c] > 0 {
-			if _, ok := s.Band(uint8(c)); !ok {
-				return fmt.Errorf("bands geojson: raster holds code %d in %d cells, which scheme %q has no band for", c, count[c], s.Name)
-			}
-		}
+	return nil
+}
+
+// EncodeBandPolygons writes the band layer of EncodeBands from polygons
+// already traced (polygon.Tracer, or polygon.PolygonizeSimplified with
+// opt.SimplifyKm) and the areas of the same rows (all of them fed): the
+// same bytes as EncodeBands on the whole raster, without it. opt.SimplifyKm
+// is not used here (the polygons are already simplified or not). A code
+// with cells that the scheme lacks, areas of another grid or with rows
+// missing, are errors (nothing written).
+func EncodeBandPolygons(w io.Writer, spec grid.Spec, polys map[uint8]orb.MultiPolygon, areas *BandAreas, s *bands.Scheme, opt Options) error {
+	if areas == nil || s == nil {
+		return fmt.Errorf("bands geojson: nil areas or scheme")
+	}
+	sp := spec
+	if areas.spec != sp {
+		return fmt.Errorf("bands geojson: areas of grid %s, polygons of grid %s", areas.spec, sp)
+	}
+	if areas.next != sp.Rows || sp.Rows <= 0 {
+		return fmt.Errorf("bands geojson: areas of %d rows, the grid has %d", areas.next, sp.Rows)
+	}
+	if err := areas.check(s); err != nil {
+		return err
 	}
 	meta, err := gjMeta(opt)
 	if err != nil {
 		return fmt.Errorf("bands geojson: %w", err)
 	}
-	polys := polygon.PolygonizeSimplified(r, opt.SimplifyKm)
+	count, area := &areas.count, &areas.area
+	minC, maxC, minR, maxR := areas.minC, areas.maxC, areas.minR, areas.maxR
 	d := polygon.GeoJSONDecimals(sp)
 
 	bw := bufio.NewWriterSize(w, 1<<16)
