@@ -9,6 +9,7 @@ import (
 	"drygrid/layer/geojson"
 	"drygrid/layer/page"
 	"drygrid/publish"
+	"errors"
 	"fmt"
 	"io"
 	"path/filepath"
@@ -30,6 +31,7 @@ type layerWriter struct {
 	pts     []geojson.Station // the station layer's points, made once
 
 	preview *preview    // the band raster of the picture and the page
+	traced  *traceSink  // the band polygons and areas of bands.geojson
 	far     *grid.Uint8 // the preview's cells hatched on the picture and the page (Job.HatchBeyondKm), computed once
 	farDone bool
 }
@@ -73,6 +75,9 @@ func (w *layerWriter) write(name string) error {
 	case "index", "bands":
 		return nil // written by the pass (runPass)
 	case "geojson":
+		if !w.job.Layers["page"] || w.preview.f > 1 { // not needed again: straight to the file
+			return writeStream(w.path("bands.geojson"), w.encodeBands)
+		}
 		b, err := w.bandsGeoJSON()
 		if err != nil {
 			return err
@@ -94,18 +99,27 @@ func (w *layerWriter) write(name string) error {
 	return fmt.Errorf("unknown layer %q", name)
 }
 
-// bandsGeoJSON encodes the band polygons once.
+// bandsGeoJSON encodes the band polygons traced by the pass once, for
+// bands.geojson and the page (which carries them when the grid is its own
+// preview, a grid of at most previewMaxCells cells).
 func (w *layerWriter) bandsGeoJSON() ([]byte, error) {
 	if w.bandsGJ == nil {
 		var buf bytes.Buffer
-		opt := w.geojsonOptions()
-		opt.SimplifyKm = w.job.SimplifyKm
-		if err := geojson.EncodeBands(&buf, w.res.Bands, w.res.Scheme, opt); err != nil {
+		if err := w.encodeBands(&buf); err != nil {
 			return nil, err
 		}
 		w.bandsGJ = buf.Bytes()
 	}
 	return w.bandsGJ, nil
+}
+
+// encodeBands writes the band layer from the pass's polygons and areas.
+func (w *layerWriter) encodeBands(out io.Writer) error {
+	t := w.traced
+	if t == nil || t.polys == nil {
+		return errors.New("bands geojson: the pass traced no polygons")
+	}
+	return geojson.EncodeBandPolygons(out, w.res.Spec, t.polys, t.areas, w.res.Scheme, w.geojsonOptions())
 }
 
 // stationPoints are the station layer's points, made once.

@@ -4,7 +4,11 @@ import (
 	"context"
 
 	"drygrid/grid"
+	"drygrid/layer/geojson"
+	"drygrid/polygon"
 	"drygrid/region"
+
+	"github.com/paulmach/orb"
 )
 
 // runPass makes the run's one pass over the rows (pass.go): index.tif and
@@ -23,8 +27,13 @@ func (w *layerWriter) runPass(ctx context.Context) error {
 		zonal = region.NewZonalRows(res.Spec, w.regions)
 		p.sinks = append(p.sinks, zonalSink(zonal))
 	}
-	if job.Layers["geojson"] || job.Layers["page"] {
-		p.sinks = append(p.sinks, collect(res))
+	if job.Layers["geojson"] || (job.Layers["page"] && w.preview.f == 1) {
+		t, err := newTraceSink(res.Spec, job.SimplifyKm)
+		if err != nil {
+			return err
+		}
+		w.traced = t
+		p.sinks = append(p.sinks, t.rows)
 	}
 	var err error
 	if job.Layers["index"] || job.Layers["bands"] {
@@ -46,6 +55,11 @@ func (w *layerWriter) runPass(ctx context.Context) error {
 	}
 	res.tally = p.tally
 	res.shares()
+	if w.traced != nil {
+		if err := w.traced.finish(); err != nil {
+			return err
+		}
+	}
 	if zonal != nil {
 		stats, err := zonal.Stats()
 		if err != nil {
@@ -61,6 +75,35 @@ func zonalSink(z *region.ZonalRows) rowSink {
 	return func(row0, _ int, index []float32, codes []uint8) error {
 		return z.Rows(row0, codes, 0, index, grid.NoDataIndex)
 	}
+}
+
+// traceSink traces the band polygons of bands.geojson from the rows as
+// they come (polygon.Tracer) and adds up the band areas beside them
+// (geojson.BandAreas); only open boundaries and finished polygons are held.
+type traceSink struct {
+	t     *polygon.Tracer
+	areas *geojson.BandAreas
+	polys map[uint8]orb.MultiPolygon // after finish
+}
+
+func newTraceSink(s grid.Spec, simplifyKm float64) (*traceSink, error) {
+	t, err := polygon.NewTracer(s, 0, simplifyKm)
+	if err != nil {
+		return nil, err
+	}
+	return &traceSink{t: t, areas: geojson.NewBandAreas(s, 0)}, nil
+}
+
+func (t *traceSink) rows(row0, _ int, _ []float32, codes []uint8) error {
+	if err := t.areas.Rows(row0, codes); err != nil {
+		return err
+	}
+	return t.t.Rows(row0, codes)
+}
+
+func (t *traceSink) finish() (err error) {
+	t.polys, err = t.t.Finish()
+	return err
 }
 
 // previewMaxCells is the most cells the preview raster holds: a grid up to
