@@ -38,7 +38,7 @@ func stationPoints(v *station.Values, spec grid.Spec, scheme *bands.Scheme) []ge
 
 // picturePoints are the stations as the picture draws them.
 func picturePoints(v *station.Values) []picture.Point {
-	var pts []picture.Point
+	pts := make([]picture.Point, 0, len(v.Stations))
 	for _, s := range v.Stations {
 		pts = append(pts, picture.Point{Lon: s.Lon, Lat: s.Lat})
 	}

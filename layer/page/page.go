@@ -15,6 +15,7 @@ import (
 	"math"
 	"strconv"
 	"strings"
+	"unicode/utf8"
 
 	"drygrid/bands"
 	"drygrid/layer"
@@ -107,10 +108,14 @@ func pageEncode(w io.Writer, in Input, extraJS string) error {
 	if err != nil {
 		return err
 	}
-	// Straight to w: the page is not held a second time (WriteFile's
-	// file is published only when complete).
-	if err := pageTmpl.Execute(w, d); err != nil {
+	// The template's text is small: the layers' JSON is written in its
+	// slots straight from the caller's bytes, never copied into a string.
+	var buf bytes.Buffer
+	if err := pageTmpl.Execute(&buf, d); err != nil {
 		return fmt.Errorf("page: render template: %w", err)
+	}
+	if err := d.writeSlots(w, buf.Bytes()); err != nil {
+		return fmt.Errorf("page: write: %w", err)
 	}
 	return nil
 }
@@ -172,6 +177,8 @@ type pageView struct {
 	Drought                  string
 	Rows                     []pageRow
 	Cols                     []pageBand
+
+	slots [][]byte // the layers' JSON, written where the template holds their marks
 }
 
 // pageData checks the input and prepares everything the template writes.
@@ -203,13 +210,13 @@ func pageData(in Input, extraJS string) (*pageView, error) {
 		v.FarLabel = layer.FarLabel(in.FarKm)
 	}
 	script := pageJS
-	if s, err := pageEmbedJSON(in.FarGeoJSON); err != nil {
+	if far, err := pageCheckJSON(in.FarGeoJSON); err != nil {
 		return nil, fmt.Errorf("page: far GeoJSON: %w", err)
-	} else if s != "null" {
+	} else if far != nil {
 		if in.FarKm == 0 {
 			return nil, errors.New("page: a far layer needs its distance (FarKm)")
 		}
-		v.Far, v.HasFar = template.JS(s), true
+		v.Far, v.HasFar = v.slot(far), true
 		script += farJS // the far layer's drawing, carried only with the layer
 	}
 	script += extraJS
@@ -284,13 +291,13 @@ func pageData(in Input, extraJS string) (*pageView, error) {
 		{"stations", stations, &v.Stations, &v.HasStations},
 		{"regions", in.RegionsGeoJSON, &v.Regions, &v.HasRegions},
 	} {
-		s, err := pageEmbedJSON(l.src)
+		doc, err := pageCheckJSON(l.src)
 		if err != nil {
 			return nil, fmt.Errorf("page: %s GeoJSON: %w", l.name, err)
 		}
-		*l.dst = template.JS(s)
+		*l.dst = v.slot(doc)
 		if l.has != nil {
-			*l.has = s != "null"
+			*l.has = doc != nil
 		}
 	}
 	v.CSP = "default-src 'none'; script-src '" + pageHash(script) + "'; style-src '" + pageHash(pageCSS) +
@@ -305,25 +312,111 @@ func pageHash(s string) string {
 	return "sha256-" + base64.StdEncoding.EncodeToString(h[:])
 }
 
-// pageEmbedJSON checks that b is one JSON value and makes it safe inside a
-// <script type="application/json"> block: "<" (which valid JSON holds only
-// inside strings) becomes \u003c, so no "</script" or "<!--" can end or
-// confuse the block. Empty input gives null.
-func pageEmbedJSON(b []byte) (string, error) {
+// pageSlotMark is the mark of slot k in the template's text: it begins
+// with "<", which the template escapes in every text of the caller's and
+// pageEmbedJSON in every JSON document, so only a slot writes it.
+func pageSlotMark(k int) string { return "<drygrid-slot-" + strconv.Itoa(k) + ">" }
+
+// slot gives the template the mark of a JSON document written later by
+// writeSlots (doc nil: null).
+func (v *pageView) slot(doc []byte) template.JS {
+	if doc == nil {
+		doc = []byte("null")
+	}
+	v.slots = append(v.slots, doc)
+	return template.JS(pageSlotMark(len(v.slots) - 1))
+}
+
+// writeSlots writes the template's text with each slot's mark replaced
+// by its document, escaped as pageEmbedJSON escapes it; every slot must be
+// written once.
+func (v *pageView) writeSlots(w io.Writer, text []byte) error {
+	const prefix = "<drygrid-slot-"
+	written := 0
+	for {
+		i := bytes.Index(text, []byte(prefix))
+		if i < 0 {
+			break
+		}
+		end := bytes.IndexByte(text[i:], '>')
+		if end < 0 {
+			return fmt.Errorf("a broken slot mark in the template's text")
+		}
+		k, err := strconv.Atoi(string(text[i+len(prefix) : i+end]))
+		if err != nil || k < 0 || k >= len(v.slots) {
+			return fmt.Errorf("a broken slot mark in the template's text")
+		}
+		if _, err := w.Write(text[:i]); err != nil {
+			return err
+		}
+		if err := pageWriteEscaped(w, v.slots[k]); err != nil {
+			return err
+		}
+		written++
+		text = text[i+end+1:]
+	}
+	if written != len(v.slots) {
+		return fmt.Errorf("%d of %d slots in the template's text", written, len(v.slots))
+	}
+	_, err := w.Write(text)
+	return err
+}
+
+// pageWriteEscaped writes JSON as pageEmbedJSON returns it: "<" as
+// \u003c, U+2028 and U+2029 as their escapes.
+func pageWriteEscaped(w io.Writer, b []byte) error {
+	for len(b) > 0 {
+		i := bytes.IndexAny(b, "<\u2028\u2029")
+		if i < 0 {
+			_, err := w.Write(b)
+			return err
+		}
+		if _, err := w.Write(b[:i]); err != nil {
+			return err
+		}
+		esc, n := `\u003c`, 1
+		if b[i] != '<' {
+			r, size := utf8.DecodeRune(b[i:])
+			esc, n = fmt.Sprintf(`\u%04x`, r), size
+		}
+		if _, err := io.WriteString(w, esc); err != nil {
+			return err
+		}
+		b = b[i+n:]
+	}
+	return nil
+}
+
+// pageCheckJSON checks that b, trimmed of JSON whitespace, is one JSON
+// value and gives it (not copied); empty input gives nil.
+func pageCheckJSON(b []byte) ([]byte, error) {
 	b = bytes.Trim(b, " \t\r\n") // JSON whitespace (RFC 8259 section 2)
 	if len(b) == 0 {
-		return "null", nil
+		return nil, nil
 	}
 	if !json.Valid(b) {
 		var x any
 		err := json.Unmarshal(b, &x)
-		return "", fmt.Errorf("not valid JSON: %v", err)
+		return nil, fmt.Errorf("not valid JSON: %v", err)
 	}
-	s := string(b)
-	s = strings.ReplaceAll(s, "<", `\u003c`)
-	s = strings.ReplaceAll(s, "\u2028", `\u2028`)
-	s = strings.ReplaceAll(s, "\u2029", `\u2029`)
-	return s, nil
+	return b, nil
+}
+
+// pageEmbedJSON checks that b is one JSON value and makes it safe inside a
+// <script type="application/json"> block: "<" (which valid JSON holds only
+// inside strings) becomes \u003c, so no "</script" or "<!--" can end or
+// confuse the block; U+2028 and U+2029 are escaped too. Empty input gives
+// null. The page writes its layers this way (writeSlots).
+func pageEmbedJSON(b []byte) (string, error) {
+	doc, err := pageCheckJSON(b)
+	if err != nil || doc == nil {
+		return "null", err
+	}
+	var sb strings.Builder
+	if err := pageWriteEscaped(&sb, doc); err != nil {
+		return "", err
+	}
+	return sb.String(), nil
 }
 
 // pageRangeText writes a band's range with the <= and >= signs.

@@ -82,7 +82,7 @@ func (p *picPainter) chooseMarks(mode StationMarks) *picMarks {
 	w, h := float64(r.Dx()), float64(r.Dy())
 	ox, oy := float64(r.Min.X), float64(r.Min.Y)
 	m := &picMarks{r: picDotR * p.s, halo: picHaloW * p.s}
-	var all []picMarker
+	all := make([]picMarker, 0, len(p.in.Stations))
 	for i, st := range p.in.Stations {
 		x, y := p.l.x(st.Lon)-ox, p.l.y(st.Lat)-oy
 		if !(x >= 0 && y >= 0 && x <= w && y <= h) {
