@@ -49,7 +49,8 @@ severity bands and writes the layers into --out:
   stations.geojson  one Point per station read
   regions.csv/json  area in each band per region (with --regions)
   map.png           a picture for reports
-  map.html          a self-contained web page
+  map.html          a self-contained web page (on a grid of over 6.5 M cells the picture
+                    and the page show every 3rd, 5th... cell; the subtitle says so)
   manifest.json     what was run: version, parameters, inputs and outputs with SHA-256, counts
 
 Written only when named (--layers all,support or --layers index,support), as it costs two
