@@ -75,7 +75,7 @@ func (w *layerWriter) write(name string) error {
 	case "index", "bands":
 		return nil // written by the pass (runPass)
 	case "geojson":
-		defer func() { w.traced.polys = nil }() // encoded: the polygons are not needed again
+		defer func() { w.traced.polys = nil }()       // encoded: the polygons are not needed again
 		if !w.job.Layers["page"] || w.preview.f > 1 { // the text is not needed again: straight to the file
 			return writeStream(w.path("bands.geojson"), w.encodeBands)
 		}
