@@ -75,8 +75,10 @@ func (w *layerWriter) write(name string) error {
 	case "index", "bands":
 		return nil // written by the pass (runPass)
 	case "geojson":
-		defer func() { w.traced.polys = nil }()       // encoded: the polygons are not needed again
-		if !w.job.Layers["page"] || w.preview.f > 1 { // the text is not needed again: straight to the file
+		// Once encoded the polygons are not needed again; nor is the text
+		// when the page does not carry it: then it goes straight to the file.
+		defer func() { w.traced.polys = nil }()
+		if !w.job.Layers["page"] || w.preview.f > 1 {
 			return writeStream(w.path("bands.geojson"), w.encodeBands)
 		}
 		b, err := w.bandsGeoJSON()
