@@ -41,8 +41,8 @@ func beside(t *testing.T, out string) []string {
 // TestRunEmptyMapRefused: a swapped bbox holding none of the stations, and
 // a grid whose cells all lack a value (every cell has fewer than
 // min-stations stations within the radius), are refused with a hint and
-// publish nothing; AllowEmpty publishes them (issue 17: they came out as
-// all-empty maps reading "0.0 % in drought"). Both the streamed and the
+// publish nothing, rather than all-empty maps reading "0.0 % in drought";
+// AllowEmpty publishes them. Both the streamed and the
 // in-memory runs are checked.
 func TestRunEmptyMapRefused(t *testing.T) {
 	for _, all := range []bool{false, true} {
@@ -77,7 +77,7 @@ func TestRunEmptyMapRefused(t *testing.T) {
 
 // TestRunLocksFirst: a run on an output directory another run holds stops
 // at once, before it reads its inputs (the stations here do not exist),
-// naming the holder's pid (issue 17: the lock was taken after the work).
+// naming the holder's pid: the lock is taken before the work.
 func TestRunLocksFirst(t *testing.T) {
 	dir := t.TempDir()
 	out := filepath.Join(dir, "layers")
@@ -99,8 +99,8 @@ func TestRunLocksFirst(t *testing.T) {
 
 // TestRunRecoversBeforeBadInput: a crash between the two renames of a
 // swap (fault injection) leaves no output directory; the next run, though
-// it fails on bad input, puts the previous one back first (issue 17: it did
-// not), and nothing is left beside it.
+// it fails on bad input, puts the previous one back first, and nothing is
+// left beside it.
 func TestRunRecoversBeforeBadInput(t *testing.T) {
 	dir := t.TempDir()
 	out := filepath.Join(dir, "layers")
@@ -137,8 +137,8 @@ func TestRunRecoversBeforeBadInput(t *testing.T) {
 }
 
 // TestRunNoStrayFiles: a run leaves nothing beside its output directory
-// (issue 17: the lock file stayed), and refuses a read-only output
-// directory before the work.
+// (not even its lock file), and refuses a read-only output directory
+// before the work.
 func TestRunNoStrayFiles(t *testing.T) {
 	dir := t.TempDir()
 	out := filepath.Join(dir, "layers")

@@ -106,7 +106,7 @@ func Stats(job StatsJob) (*StatsResult, error) {
 // checkStatsOut refuses an output directory that holds a manifest.json: it
 // is the output directory of a run, whose regions.csv and regions.json the
 // manifest lists with their SHA-256; writing new ones there would make the
-// manifest wrong (issue 17). It is a usage error (exit code 2): the
+// manifest wrong. It is a usage error (exit code 2): the
 // command asks for the wrong place, and another --out is the remedy.
 func checkStatsOut(out string) error {
 	path := filepath.Join(out, manifest.Name)

@@ -133,8 +133,8 @@ func TestStatsAndChartCommands(t *testing.T) {
 
 // TestStatsOutRefused: stats needs --out, and refuses the output directory
 // of a run (it holds a manifest.json listing regions.csv with its SHA-256),
-// with exit code 2 and the file left as it was (issue 17: stats wrote into
-// "." by default and overwrote a published regions.csv).
+// with exit code 2 and the file left as it was: stats never writes into
+// "." by default nor over a published regions.csv.
 func TestStatsOutRefused(t *testing.T) {
 	dir := t.TempDir()
 	out := filepath.Join(dir, "layers")
