@@ -34,9 +34,8 @@ func TestFarCellsAgainstNumPy(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	job := Job{Stations: "../testdata/example/spi.csv", Out: out, Res: 0.1, Layers: layers, HatchBeyondKm: km}
-	job.Params.Power, job.Params.Neighbors, job.Params.RadiusKm, job.Params.MinStations = 2, 12, 150, 3
-	job.Values.Kind = "spi"
+	job := exampleJob(out, 0.1, 12, 150)
+	job.Layers, job.HatchBeyondKm = layers, km
 	res, err := Run(context.Background(), job)
 	if err != nil {
 		t.Fatal(err)
@@ -54,21 +53,7 @@ func TestFarCellsAgainstNumPy(t *testing.T) {
 		t.Fatalf("far cells: %v, %v", far, err)
 	}
 	spec := res.Spec
-	var ps, cs [][]float64
-	for _, s := range res.Values.Stations {
-		ps = append(ps, []float64{s.Lon, s.Lat})
-	}
-	for row := range spec.Rows {
-		for col := range spec.Cols {
-			lon, lat := spec.Center(col, row)
-			cs = append(cs, []float64{lon, lat})
-		}
-	}
-	in, _ := json.Marshal(map[string]any{"points": ps, "cells": cs, "radius_km": job.Params.RadiusKm, "neighbors": 12})
-	lines := strings.Split(strings.TrimSpace(string(reftest.RunPython(t, py, "../testdata/support_ref.py", in))), "\n")
-	if len(lines) != spec.Len() {
-		t.Fatalf("%d lines for %d cells", len(lines), spec.Len())
-	}
+	lines := supportRef(t, py, res, job.Params)
 	nFar, nNear, nFarData := 0, 0, 0
 	for i, l := range lines {
 		want, _ := strconv.ParseFloat(strings.Fields(l)[0], 64)

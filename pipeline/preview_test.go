@@ -2,6 +2,7 @@ package pipeline
 
 import (
 	"context"
+	"math"
 	"testing"
 )
 
@@ -11,10 +12,7 @@ import (
 // size; its far cells are those of the whole band raster at the same
 // cells; a grid within the limit is its own preview.
 func TestPreview(t *testing.T) {
-	job := Job{Stations: "../testdata/example/spi.csv", Res: 0.05}
-	job.Params.Power, job.Params.Neighbors, job.Params.RadiusKm, job.Params.MinStations = 2, 12, 150, 3
-	job.Values.Kind = "spi"
-	res, err := Compute(context.Background(), job)
+	res, err := Compute(context.Background(), exampleJob("", 0.05, 12, 150))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -57,7 +55,7 @@ func TestPreview(t *testing.T) {
 					got, want := p.r.Data[r*ps.Cols+c], res.Bands.Data[fr*s.Cols+fc]
 					gf, wf := far.Data[r*ps.Cols+c], whole.Data[fr*s.Cols+fc]
 					nFar += int(gf)
-					if (got != want || gf != wf || abs(lon-wlon) > 1e-9 || abs(lat-wlat) > 1e-9) && bad < 5 {
+					if (got != want || gf != wf || math.Abs(lon-wlon) > 1e-9 || math.Abs(lat-wlat) > 1e-9) && bad < 5 {
 						bad++
 						t.Errorf("f %d block %d: preview cell %d,%d (%.4f, %.4f): code %d far %d; cell %d,%d (%.4f, %.4f): code %d far %d",
 							p.f, block, c, r, lon, lat, got, gf, fc, fr, wlon, wlat, want, wf)
@@ -69,11 +67,4 @@ func TestPreview(t *testing.T) {
 			}
 		}
 	}
-}
-
-func abs(x float64) float64 {
-	if x < 0 {
-		return -x
-	}
-	return x
 }

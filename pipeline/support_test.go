@@ -11,6 +11,7 @@ import (
 	"testing"
 
 	"drygrid/internal/reftest"
+	"drygrid/interp"
 )
 
 // TestSupportLayerAgainstNumPyAndGDAL runs a job with --layers
@@ -28,30 +29,14 @@ func TestSupportLayerAgainstNumPyAndGDAL(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	job := Job{Stations: "../testdata/example/spi.csv", Out: out, Res: 0.1, Layers: layers}
-	job.Params.Power, job.Params.Neighbors, job.Params.RadiusKm, job.Params.MinStations = 2, 5, 120, 3
-	job.Values.Kind = "spi"
+	job := exampleJob(out, 0.1, 5, 120)
+	job.Layers = layers
 	res, err := Run(context.Background(), job)
 	if err != nil {
 		t.Fatal(err)
 	}
 	spec := res.Spec
-	var ps, cs [][]float64
-	for _, s := range res.Values.Stations {
-		ps = append(ps, []float64{s.Lon, s.Lat})
-	}
-	for row := range spec.Rows {
-		for col := range spec.Cols {
-			lon, lat := spec.Center(col, row)
-			cs = append(cs, []float64{lon, lat})
-		}
-	}
-	in, _ := json.Marshal(map[string]any{"points": ps, "cells": cs, "radius_km": 120, "neighbors": 5,
-		"rasters": []string{filepath.Join(out, "support.tif"), filepath.Join(out, "support_count.tif")}})
-	lines := strings.Split(strings.TrimSpace(string(reftest.RunPython(t, py, "../testdata/support_ref.py", in))), "\n")
-	if len(lines) != spec.Len() {
-		t.Fatalf("%d lines for %d cells", len(lines), spec.Len())
-	}
+	lines := supportRef(t, py, res, job.Params, filepath.Join(out, "support.tif"), filepath.Join(out, "support_count.tif"))
 	none := 0
 	for i, l := range lines {
 		f := strings.Fields(l)
@@ -88,4 +73,46 @@ func TestSupportLayerAgainstNumPyAndGDAL(t *testing.T) {
 	if _, err := os.Stat(filepath.Join(out, "bands.tif")); err == nil {
 		t.Fatal("bands.tif written without being asked for")
 	}
+}
+
+// exampleJob is a job on the example stations' SPI (exampleSPI) over a
+// grid of res degrees: IDW power 2, at most neighbors stations within
+// radiusKm, at least 3.
+func exampleJob(out string, res float64, neighbors int, radiusKm float64) Job {
+	job := Job{Stations: exampleSPI, Out: out, Res: res}
+	job.Params.Power, job.Params.Neighbors, job.Params.RadiusKm, job.Params.MinStations = 2, neighbors, radiusKm, 3
+	job.Values.Kind = "spi"
+	return job
+}
+
+// supportRef runs testdata/support_ref.py on the stations of res and the
+// centres of its grid's cells, with the search radius and the neighbours
+// of p (and GDAL reading the rasters, when named), and gives its lines,
+// one per cell in row-major order.
+func supportRef(t *testing.T, py string, res *Result, p interp.Params, rasters ...string) []string {
+	t.Helper()
+	spec := res.Spec
+	var ps, cs [][]float64
+	for _, s := range res.Values.Stations {
+		ps = append(ps, []float64{s.Lon, s.Lat})
+	}
+	for row := range spec.Rows {
+		for col := range spec.Cols {
+			lon, lat := spec.Center(col, row)
+			cs = append(cs, []float64{lon, lat})
+		}
+	}
+	req := map[string]any{"points": ps, "cells": cs, "radius_km": p.RadiusKm, "neighbors": p.Neighbors}
+	if len(rasters) > 0 {
+		req["rasters"] = rasters
+	}
+	in, err := json.Marshal(req)
+	if err != nil {
+		t.Fatal(err)
+	}
+	lines := strings.Split(strings.TrimSpace(string(reftest.RunPython(t, py, "../testdata/support_ref.py", in))), "\n")
+	if len(lines) != spec.Len() {
+		t.Fatalf("%d lines for %d cells", len(lines), spec.Len())
+	}
+	return lines
 }
