@@ -9,6 +9,7 @@ import (
 	"drygrid/geotiff"
 	"drygrid/grid"
 	"drygrid/internal/pool"
+	"drygrid/region"
 )
 
 // The pass: every layer of a run comes from one pass over the grid's rows,
@@ -38,6 +39,7 @@ type pass struct {
 	classes *bands.Classifier
 	tally   *bands.Tally
 	sinks   []rowSink
+	zonal   *region.ZonalRows // with regions (addZonal)
 
 	weights []float64 // a block's shares inside the mask
 	index   []float32 // a block of rows when the pass drives itself
@@ -48,6 +50,34 @@ type pass struct {
 func newPass(job *Job, res *Result) *pass {
 	return &pass{spec: res.Spec, workers: job.Params.Workers, rows: res.rows, mask: res.mask,
 		classes: bands.NewClassifier(res.Scheme), tally: bands.NewTally(res.Spec)}
+}
+
+// addZonal adds the zonal statistics of regions to the sinks (none
+// without regions).
+func (p *pass) addZonal(regions []region.Region) {
+	if len(regions) == 0 {
+		return
+	}
+	p.zonal = region.NewZonalRows(p.spec, regions)
+	p.sinks = append(p.sinks, func(row0, _ int, index []float32, codes []uint8) error {
+		return p.zonal.Rows(row0, codes, 0, index, grid.NoDataIndex)
+	})
+}
+
+// finish gives res what the pass added up: the band shares from the tally
+// and, with regions, their statistics.
+func (p *pass) finish(res *Result) error {
+	res.tally = p.tally
+	res.shares()
+	if p.zonal == nil {
+		return nil
+	}
+	stats, err := p.zonal.Stats()
+	if err != nil {
+		return err
+	}
+	res.Regions = stats
+	return nil
 }
 
 // block makes one block: the index rows, the mask, the codes and the

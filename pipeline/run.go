@@ -152,23 +152,15 @@ func Compute(ctx context.Context, job Job) (*Result, error) {
 	gridStart := job.now()
 	p := newPass(&job, res)
 	p.sinks = append(p.sinks, collect(res))
-	var zonal *region.ZonalRows
-	if len(in.regions) > 0 {
-		zonal = region.NewZonalRows(res.Spec, in.regions)
-		p.sinks = append(p.sinks, zonalSink(zonal))
-	}
+	p.addZonal(in.regions)
 	if err := p.run(ctx); err != nil {
 		return nil, err
 	}
-	res.tally = p.tally
-	res.shares()
-	if err := checkCovered(&job, res); err != nil {
+	if err := p.finish(res); err != nil {
 		return nil, err
 	}
-	if zonal != nil {
-		if res.Regions, err = zonal.Stats(); err != nil {
-			return nil, err
-		}
+	if err := checkCovered(&job, res); err != nil {
+		return nil, err
 	}
 	res.Timings["grid_s"] = seconds(job.now().Sub(gridStart))
 	return res, nil

@@ -33,7 +33,6 @@ type layerWriter struct {
 	preview *preview    // the band raster of the picture and the page
 	traced  *traceSink  // the band polygons and areas of bands.geojson
 	far     *grid.Uint8 // the preview's cells hatched on the picture and the page (Job.HatchBeyondKm), computed once
-	farDone bool
 }
 
 func (w *layerWriter) path(name string) string { return filepath.Join(w.dir, name) }

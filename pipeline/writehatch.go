@@ -78,18 +78,16 @@ func farGeoJSON(far *grid.Uint8, km float64) ([]byte, error) {
 	return buf.Bytes(), nil
 }
 
-// farRaster computes the far cells once for the picture and the page.
+// farRaster computes the far cells once for the picture and the page (nil
+// without Job.HatchBeyondKm, at no cost).
 func (w *layerWriter) farRaster() (*grid.Uint8, error) {
-	if w.farDone {
+	if w.far != nil {
 		return w.far, nil
 	}
 	if w.preview == nil {
 		return nil, errors.New("hatch: no preview raster (the pass did not run)")
 	}
 	far, err := w.res.farCells(w.preview.r, w.job.HatchBeyondKm)
-	if err != nil {
-		return nil, err
-	}
-	w.far, w.farDone = far, true
-	return far, nil
+	w.far = far
+	return far, err
 }

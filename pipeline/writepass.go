@@ -6,7 +6,6 @@ import (
 	"drygrid/grid"
 	"drygrid/layer/geojson"
 	"drygrid/polygon"
-	"drygrid/region"
 
 	"github.com/paulmach/orb"
 )
@@ -22,11 +21,7 @@ func (w *layerWriter) runPass(ctx context.Context) error {
 		w.preview = newPreview(res.Spec, previewMaxCells)
 		p.sinks = append(p.sinks, w.preview.rows)
 	}
-	var zonal *region.ZonalRows
-	if len(w.regions) > 0 {
-		zonal = region.NewZonalRows(res.Spec, w.regions)
-		p.sinks = append(p.sinks, zonalSink(zonal))
-	}
+	p.addZonal(w.regions)
 	if job.Layers["geojson"] || (job.Layers["page"] && w.preview.f == 1) {
 		t, err := newTraceSink(res.Spec, job.SimplifyKm)
 		if err != nil {
@@ -53,28 +48,13 @@ func (w *layerWriter) runPass(ctx context.Context) error {
 	if err != nil {
 		return err
 	}
-	res.tally = p.tally
-	res.shares()
-	if w.traced != nil {
-		if err := w.traced.finish(); err != nil {
-			return err
-		}
+	if err := p.finish(res); err != nil {
+		return err
 	}
-	if zonal != nil {
-		stats, err := zonal.Stats()
-		if err != nil {
-			return err
-		}
-		res.Regions = stats
+	if w.traced != nil {
+		return w.traced.finish()
 	}
 	return nil
-}
-
-// zonalSink gives the rows to the zonal statistics of the regions.
-func zonalSink(z *region.ZonalRows) rowSink {
-	return func(row0, _ int, index []float32, codes []uint8) error {
-		return z.Rows(row0, codes, 0, index, grid.NoDataIndex)
-	}
 }
 
 // traceSink traces the band polygons of bands.geojson from the rows as
