@@ -6,8 +6,10 @@ import (
 	"encoding/json"
 	"errors"
 	"fmt"
+	"maps"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 	"time"
 	"unicode/utf8"
@@ -440,7 +442,7 @@ func writeLayers(ctx context.Context, job *Job, res *Result, regions []region.Re
 				return fmt.Errorf("layer %s: %w", name, err)
 			}
 		}
-		for _, name := range sortedKeys(job.Extra) {
+		for _, name := range slices.Sorted(maps.Keys(job.Extra)) {
 			if err := writeBytes(filepath.Join(dir, name), job.Extra[name]); err != nil {
 				return err
 			}

@@ -2,12 +2,13 @@ package pipeline
 
 import (
 	"context"
-	"drygrid/publish"
 	"fmt"
 	"os"
 	"path/filepath"
 	"strings"
 	"time"
+
+	"drygrid/publish"
 )
 
 // resolve fixes what the job's date decides before a run: a date of

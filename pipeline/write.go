@@ -3,19 +3,18 @@ package pipeline
 import (
 	"bufio"
 	"bytes"
+	"errors"
+	"fmt"
+	"io"
+	"path/filepath"
+	"time"
+
 	"drygrid/geotiff"
 	"drygrid/grid"
 	"drygrid/layer"
 	"drygrid/layer/geojson"
 	"drygrid/layer/page"
 	"drygrid/publish"
-	"errors"
-	"fmt"
-	"io"
-	"path/filepath"
-	"sort"
-	"time"
-
 	"drygrid/region"
 )
 
@@ -162,14 +161,4 @@ func writeBytes(path string, b []byte) error {
 		_, err := out.Write(b)
 		return err
 	})
-}
-
-// sortedKeys lists a map's keys in order.
-func sortedKeys[V any](m map[string]V) []string {
-	keys := make([]string, 0, len(m))
-	for k := range m {
-		keys = append(keys, k)
-	}
-	sort.Strings(keys)
-	return keys
 }

@@ -2,8 +2,6 @@ package pipeline
 
 import (
 	"bytes"
-	"drygrid/bands"
-	"drygrid/layer/geojson"
 	"fmt"
 	"io"
 	"math"
@@ -11,7 +9,9 @@ import (
 	"path/filepath"
 	"strings"
 
+	"drygrid/bands"
 	"drygrid/layer"
+	"drygrid/layer/geojson"
 	"drygrid/layer/page"
 	"drygrid/layer/picture"
 	"drygrid/layer/regions"
@@ -136,7 +136,7 @@ func (w *layerWriter) writePage() error {
 			return fmt.Errorf("regions: %w", err)
 		}
 		in.RegionsGeoJSON = b
-		in.Regions = pageRows(w.res.Regions, w)
+		in.Regions = pageRows(w.res.Regions, w.res.Scheme)
 	}
 	return page.WriteFile(w.path("map.html"), in)
 }
@@ -159,7 +159,7 @@ func (w *layerWriter) pageBands() ([]byte, error) {
 }
 
 // pageRows turns zonal statistics into the page's table rows.
-func pageRows(stats []region.ZonalStats, w *layerWriter) []page.RegionRow {
+func pageRows(stats []region.ZonalStats, s *bands.Scheme) []page.RegionRow {
 	rows := make([]page.RegionRow, 0, len(stats))
 	for _, z := range stats {
 		r := page.RegionRow{Name: z.Key, AreaKm2: z.AreaKm2, SharePct: map[string]float64{}, MeanZ: math.NaN()}
@@ -168,10 +168,10 @@ func pageRows(stats []region.ZonalStats, w *layerWriter) []page.RegionRow {
 			r.MeanZ = z.MeanZ
 		}
 		if z.CoveredKm2 > 0 {
-			for _, b := range w.res.Scheme.Bands {
+			for _, b := range s.Bands {
 				r.SharePct[b.Key], _ = z.BandPct(b.Code)
 			}
-			r.InDroughtPct, _ = z.InDroughtPct(w.res.Scheme)
+			r.InDroughtPct, _ = z.InDroughtPct(s)
 		}
 		rows = append(rows, r)
 	}

@@ -2,9 +2,6 @@ package main
 
 import (
 	"bufio"
-	"drygrid/geotiff"
-	"drygrid/layer/geojson"
-	"drygrid/publish"
 	"encoding/binary"
 	"fmt"
 	"math"
@@ -16,8 +13,11 @@ import (
 	"strings"
 
 	"drygrid/bands"
+	"drygrid/geotiff"
 	"drygrid/grid"
 	"drygrid/interp"
+	"drygrid/layer/geojson"
+	"drygrid/publish"
 	"drygrid/station"
 )
 

@@ -1,11 +1,12 @@
 package main
 
 import (
+	"fmt"
+	"time"
+
 	"drygrid/history"
 	"drygrid/layer/chart"
 	"drygrid/pipeline"
-	"fmt"
-	"time"
 
 	"github.com/spf13/cobra"
 )
