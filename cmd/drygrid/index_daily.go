@@ -31,7 +31,6 @@ func (f indexFlags) runDaily(stderr io.Writer) error {
 	if f.window == 0 {
 		return usagef("--daily needs --window N (the window in days, e.g. 30)")
 	}
-	f.totals = f.daily.daily // for the checks of options
 	opt, err := f.options()
 	if err != nil {
 		return err
@@ -43,16 +42,9 @@ func (f indexFlags) runDaily(stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
-	var bar *progress
-	res, r, err := pipeline.ComputeIndexDaily(f.stations, f.daily.daily, dopt, f.window, opt, func(done, total int64) {
-		if bar == nil {
-			bar = newProgress(stderr, int(total), "reading daily records")
-		}
-		bar.set(int(done), int(total))
-	})
-	if bar != nil {
-		bar.done()
-	}
+	report, done := dailyProgress(stderr)
+	res, r, err := pipeline.ComputeIndexDaily(f.stations, f.daily.daily, dopt, f.window, opt, report)
+	done()
 	if err != nil {
 		return asUsage(err)
 	}

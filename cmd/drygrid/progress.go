@@ -42,3 +42,21 @@ func (p *progress) done() {
 		_ = p.bar.Finish()
 	}
 }
+
+// dailyProgress is the progress report of a reader of daily records
+// (pipeline.ReadDaily): its bar starts at the first report; done closes it.
+func dailyProgress(stderr io.Writer) (report func(done, total int64), done func()) {
+	var bar *progress
+	report = func(n, total int64) {
+		if bar == nil {
+			bar = newProgress(stderr, int(total), "reading daily records")
+		}
+		bar.set(int(n), int(total))
+	}
+	done = func() {
+		if bar != nil {
+			bar.done()
+		}
+	}
+	return report, done
+}

@@ -58,17 +58,9 @@ func (f dailyFlags) options(windows []int, now time.Time) (station.DailyOptions,
 
 // read reads the daily records with a progress bar on a terminal.
 func (f dailyFlags) read(opt station.DailyOptions, stderr io.Writer) (*station.WindowTotals, error) {
-	var bar *progress
-	r, err := pipeline.ReadDaily(f.daily, opt, func(done, total int64) {
-		if bar == nil {
-			bar = newProgress(stderr, int(total), "reading daily records")
-		}
-		bar.set(int(done), int(total))
-	})
-	if bar != nil {
-		bar.done()
-	}
-	return r, err
+	report, done := dailyProgress(stderr)
+	defer done()
+	return pipeline.ReadDaily(f.daily, opt, report)
 }
 
 // dateHelp is the calendar of the window totals, for the help texts.
