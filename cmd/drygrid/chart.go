@@ -57,9 +57,9 @@ drought declarations.`,
 				if d.v == "" {
 					continue
 				}
-				t, err := time.Parse("2006-01-02", d.v)
-				if err != nil || len(d.v) != 10 {
-					return usagef("%s %q is not a calendar date YYYY-MM-DD", d.flag, d.v)
+				t, err := parseDateFlag(d.flag, d.v)
+				if err != nil {
+					return err
 				}
 				*d.t = t
 			}

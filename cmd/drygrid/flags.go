@@ -1,6 +1,8 @@
 package main
 
 import (
+	"time"
+
 	"github.com/spf13/pflag"
 
 	"drygrid/interp"
@@ -62,4 +64,13 @@ func (f *interpFlags) register(fl *pflag.FlagSet, where, masked string) {
 func (f interpFlags) params() interp.Params {
 	return interp.Params{Power: f.power, Neighbors: f.neighbors, RadiusKm: f.radiusKm,
 		MinStations: f.minStations, Sectors: f.sectors}
+}
+
+// parseDateFlag reads the value of a date flag: a calendar date YYYY-MM-DD.
+func parseDateFlag(flag, v string) (time.Time, error) {
+	t, err := time.Parse("2006-01-02", v)
+	if err != nil || len(v) != 10 {
+		return t, usagef("%s %q is not a calendar date YYYY-MM-DD", flag, v)
+	}
+	return t, nil
 }

@@ -110,13 +110,13 @@ func (f runFlags) dates() ([]string, error) {
 	if f.from == "" {
 		return []string{""}, nil
 	}
-	d0, err0 := time.Parse("2006-01-02", f.from)
-	d1, err1 := time.Parse("2006-01-02", f.to)
-	if err0 != nil || len(f.from) != 10 {
-		return nil, usagef("--from %q is not a calendar date YYYY-MM-DD", f.from)
+	d0, err := parseDateFlag("--from", f.from)
+	if err != nil {
+		return nil, err
 	}
-	if err1 != nil || len(f.to) != 10 {
-		return nil, usagef("--to %q is not a calendar date YYYY-MM-DD", f.to)
+	d1, err := parseDateFlag("--to", f.to)
+	if err != nil {
+		return nil, err
 	}
 	if d1.Before(d0) {
 		return nil, usagef("--to %s is before --from %s", f.to, f.from)
