@@ -68,7 +68,7 @@ func TestPolygonizeAntimeridian(t *testing.T) {
 				if math.Abs(lon-180) < sp.Res/2 {
 					continue // a cell cut by 180: its centre may lie on the cut
 				}
-				lon = gjLon(lon)
+				lon = grid.WrapLon(lon)
 				v := c.R.Data[sp.Index(col, row)]
 				for code, mp := range polys {
 					if in := planar.MultiPolygonContains(mp, orb.Point{lon, lat}); in != (code == v) {
