@@ -106,22 +106,13 @@ func TestPageThinnedInChromium(t *testing.T) {
 	}
 	page, _ := os.ReadFile(file)
 	shown := strings.Count(string(page), `"type":"Point"`)
-	dom, logs := pageChromium(t, chromium, file, "--dump-dom")
-	a := pageBodyAttrs(t, dom)
-	for k, want := range map[string]string{
+	dom, a, logs := pageDumpDOM(t, chromium, file)
+	pageWantBody(t, a, map[string]string{
 		"data-rendered": "1", "data-errors": "0", "data-csp-violations": "0", "data-resources": "0",
 		"data-stations-drawn": strconv.Itoa(shown),
-	} {
-		if a[k] != want {
-			t.Errorf("body %s = %q, want %q (last error %q)", k, a[k], want, a["data-last-error"])
-		}
-	}
+	})
 	if shown > DefaultMaxStations || !strings.Contains(dom, `href="stations.geojson"`) {
 		t.Errorf("%d stations embedded; link in the DOM: %v", shown, strings.Contains(dom, `href="stations.geojson"`))
 	}
-	for _, ln := range strings.Split(logs, "\n") {
-		if strings.Contains(ln, "CONSOLE") || strings.Contains(ln, "Refused to") || strings.Contains(ln, "Content Security Policy") {
-			t.Errorf("chromium console: %s", ln)
-		}
-	}
+	pageQuietConsole(t, logs)
 }
