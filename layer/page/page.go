@@ -314,7 +314,7 @@ func pageHash(s string) string {
 
 // pageSlotMark is the mark of slot k in the template's text: it begins
 // with "<", which the template escapes in every text of the caller's and
-// pageEmbedJSON in every JSON document, so only a slot writes it.
+// pageWriteEscaped in every JSON document, so only a slot writes it.
 func pageSlotMark(k int) string { return "<drygrid-slot-" + strconv.Itoa(k) + ">" }
 
 // slot gives the template the mark of a JSON document written later by
@@ -328,7 +328,7 @@ func (v *pageView) slot(doc []byte) template.JS {
 }
 
 // writeSlots writes the template's text with each slot's mark replaced
-// by its document, escaped as pageEmbedJSON escapes it; every slot must be
+// by its document, escaped by pageWriteEscaped; every slot must be
 // written once.
 func (v *pageView) writeSlots(w io.Writer, text []byte) error {
 	const prefix = "<drygrid-slot-"
@@ -362,8 +362,10 @@ func (v *pageView) writeSlots(w io.Writer, text []byte) error {
 	return err
 }
 
-// pageWriteEscaped writes JSON as pageEmbedJSON returns it: "<" as
-// \u003c, U+2028 and U+2029 as their escapes.
+// pageWriteEscaped writes JSON safe inside a <script type="application/json">
+// block: "<" (which valid JSON holds only inside strings) becomes \u003c, so
+// no "</script" or "<!--" can end or confuse the block; U+2028 and U+2029 are
+// escaped too.
 func pageWriteEscaped(w io.Writer, b []byte) error {
 	for len(b) > 0 {
 		i := bytes.IndexAny(b, "<\u2028\u2029")
@@ -400,23 +402,6 @@ func pageCheckJSON(b []byte) ([]byte, error) {
 		return nil, fmt.Errorf("not valid JSON: %v", err)
 	}
 	return b, nil
-}
-
-// pageEmbedJSON checks that b is one JSON value and makes it safe inside a
-// <script type="application/json"> block: "<" (which valid JSON holds only
-// inside strings) becomes \u003c, so no "</script" or "<!--" can end or
-// confuse the block; U+2028 and U+2029 are escaped too. Empty input gives
-// null. The page writes its layers this way (writeSlots).
-func pageEmbedJSON(b []byte) (string, error) {
-	doc, err := pageCheckJSON(b)
-	if err != nil || doc == nil {
-		return "null", err
-	}
-	var sb strings.Builder
-	if err := pageWriteEscaped(&sb, doc); err != nil {
-		return "", err
-	}
-	return sb.String(), nil
 }
 
 // pageRangeText writes a band's range with the <= and >= signs.

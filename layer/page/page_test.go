@@ -229,6 +229,21 @@ func TestPageDeterministic(t *testing.T) {
 	}
 }
 
+// pageEmbedJSON is what the page does to each JSON document it embeds:
+// pageCheckJSON when the view is built (empty input is a null slot), then
+// pageWriteEscaped when writeSlots writes the slot.
+func pageEmbedJSON(b []byte) (string, error) {
+	doc, err := pageCheckJSON(b)
+	if err != nil || doc == nil {
+		return "null", err
+	}
+	var sb strings.Builder
+	if err := pageWriteEscaped(&sb, doc); err != nil {
+		return "", err
+	}
+	return sb.String(), nil
+}
+
 // FuzzPageEmbedJSON: for any input the embedder either refuses it or gives
 // text holding no "<" that decodes to the same JSON value (so no input can
 // close the script block or change the data).
