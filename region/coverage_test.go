@@ -280,7 +280,8 @@ func TestAntimeridianAreaVsPyproj(t *testing.T) {
 
 // TestGlobeArea: the whole Earth as one region is the WGS84 ellipsoid's
 // surface, 510,065,621.7 km^2 (Moritz 2000, Geodetic Reference System 1980,
-// J. Geodesy 74; the WGS84 value differs below 0.1 km^2).
+// J. Geodesy 74, from memory; the WGS84 value differs below 0.1 km^2, and
+// grid's TestGlobalGridSumsToEarthSurface holds the cell areas to it).
 func TestGlobeArea(t *testing.T) {
 	s, _ := grid.Global(1)
 	b := grid.NewUint8(s, 0)
