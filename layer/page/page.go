@@ -251,8 +251,8 @@ func pageData(in Input, extraJS string) (*pageView, error) {
 		}
 		stations = th.doc
 		if th.shown < th.total {
-			v.StationsTotal = pageGroup(strconv.Itoa(th.total))
-			v.StationsShown = pageGroup(strconv.Itoa(th.shown))
+			v.StationsTotal = layer.GroupThousands(strconv.Itoa(th.total))
+			v.StationsShown = layer.GroupThousands(strconv.Itoa(th.shown))
 			v.StationsHref = in.StationsHref
 		}
 	}
@@ -422,28 +422,7 @@ func pageNum(v *float64, dec int) pageCell {
 	if v == nil {
 		return pageCell{Text: "–", Sort: ""}
 	}
-	return pageCell{Text: pageGroup(strconv.FormatFloat(*v, 'f', dec, 64)), Sort: strconv.FormatFloat(*v, 'g', -1, 64)}
-}
-
-// pageGroup puts thousands separators (commas, as English text does) into
-// a formatted number: 1234567.5 -> 1,234,567.5.
-func pageGroup(s string) string {
-	sign := ""
-	if strings.HasPrefix(s, "-") {
-		sign, s = "-", s[1:]
-	}
-	whole, frac := s, ""
-	if i := strings.IndexByte(s, '.'); i >= 0 {
-		whole, frac = s[:i], s[i:]
-	}
-	var b strings.Builder
-	for i, c := range whole {
-		if i > 0 && (len(whole)-i)%3 == 0 {
-			b.WriteByte(',')
-		}
-		b.WriteRune(c)
-	}
-	return sign + b.String() + frac
+	return pageCell{Text: layer.GroupThousands(strconv.FormatFloat(*v, 'f', dec, 64)), Sort: strconv.FormatFloat(*v, 'g', -1, 64)}
 }
 
 func pageMakeRow(r RegionRow, bands []pageBand) pageRow {

@@ -286,13 +286,3 @@ func FuzzPageEmbedJSON(f *testing.F) {
 		}
 	})
 }
-
-// TestPageGroup: thousands separators as English text writes them (common
-// practice).
-func TestPageGroup(t *testing.T) {
-	for in, want := range map[string]string{"0": "0", "999": "999", "1000": "1,000", "1234567.5": "1,234,567.5", "-12345.25": "-12,345.25", "100000": "100,000", "NaN": "NaN"} {
-		if got := pageGroup(in); got != want {
-			t.Errorf("pageGroup(%q) = %q, want %q", in, got, want)
-		}
-	}
-}

@@ -13,6 +13,7 @@ import (
 
 	"drygrid/internal/layertest"
 	"drygrid/internal/reftest"
+	"drygrid/layer"
 )
 
 // pageManyStations invents n stations over the fixture's grid (a fixed
@@ -75,7 +76,7 @@ func TestPageThinsStations(t *testing.T) {
 	if n > DefaultMaxStations || n < DefaultMaxStations/4 || doc.Type != "FeatureCollection" || doc.Date != "2026-11-30" {
 		t.Errorf("embedded %d stations (want %d..%d), type %q, date %q", n, DefaultMaxStations/4, DefaultMaxStations, doc.Type, doc.Date)
 	}
-	for _, want := range []string{pageGroup(strconv.Itoa(n)) + " of 500,000 stations shown", `<a href="stations.geojson">stations.geojson</a>`, in.Produced} {
+	for _, want := range []string{layer.GroupThousands(strconv.Itoa(n)) + " of 500,000 stations shown", `<a href="stations.geojson">stations.geojson</a>`, in.Produced} {
 		if !strings.Contains(page, want) {
 			t.Errorf("page lacks %q", want)
 		}
