@@ -1,6 +1,7 @@
 // Package layer holds what every layer encoder shares: the caution that each
-// human-facing output carries (Caution) and the label of cells without an
-// estimate (NoDataLabel). The layers are the last step of the data flow
+// human-facing output carries (Caution), the label of cells without an
+// estimate (NoDataLabel) and the thousands separators of the figures they
+// write (GroupThousands). The layers are the last step of the data flow
 // (index raster -> band raster -> layers): they turn the band raster, its
 // polygons, the stations and the per-region statistics into the files a user
 // reads. The encoders are the subpackages: geojson (the band and station

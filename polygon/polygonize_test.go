@@ -1,12 +1,10 @@
 package polygon_test
 
 import (
-	"drygrid/bands"
 	"drygrid/grid"
 	"drygrid/internal/rastertest"
 	"drygrid/polygon"
 	"fmt"
-	"math"
 	"reflect"
 	"testing"
 
@@ -153,44 +151,6 @@ func BenchmarkPolygonizeOnly(b *testing.B) {
 	}
 }
 
-// benchField is a smooth classified field made row by row (like
-// rastertest.BenchRaster without blobs and noise): z and the no-data mask
-// are sums of sines separable in column and row, so a cell costs a few
-// multiplications.
-type benchField struct {
-	sp  grid.Spec
-	col [][8]float64
-}
-
-func newBenchField(sp grid.Spec) *benchField {
-	f := &benchField{sp: sp, col: make([][8]float64, sp.Cols)}
-	for c := range f.col {
-		x := (float64(c) + 0.5) / float64(sp.Cols) * 2 * math.Pi
-		f.col[c] = [8]float64{math.Sin(2*x + 1), math.Sin(5 * x), math.Cos(5 * x), math.Sin(3 * x),
-			math.Sin(7*x + 0.5), math.Cos(7*x + 0.5), math.Sin(11 * x), math.Cos(11 * x)}
-	}
-	return f
-}
-
-func (f *benchField) rows(row0 int, block []uint8) {
-	sc := bands.Default()
-	cols := f.sp.Cols
-	for k := 0; k < len(block)/cols; k++ {
-		y := (float64(row0+k) + 0.5) / float64(f.sp.Rows) * math.Pi
-		s2, c2, s3, c3 := math.Sin(2*y), math.Cos(2*y), math.Sin(3*y), math.Cos(3*y)
-		s5, c5, s9, c9 := math.Sin(5*y), math.Cos(5*y), math.Sin(9*y), math.Cos(9*y)
-		line := block[k*cols : (k+1)*cols]
-		for c := range line {
-			t := &f.col[c]
-			if t[0]*c3+0.6*(t[1]*c3+t[2]*s3) < -0.38 {
-				line[c] = 0
-				continue
-			}
-			line[c] = sc.Classify(0.8*t[3]*c2 + 0.5*(t[4]*c5+t[5]*s5) + 0.3*(t[7]*c9+t[6]*s9) + 0.2*s2)
-		}
-	}
-}
-
 // BenchmarkTracerStream0025 traces a smooth band field on the global
 // 0.025 deg grid (14400 x 7200, 104 M cells) fed in blocks of 256 rows,
 // each made as it is fed: the raster is never held. B/op (every byte
@@ -201,7 +161,7 @@ func BenchmarkTracerStream0025(b *testing.B) {
 	if err != nil {
 		b.Fatal(err)
 	}
-	field := newBenchField(s)
+	field := rastertest.NewBenchField(s)
 	block := make([]uint8, 256*s.Cols)
 	b.ResetTimer()
 	for b.Loop() {
@@ -211,7 +171,7 @@ func BenchmarkTracerStream0025(b *testing.B) {
 		}
 		for row := 0; row < s.Rows; row += 256 {
 			n := min(256, s.Rows-row)
-			field.rows(row, block[:n*s.Cols])
+			field.Rows(row, block[:n*s.Cols])
 			if err := t.Rows(row, block[:n*s.Cols]); err != nil {
 				b.Fatal(err)
 			}

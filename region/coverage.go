@@ -78,14 +78,14 @@ func covSnapped(v float64) float64 {
 
 // covPrepare maps polygon p, shifted by dlon degrees, into grid units of s
 // (columns from the west, strips from the south, snapped to cell edges
-// within covSnap), appending its rings (open, of 3 or more positions) and
-// their latitude ranges to rings, ylo and yhi; c0..c1 and j0..j1 are the
-// columns and strips it may cover, ymin..ymax its latitude range, and ok
-// false when it covers no cell.
-func covPrepare(s grid.Spec, p orb.Polygon, dlon float64, rings [][]covPt, ylo, yhi []float64) (_ [][]covPt, _, _ []float64, c0, c1, j0, j1 int, ymin, ymax float64, ok bool) {
+// within covSnap) as cp: its rings (open, of 3 or more positions) and their
+// latitude ranges, reusing cp's slices, and the columns c0..c1 and strips
+// j0..j1 it may cover. It reports false when p covers no cell.
+func covPrepare(s grid.Spec, p orb.Polygon, dlon float64, cp *coverPart) bool {
 	south := s.South()
+	cp.rings, cp.ylo, cp.yhi = cp.rings[:0], cp.ylo[:0], cp.yhi[:0]
 	xmin, xmax := math.Inf(1), math.Inf(-1)
-	ymin, ymax = math.Inf(1), math.Inf(-1)
+	ymin, ymax := math.Inf(1), math.Inf(-1)
 	for _, ring := range p {
 		pts := make([]covPt, 0, len(ring))
 		lo, hi := math.Inf(1), math.Inf(-1)
@@ -102,18 +102,19 @@ func covPrepare(s grid.Spec, p orb.Polygon, dlon float64, rings [][]covPt, ylo, 
 			continue
 		}
 		ymin, ymax = math.Min(ymin, lo), math.Max(ymax, hi)
-		rings = append(rings, pts)
-		ylo, yhi = append(ylo, lo), append(yhi, hi)
+		cp.rings = append(cp.rings, pts)
+		cp.ylo, cp.yhi = append(cp.ylo, lo), append(cp.yhi, hi)
 	}
-	if len(rings) == 0 {
-		return rings, ylo, yhi, 0, -1, 0, -1, ymin, ymax, false
+	if len(cp.rings) == 0 {
+		cp.c0, cp.c1, cp.j0, cp.j1 = 0, -1, 0, -1
+		return false
 	}
 	// Window of cells: columns c0..c1, strips j0..j1 counted from the south.
-	c0 = max(0, int(math.Floor(xmin)))
-	c1 = min(s.Cols-1, int(math.Ceil(xmax))-1)
-	j0 = max(0, int(math.Floor(ymin)))
-	j1 = min(s.Rows-1, int(math.Ceil(ymax))-1)
-	return rings, ylo, yhi, c0, c1, j0, j1, ymin, ymax, c0 <= c1 && j0 <= j1
+	cp.c0 = max(0, int(math.Floor(xmin)))
+	cp.c1 = min(s.Cols-1, int(math.Ceil(xmax))-1)
+	cp.j0 = max(0, int(math.Floor(ymin)))
+	cp.j1 = min(s.Rows-1, int(math.Ceil(ymax))-1)
+	return cp.c0 <= cp.c1 && cp.j0 <= cp.j1
 }
 
 // covClipY clips a closed ring (implicitly closed) to y <= lim (below) or

@@ -59,6 +59,33 @@ func ringsJSON(p orb.Polygon) [][][2]float64 {
 	return out
 }
 
+// regionsRef sends req (marshalled to JSON) to testdata/regions_ref.py and
+// decodes its answer into out.
+func regionsRef(t *testing.T, py string, req map[string]any, out any) {
+	t.Helper()
+	b, err := json.Marshal(req)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := json.Unmarshal(reftest.RunPython(t, py, "../testdata/regions_ref.py", b), out); err != nil {
+		t.Fatal(err)
+	}
+}
+
+// refShares is regions_ref.py "shares": the share of each cell of s in the
+// polygon p, as (cell, share) pairs, edges densified every 0.002 degrees.
+func refShares(t *testing.T, py string, s grid.Spec, p orb.Polygon) [][2]float64 {
+	t.Helper()
+	var ref [][2]float64
+	regionsRef(t, py, map[string]any{
+		"mode":    "shares",
+		"spec":    map[string]any{"west": s.West, "north": s.North, "res": s.Res, "cols": s.Cols, "rows": s.Rows},
+		"polygon": ringsJSON(p),
+		"step":    0.002,
+	}, &ref)
+	return ref
+}
+
 // TestCoverageAlignedRectangle: a rectangle on cell edges covers whole cells
 // exactly; one offset by a quarter cell covers exact halves at its ends
 // (plane geometry).
@@ -121,16 +148,7 @@ func TestCoverageVsShapely(t *testing.T) {
 		"thin sliver":          {{{-9.95, 2.01}, {9.93, 2.02}, {9.93, 2.03}, {-9.95, 2.01}}},
 	}
 	for name, p := range cases {
-		req, _ := json.Marshal(map[string]any{
-			"mode":    "shares",
-			"spec":    map[string]any{"west": s.West, "north": s.North, "res": s.Res, "cols": s.Cols, "rows": s.Rows},
-			"polygon": ringsJSON(p),
-			"step":    0.002,
-		})
-		var ref [][2]float64
-		if err := json.Unmarshal(reftest.RunPython(t, py, "../testdata/regions_ref.py", req), &ref); err != nil {
-			t.Fatal(err)
-		}
+		ref := refShares(t, py, s, p)
 		if len(ref) == 0 {
 			t.Fatalf("%s: shapely found no cell in the polygon: the case checks nothing", name)
 		}
@@ -181,11 +199,8 @@ func TestRegionAreaVsPyproj(t *testing.T) {
 	for _, p := range polys {
 		arg = append(arg, ringsJSON(p))
 	}
-	req, _ := json.Marshal(map[string]any{"mode": "area", "polygons": arg, "step": 0.002})
 	var ref []float64
-	if err := json.Unmarshal(reftest.RunPython(t, py, "../testdata/regions_ref.py", req), &ref); err != nil {
-		t.Fatal(err)
-	}
+	regionsRef(t, py, map[string]any{"mode": "area", "polygons": arg, "step": 0.002}, &ref)
 	for i, p := range polys {
 		g := mustNorm(t, p)
 		if n := len(Coverage(s, g)); n < 100 {
@@ -222,11 +237,8 @@ func TestSmallRegionAreaVsPyproj(t *testing.T) {
 	for _, p := range polys {
 		arg = append(arg, ringsJSON(p))
 	}
-	req, _ := json.Marshal(map[string]any{"mode": "area", "polygons": arg, "step": 2e-5})
 	var ref []float64
-	if err := json.Unmarshal(reftest.RunPython(t, py, "../testdata/regions_ref.py", req), &ref); err != nil {
-		t.Fatal(err)
-	}
+	regionsRef(t, py, map[string]any{"mode": "area", "polygons": arg, "step": 2e-5}, &ref)
 	for _, res := range []float64{0.1, 1} {
 		s, _ := grid.Global(res)
 		for i, p := range polys {
@@ -248,11 +260,8 @@ func TestSmallRegionAreaVsPyproj(t *testing.T) {
 func TestAntimeridianAreaVsPyproj(t *testing.T) {
 	py := reftest.Python(t, "pyproj", "shapely")
 	east, west := rect(179.5, -17.5, 180, -16.5), rect(-180, -17.5, -179.5, -16.5)
-	req, _ := json.Marshal(map[string]any{"mode": "area", "polygons": [][][][2]float64{ringsJSON(east), ringsJSON(west)}, "step": 1e-3})
 	var ref []float64
-	if err := json.Unmarshal(reftest.RunPython(t, py, "../testdata/regions_ref.py", req), &ref); err != nil {
-		t.Fatal(err)
-	}
+	regionsRef(t, py, map[string]any{"mode": "area", "polygons": [][][][2]float64{ringsJSON(east), ringsJSON(west)}, "step": 1e-3}, &ref)
 	want := ref[0] + ref[1]
 	past := feat(`"fiji"`, `{}`, poly(`[[179.5,-17.5],[180.5,-17.5],[180.5,-16.5],[179.5,-16.5],[179.5,-17.5]]`))
 	jump := feat(`"fiji"`, `{}`, poly(`[[179.5,-17.5],[-179.5,-17.5],[-179.5,-16.5],[179.5,-16.5],[179.5,-17.5]]`))
@@ -271,7 +280,8 @@ func TestAntimeridianAreaVsPyproj(t *testing.T) {
 
 // TestGlobeArea: the whole Earth as one region is the WGS84 ellipsoid's
 // surface, 510,065,621.7 km^2 (Moritz 2000, Geodetic Reference System 1980,
-// J. Geodesy 74; the WGS84 value differs below 0.1 km^2).
+// J. Geodesy 74, from memory; the WGS84 value differs below 0.1 km^2, and
+// grid's TestGlobalGridSumsToEarthSurface holds the cell areas to it).
 func TestGlobeArea(t *testing.T) {
 	s, _ := grid.Global(1)
 	b := grid.NewUint8(s, 0)

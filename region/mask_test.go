@@ -64,16 +64,7 @@ func TestMaskVsShapely(t *testing.T) {
 	feats := maskFeatures()
 	want := make([]float64, s.Len())
 	for _, p := range feats {
-		req, _ := json.Marshal(map[string]any{
-			"mode":    "shares",
-			"spec":    map[string]any{"west": s.West, "north": s.North, "res": s.Res, "cols": s.Cols, "rows": s.Rows},
-			"polygon": ringsJSON(p),
-			"step":    0.002,
-		})
-		var ref [][2]float64
-		if err := json.Unmarshal(reftest.RunPython(t, py, "../testdata/regions_ref.py", req), &ref); err != nil {
-			t.Fatal(err)
-		}
+		ref := refShares(t, py, s, p)
 		for _, r := range ref {
 			want[int(r[0])] += r[1]
 		}

@@ -50,9 +50,7 @@ func newRowCover(s grid.Spec, g orb.MultiPolygon) rowCover {
 				continue
 			}
 			var cp coverPart
-			var ok bool
-			cp.rings, cp.ylo, cp.yhi, cp.c0, cp.c1, cp.j0, cp.j1, _, _, ok = covPrepare(s, p, k, nil, nil, nil)
-			if !ok {
+			if !covPrepare(s, p, k, &cp) {
 				continue
 			}
 			rc.parts = append(rc.parts, cp)

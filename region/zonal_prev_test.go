@@ -92,8 +92,7 @@ type prevCovWork struct {
 	spec       grid.Spec
 	auth       []authCoef
 	authOK     []bool
-	rings      [][]covPt
-	ylo, yhi   []float64
+	part       coverPart
 	clipA, cut []covPt
 	buf        []float64
 }
@@ -138,12 +137,10 @@ func (c *prevCovWork) coverage(s grid.Spec, g orb.MultiPolygon, all []CellWeight
 }
 
 func (c *prevCovWork) polygon(s grid.Spec, p orb.Polygon, dlon float64, out []CellWeight) []CellWeight {
-	var c0, c1, j0, j1 int
-	var ok bool
-	c.rings, c.ylo, c.yhi, c0, c1, j0, j1, _, _, ok = covPrepare(s, p, dlon, c.rings[:0], c.ylo[:0], c.yhi[:0])
-	if !ok {
+	if !covPrepare(s, p, dlon, &c.part) {
 		return out
 	}
+	c0, c1, j0, j1 := c.part.c0, c.part.c1, c.part.j0, c.part.j1
 	w := c1 - c0 + 1
 	n := w * (j1 - j0 + 1)
 	if cap(c.buf) < n {
@@ -154,8 +151,8 @@ func (c *prevCovWork) polygon(s grid.Spec, p orb.Polygon, dlon float64, out []Ce
 	for j := j0; j <= j1; j++ {
 		row := buf[(j-j0)*w : (j-j0+1)*w]
 		fj := float64(j)
-		for ri, ring := range c.rings {
-			if c.yhi[ri] <= fj || c.ylo[ri] >= fj+1 {
+		for ri, ring := range c.part.rings {
+			if c.part.yhi[ri] <= fj || c.part.ylo[ri] >= fj+1 {
 				continue
 			}
 			c.clipA = covClipY(ring, c.clipA[:0], fj+1, true)

@@ -5,7 +5,7 @@
 // (layer/geojson), which share it. Only tests import it.
 //
 // The rasters (RandomCases, Smooth, SimplifyCases, AntimeridianCases,
-// BenchRaster, Raster) are deterministic: random sizes and noise,
+// BenchRaster, BenchField, Raster) are deterministic: random sizes and noise,
 // checkerboards, single cells, holes in holes, no-data islands, one-row and
 // one-column grids, smooth fields, grids that cross the antimeridian, and
 // the global 0.1 deg raster of the benchmarks. Check holds an exact layer to

@@ -386,6 +386,49 @@ func BenchRaster(tb testing.TB) *grid.Uint8 {
 	return r
 }
 
+// BenchField is a smooth classified field made row by row, for the
+// benchmarks that stream a grid too large to hold (like BenchRaster without
+// blobs and noise): z and the no-data mask are sums of sines separable in
+// column and row, so a cell costs a few multiplications. Codes are
+// bands.Default()'s, 0 for no data.
+type BenchField struct {
+	sp  grid.Spec
+	col [][8]float64
+}
+
+// NewBenchField makes the field on the grid sp; the column terms are
+// computed once here.
+func NewBenchField(sp grid.Spec) *BenchField {
+	f := &BenchField{sp: sp, col: make([][8]float64, sp.Cols)}
+	for c := range f.col {
+		x := (float64(c) + 0.5) / float64(sp.Cols) * 2 * math.Pi
+		f.col[c] = [8]float64{math.Sin(2*x + 1), math.Sin(5 * x), math.Cos(5 * x), math.Sin(3 * x),
+			math.Sin(7*x + 0.5), math.Cos(7*x + 0.5), math.Sin(11 * x), math.Cos(11 * x)}
+	}
+	return f
+}
+
+// Rows fills block, whole rows of the grid from row0 on, with the field's
+// band codes.
+func (f *BenchField) Rows(row0 int, block []uint8) {
+	sc := bands.Default()
+	cols := f.sp.Cols
+	for k := 0; k < len(block)/cols; k++ {
+		y := (float64(row0+k) + 0.5) / float64(f.sp.Rows) * math.Pi
+		s2, c2, s3, c3 := math.Sin(2*y), math.Cos(2*y), math.Sin(3*y), math.Cos(3*y)
+		s5, c5, s9, c9 := math.Sin(5*y), math.Cos(5*y), math.Sin(9*y), math.Cos(9*y)
+		line := block[k*cols : (k+1)*cols]
+		for c := range line {
+			t := &f.col[c]
+			if t[0]*c3+0.6*(t[1]*c3+t[2]*s3) < -0.38 {
+				line[c] = 0
+				continue
+			}
+			line[c] = sc.Classify(0.8*t[3]*c2 + 0.5*(t[4]*c5+t[5]*s5) + 0.3*(t[7]*c9+t[6]*s9) + 0.2*s2)
+		}
+	}
+}
+
 // AntimeridianCases are random rasters on grids that cross 180: one
 // whose cell edges meet 180, one (res 0.7) whose column straddles it.
 func AntimeridianCases() []Case {

@@ -9,6 +9,7 @@ import (
 	"unicode/utf8"
 
 	"drygrid/bands"
+	"drygrid/grid"
 )
 
 // Station is one station of the station layer.
@@ -71,7 +72,7 @@ func gjEncodeStations(w io.Writer, pts []Station, keep []bool, s *bands.Scheme, 
 		if !gjFinite(p.Lon) || !gjFinite(p.Lat) || p.Lat < -90 || p.Lat > 90 {
 			return fmt.Errorf("stations geojson: station %d (%q): position %g, %g is not a valid longitude, latitude", k+1, p.ID, p.Lon, p.Lat)
 		}
-		lon := gjLon(p.Lon)
+		lon := grid.WrapLon(p.Lon)
 		if k == 0 {
 			bound = [4]float64{lon, p.Lat, lon, p.Lat}
 		} else {
@@ -157,7 +158,7 @@ func gjStationKeys(s *bands.Scheme) [256][]byte {
 // encoding/json sorts map keys).
 func gjAppendStation(b []byte, p Station, keys *[256][]byte) []byte {
 	b = append(b, `{"type":"Feature","geometry":{"type":"Point","coordinates":[`...)
-	b = gjAppendFloat(b, gjLon(p.Lon))
+	b = gjAppendFloat(b, grid.WrapLon(p.Lon))
 	b = append(b, ',')
 	b = gjAppendFloat(b, p.Lat)
 	b = append(b, `]},"properties":{"code":`...)
@@ -265,16 +266,3 @@ func gjAppendString(b []byte, s string) []byte {
 }
 
 func gjFinite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
-
-// gjLon brings a longitude into [-180, 180] (RFC 7946 section 3.1.9 wants
-// positions inside the usual range; 180 stays 180).
-func gjLon(lon float64) float64 {
-	if lon > 180 || lon < -180 {
-		lon = math.Mod(lon+180, 360)
-		if lon < 0 {
-			lon += 360
-		}
-		lon -= 180
-	}
-	return lon
-}

@@ -7,6 +7,7 @@ import (
 	"io"
 
 	"drygrid/bands"
+	"drygrid/grid"
 
 	"github.com/paulmach/orb"
 	"github.com/paulmach/orb/geojson"
@@ -27,7 +28,7 @@ func gjOracleEncodeStations(w io.Writer, pts []Station, s *bands.Scheme, opt Opt
 		if !gjFinite(p.Lon) || !gjFinite(p.Lat) || p.Lat < -90 || p.Lat > 90 {
 			return fmt.Errorf("stations geojson: station %d (%q): position %g, %g is not a valid longitude, latitude", k+1, p.ID, p.Lon, p.Lat)
 		}
-		pt := orb.Point{gjLon(p.Lon), p.Lat}
+		pt := orb.Point{grid.WrapLon(p.Lon), p.Lat}
 		if k == 0 {
 			bound = pt.Bound()
 		} else {
@@ -40,7 +41,7 @@ func gjOracleEncodeStations(w io.Writer, pts []Station, s *bands.Scheme, opt Opt
 	}
 	bw.WriteString(`,"features":[`)
 	for k, p := range pts {
-		f := geojson.NewFeature(orb.Point{gjLon(p.Lon), p.Lat})
+		f := geojson.NewFeature(orb.Point{grid.WrapLon(p.Lon), p.Lat})
 		f.Properties["id"] = p.ID
 		f.Properties["value"] = gjOracleNullable(p.Value, true)
 		f.Properties["z"] = gjOracleNullable(p.Z, p.HasZ)

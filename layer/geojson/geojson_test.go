@@ -68,7 +68,7 @@ func TestPolygonizeAntimeridian(t *testing.T) {
 				if math.Abs(lon-180) < sp.Res/2 {
 					continue // a cell cut by 180: its centre may lie on the cut
 				}
-				lon = gjLon(lon)
+				lon = grid.WrapLon(lon)
 				v := c.R.Data[sp.Index(col, row)]
 				for code, mp := range polys {
 					if in := planar.MultiPolygonContains(mp, orb.Point{lon, lat}); in != (code == v) {
@@ -184,7 +184,9 @@ func equalFloats(a, b []float64) bool {
 
 // TestWriteBandsGeoJSONEarthArea: one band over a global 1-degree grid has
 // area_km2 = the WGS84 ellipsoid's surface area, 510,065,621.7 km^2 (the
-// published constant docs/design.md, "Checked against", lists; to 0.1 km^2).
+// published constant docs/design.md, "Checked against", lists: NIMA
+// TR8350.2, 3rd ed., 2000, table 3.5, from memory, as in grid's
+// area_test.go; to 0.1 km^2).
 func TestWriteBandsGeoJSONEarthArea(t *testing.T) {
 	sp, _ := grid.Global(1)
 	r := grid.NewUint8(sp, 0)

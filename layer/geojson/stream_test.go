@@ -139,7 +139,7 @@ func BenchmarkWriteBandsStream0025(b *testing.B) {
 	if err != nil {
 		b.Fatal(err)
 	}
-	field := newBenchField(sp)
+	field := rastertest.NewBenchField(sp)
 	block := make([]uint8, 256*sp.Cols)
 	s := bands.Default()
 	b.ResetTimer()
@@ -151,7 +151,7 @@ func BenchmarkWriteBandsStream0025(b *testing.B) {
 		}
 		for row := 0; row < sp.Rows; row += 256 {
 			blk := block[:min(256, sp.Rows-row)*sp.Cols]
-			field.rows(row, blk)
+			field.Rows(row, blk)
 			if err := areas.Rows(row, blk); err != nil {
 				b.Fatal(err)
 			}
@@ -165,44 +165,6 @@ func BenchmarkWriteBandsStream0025(b *testing.B) {
 		}
 		if err := EncodeBandPolygons(io.Discard, sp, polys, areas, s, Options{}); err != nil {
 			b.Fatal(err)
-		}
-	}
-}
-
-// benchField is a smooth classified field made row by row (like
-// rastertest.BenchRaster without blobs and noise): z and the no-data mask
-// are sums of sines separable in column and row, so a cell costs a few
-// multiplications.
-type benchField struct {
-	sp  grid.Spec
-	col [][8]float64
-}
-
-func newBenchField(sp grid.Spec) *benchField {
-	f := &benchField{sp: sp, col: make([][8]float64, sp.Cols)}
-	for c := range f.col {
-		x := (float64(c) + 0.5) / float64(sp.Cols) * 2 * math.Pi
-		f.col[c] = [8]float64{math.Sin(2*x + 1), math.Sin(5 * x), math.Cos(5 * x), math.Sin(3 * x),
-			math.Sin(7*x + 0.5), math.Cos(7*x + 0.5), math.Sin(11 * x), math.Cos(11 * x)}
-	}
-	return f
-}
-
-func (f *benchField) rows(row0 int, block []uint8) {
-	sc := bands.Default()
-	cols := f.sp.Cols
-	for k := 0; k < len(block)/cols; k++ {
-		y := (float64(row0+k) + 0.5) / float64(f.sp.Rows) * math.Pi
-		s2, c2, s3, c3 := math.Sin(2*y), math.Cos(2*y), math.Sin(3*y), math.Cos(3*y)
-		s5, c5, s9, c9 := math.Sin(5*y), math.Cos(5*y), math.Sin(9*y), math.Cos(9*y)
-		line := block[k*cols : (k+1)*cols]
-		for c := range line {
-			t := &f.col[c]
-			if t[0]*c3+0.6*(t[1]*c3+t[2]*s3) < -0.38 {
-				line[c] = 0
-				continue
-			}
-			line[c] = sc.Classify(0.8*t[3]*c2 + 0.5*(t[4]*c5+t[5]*s5) + 0.3*(t[7]*c9+t[6]*s9) + 0.2*s2)
 		}
 	}
 }

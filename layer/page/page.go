@@ -251,8 +251,8 @@ func pageData(in Input, extraJS string) (*pageView, error) {
 		}
 		stations = th.doc
 		if th.shown < th.total {
-			v.StationsTotal = pageGroup(strconv.Itoa(th.total))
-			v.StationsShown = pageGroup(strconv.Itoa(th.shown))
+			v.StationsTotal = layer.GroupThousands(strconv.Itoa(th.total))
+			v.StationsShown = layer.GroupThousands(strconv.Itoa(th.shown))
 			v.StationsHref = in.StationsHref
 		}
 	}
@@ -314,7 +314,7 @@ func pageHash(s string) string {
 
 // pageSlotMark is the mark of slot k in the template's text: it begins
 // with "<", which the template escapes in every text of the caller's and
-// pageEmbedJSON in every JSON document, so only a slot writes it.
+// pageWriteEscaped in every JSON document, so only a slot writes it.
 func pageSlotMark(k int) string { return "<drygrid-slot-" + strconv.Itoa(k) + ">" }
 
 // slot gives the template the mark of a JSON document written later by
@@ -328,7 +328,7 @@ func (v *pageView) slot(doc []byte) template.JS {
 }
 
 // writeSlots writes the template's text with each slot's mark replaced
-// by its document, escaped as pageEmbedJSON escapes it; every slot must be
+// by its document, escaped by pageWriteEscaped; every slot must be
 // written once.
 func (v *pageView) writeSlots(w io.Writer, text []byte) error {
 	const prefix = "<drygrid-slot-"
@@ -362,8 +362,10 @@ func (v *pageView) writeSlots(w io.Writer, text []byte) error {
 	return err
 }
 
-// pageWriteEscaped writes JSON as pageEmbedJSON returns it: "<" as
-// \u003c, U+2028 and U+2029 as their escapes.
+// pageWriteEscaped writes JSON safe inside a <script type="application/json">
+// block: "<" (which valid JSON holds only inside strings) becomes \u003c, so
+// no "</script" or "<!--" can end or confuse the block; U+2028 and U+2029 are
+// escaped too.
 func pageWriteEscaped(w io.Writer, b []byte) error {
 	for len(b) > 0 {
 		i := bytes.IndexAny(b, "<\u2028\u2029")
@@ -402,23 +404,6 @@ func pageCheckJSON(b []byte) ([]byte, error) {
 	return b, nil
 }
 
-// pageEmbedJSON checks that b is one JSON value and makes it safe inside a
-// <script type="application/json"> block: "<" (which valid JSON holds only
-// inside strings) becomes \u003c, so no "</script" or "<!--" can end or
-// confuse the block; U+2028 and U+2029 are escaped too. Empty input gives
-// null. The page writes its layers this way (writeSlots).
-func pageEmbedJSON(b []byte) (string, error) {
-	doc, err := pageCheckJSON(b)
-	if err != nil || doc == nil {
-		return "null", err
-	}
-	var sb strings.Builder
-	if err := pageWriteEscaped(&sb, doc); err != nil {
-		return "", err
-	}
-	return sb.String(), nil
-}
-
 // pageRangeText writes a band's range with the <= and >= signs.
 func pageRangeText(s string) string {
 	return strings.NewReplacer("<=", "≤", ">=", "≥").Replace(s)
@@ -437,28 +422,7 @@ func pageNum(v *float64, dec int) pageCell {
 	if v == nil {
 		return pageCell{Text: "–", Sort: ""}
 	}
-	return pageCell{Text: pageGroup(strconv.FormatFloat(*v, 'f', dec, 64)), Sort: strconv.FormatFloat(*v, 'g', -1, 64)}
-}
-
-// pageGroup puts thousands separators (commas, as English text does) into
-// a formatted number: 1234567.5 -> 1,234,567.5.
-func pageGroup(s string) string {
-	sign := ""
-	if strings.HasPrefix(s, "-") {
-		sign, s = "-", s[1:]
-	}
-	whole, frac := s, ""
-	if i := strings.IndexByte(s, '.'); i >= 0 {
-		whole, frac = s[:i], s[i:]
-	}
-	var b strings.Builder
-	for i, c := range whole {
-		if i > 0 && (len(whole)-i)%3 == 0 {
-			b.WriteByte(',')
-		}
-		b.WriteRune(c)
-	}
-	return sign + b.String() + frac
+	return pageCell{Text: layer.GroupThousands(strconv.FormatFloat(*v, 'f', dec, 64)), Sort: strconv.FormatFloat(*v, 'g', -1, 64)}
 }
 
 func pageMakeRow(r RegionRow, bands []pageBand) pageRow {

@@ -54,6 +54,49 @@ func pageBodyAttrs(t *testing.T, dom string) map[string]string {
 	return out
 }
 
+// pageWriteSelfCheck writes the page of in, with the self-check script
+// (pageSelfCheckJS) appended to its own, to path.
+func pageWriteSelfCheck(t *testing.T, path string, in Input) {
+	t.Helper()
+	var page bytes.Buffer
+	if err := pageEncode(&page, in, pageSelfCheckJS); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(path, page.Bytes(), 0o644); err != nil {
+		t.Fatal(err)
+	}
+}
+
+// pageDumpDOM opens file in Chromium (pageChromium) with --dump-dom and
+// gives the DOM after the page ran, its <body> attributes and Chromium's
+// log.
+func pageDumpDOM(t *testing.T, chromium, file string) (dom string, body map[string]string, logs string) {
+	t.Helper()
+	dom, logs = pageChromium(t, chromium, file, "--dump-dom")
+	return dom, pageBodyAttrs(t, dom), logs
+}
+
+// pageWantBody checks the <body> attributes a against want.
+func pageWantBody(t *testing.T, a, want map[string]string) {
+	t.Helper()
+	for k, w := range want {
+		if a[k] != w {
+			t.Errorf("body %s = %q, want %q (last error %q, last violation %q)", k, a[k], w, a["data-last-error"], a["data-last-violation"])
+		}
+	}
+}
+
+// pageQuietConsole fails on any console message, refused load or Content
+// Security Policy report in Chromium's log.
+func pageQuietConsole(t *testing.T, logs string) {
+	t.Helper()
+	for _, ln := range strings.Split(logs, "\n") {
+		if strings.Contains(ln, "CONSOLE") || strings.Contains(ln, "Refused to") || strings.Contains(ln, "Content Security Policy") {
+			t.Errorf("chromium console: %s", ln)
+		}
+	}
+}
+
 // TestPageInChromium opens map.html from disk in headless Chromium (Debian's
 // chromium package, the page's outside reference) and checks, from the DOM
 // Chromium dumps after running the page: the script rendered every layer
@@ -65,31 +108,19 @@ func TestPageInChromium(t *testing.T) {
 	chromium := reftest.Tool(t, "chromium")
 	f := layertest.NewFixture(t, 170, -25, -165, -10, 0.25) // crosses the antimeridian
 	in := pageFixtureInput(t, f)
-	dir := t.TempDir()
-	file := filepath.Join(dir, "map.html")
-	var page bytes.Buffer
-	if err := pageEncode(&page, in, pageSelfCheckJS); err != nil {
-		t.Fatal(err)
-	}
-	if err := os.WriteFile(file, page.Bytes(), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	dom, logs := pageChromium(t, chromium, file, "--dump-dom")
-	a := pageBodyAttrs(t, dom)
+	file := filepath.Join(t.TempDir(), "map.html")
+	pageWriteSelfCheck(t, file, in)
+	dom, a, logs := pageDumpDOM(t, chromium, file)
 	t.Logf("body attributes after the run: %v", a)
 
 	nStations := strings.Count(string(in.StationsGeoJSON), `"type":"Point"`)
 	nBands := strings.Count(string(in.BandsGeoJSON), `"type":"MultiPolygon"`)
-	for k, want := range map[string]string{
+	pageWantBody(t, a, map[string]string{
 		"data-rendered": "1", "data-errors": "0", "data-csp-violations": "0", "data-resources": "0",
 		"data-legend-shown": "10", // nine bands and the no-data entry
 		"data-bands-drawn":  strconv.Itoa(nBands), "data-stations-drawn": strconv.Itoa(nStations), "data-regions-drawn": "3",
 		"data-selfcheck": "1", "data-zoomed": "true",
-	} {
-		if a[k] != want {
-			t.Errorf("body %s = %q, want %q (last error %q, last violation %q)", k, a[k], want, a["data-last-error"], a["data-last-violation"])
-		}
-	}
+	})
 	if nBands != 9 {
 		t.Errorf("fixture draws %d bands, want all 9", nBands)
 	}
@@ -117,11 +148,7 @@ func TestPageInChromium(t *testing.T) {
 	if got := a["data-sorted"]; got != strings.Join(want, "|") {
 		t.Errorf("table sorted by in-drought share descending = %q, want %q", got, strings.Join(want, "|"))
 	}
-	for _, ln := range strings.Split(logs, "\n") {
-		if strings.Contains(ln, "CONSOLE") || strings.Contains(ln, "Refused to") || strings.Contains(ln, "Content Security Policy") {
-			t.Errorf("chromium console: %s", ln)
-		}
-	}
+	pageQuietConsole(t, logs)
 	if out := os.Getenv("DRYGRID_PAGE_OUT"); out != "" {
 		plain := filepath.Join(out, "map.html")
 		if err := WriteFile(plain, in); err != nil {

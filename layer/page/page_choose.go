@@ -1,6 +1,10 @@
 package page
 
-import "math"
+import (
+	"math"
+
+	"drygrid/grid"
+)
 
 // ChooseStations marks the stations a page of the grid bbox (Input.BBox)
 // carries of a station layer at positions (lons[i], lats[i]), in the
@@ -34,7 +38,7 @@ func ChooseStations(lons, lats []float64, limit int, bbox [4]float64) []bool {
 	pr := pageProjectionOf(bbox)
 	xs, ys := make([]float64, len(lons)), make([]float64, len(lats))
 	for i := range lons {
-		xs[i], ys[i] = pr.xy(pageLon(lons[i]), lats[i])
+		xs[i], ys[i] = pr.xy(grid.WrapLon(lons[i]), lats[i])
 	}
 	return pageChoose(xs, ys, limit)
 }
@@ -60,17 +64,4 @@ func (p pageProjection) xy(lon, lat float64) (float64, float64) {
 		lon += 360
 	}
 	return lon * p.kx, lat
-}
-
-// pageLon brings a longitude into [-180, 180] as geojson.EncodeStations
-// writes it (180 stays 180).
-func pageLon(lon float64) float64 {
-	if lon > 180 || lon < -180 {
-		lon = math.Mod(lon+180, 360)
-		if lon < 0 {
-			lon += 360
-		}
-		lon -= 180
-	}
-	return lon
 }

@@ -10,6 +10,7 @@ import (
 
 	"drygrid/bands"
 	"drygrid/internal/layertest"
+	"drygrid/layer"
 	"drygrid/layer/geojson"
 )
 
@@ -100,7 +101,7 @@ func TestChooseStationsSamePage(t *testing.T) {
 			if n := strings.Count(got, `"type":"Point"`); n != shown || shown > c.wantMax || shown < c.wantMax/4 {
 				t.Errorf("%d stations embedded, %d chosen, want %d..%d", n, shown, c.wantMax/4, c.wantMax)
 			}
-			note := pageGroup(strconv.Itoa(shown)) + " of " + pageGroup(strconv.Itoa(len(pts))) + " stations shown"
+			note := layer.GroupThousands(strconv.Itoa(shown)) + " of " + layer.GroupThousands(strconv.Itoa(len(pts))) + " stations shown"
 			if thinned := shown < len(pts); strings.Contains(got, note) != thinned || strings.Contains(got, `href="stations.geojson"`) != thinned {
 				t.Errorf("thinned %v, but the note %q / link present: %v / %v", thinned, note,
 					strings.Contains(got, note), strings.Contains(got, `href="stations.geojson"`))

@@ -5,7 +5,6 @@ import (
 	"crypto/sha256"
 	"encoding/base64"
 	"html"
-	"os"
 	"path/filepath"
 	"regexp"
 	"strings"
@@ -77,23 +76,12 @@ func TestPageFarInChromium(t *testing.T) {
 	in := pageFixtureInput(t, f)
 	in.FarGeoJSON, in.FarKm = []byte(pageFarDoc), 150
 	file := filepath.Join(t.TempDir(), "map.html")
-	var page bytes.Buffer
-	if err := pageEncode(&page, in, pageSelfCheckJS); err != nil {
-		t.Fatal(err)
-	}
-	if err := os.WriteFile(file, page.Bytes(), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	dom, logs := pageChromium(t, chromium, file, "--dump-dom")
-	a := pageBodyAttrs(t, dom)
-	for k, want := range map[string]string{
+	pageWriteSelfCheck(t, file, in)
+	dom, a, logs := pageDumpDOM(t, chromium, file)
+	pageWantBody(t, a, map[string]string{
 		"data-rendered": "1", "data-errors": "0", "data-csp-violations": "0", "data-resources": "0",
 		"data-far-drawn": "1", "data-selfcheck": "1", "data-zoomed": "true",
-	} {
-		if a[k] != want {
-			t.Errorf("body %s = %q, want %q (last error %q, last violation %q)", k, a[k], want, a["data-last-error"], a["data-last-violation"])
-		}
-	}
+	})
 	if !regexp.MustCompile(`<path [^>]*fill="url\(#far-hatch\)"[^>]*class="far"`).MatchString(dom) {
 		t.Error("no far path with the hatch pattern in the rendered page")
 	}
@@ -104,9 +92,5 @@ func TestPageFarInChromium(t *testing.T) {
 	if !strings.Contains(dom, `<span class="legend-label">Nearest station over 150 km</span>`) {
 		t.Error("legend entry missing from the rendered page")
 	}
-	for _, ln := range strings.Split(logs, "\n") {
-		if strings.Contains(ln, "CONSOLE") || strings.Contains(ln, "Refused to") || strings.Contains(ln, "Content Security Policy") {
-			t.Errorf("chromium console: %s", ln)
-		}
-	}
+	pageQuietConsole(t, logs)
 }

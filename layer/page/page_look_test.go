@@ -53,15 +53,6 @@ func TestPageLook(t *testing.T) {
 // screenshot of a tooltip, and checks it as TestPageLook does.
 func TestPageLookHover(t *testing.T) {
 	path := filepath.Join(layertest.LookDir(t, "DRYGRID_PAGE_OUT"), "hover.html")
-	f, err := os.Create(path)
-	if err != nil {
-		t.Fatal(err)
-	}
-	if err := pageEncode(f, pageFixtureInput(t, layertest.NewFixture(t, 164, -48, 178, -34, 0.25)), pageSelfCheckJS); err != nil {
-		t.Fatal(err)
-	}
-	if err := f.Close(); err != nil {
-		t.Fatal(err)
-	}
+	pageWriteSelfCheck(t, path, pageFixtureInput(t, layertest.NewFixture(t, 164, -48, 178, -34, 0.25)))
 	lookPage(t, path)
 }

@@ -120,9 +120,12 @@ func pageChoose(xs, ys []float64, limit int) []bool {
 	if limit <= 0 {
 		return keep
 	}
+	valid := func(i int) bool {
+		return !math.IsNaN(xs[i]) && !math.IsNaN(ys[i]) && !math.IsInf(xs[i], 0) && !math.IsInf(ys[i], 0)
+	}
 	x0, y0, x1, y1 := math.Inf(1), math.Inf(1), math.Inf(-1), math.Inf(-1)
 	for i := range xs {
-		if !math.IsNaN(xs[i]) && !math.IsNaN(ys[i]) && !math.IsInf(xs[i], 0) && !math.IsInf(ys[i], 0) {
+		if valid(i) {
 			x0, y0, x1, y1 = math.Min(x0, xs[i]), math.Min(y0, ys[i]), math.Max(x1, xs[i]), math.Max(y1, ys[i])
 		}
 	}
@@ -133,9 +136,6 @@ func pageChoose(xs, ys []float64, limit int) []bool {
 	cellOf := func(i int, d float64) (int64, float64, float64) {
 		cx, cy := math.Floor((xs[i]-x0)/d), math.Floor((ys[i]-y0)/d)
 		return int64(cx)<<32 ^ int64(cy), x0 + (cx+0.5)*d, y0 + (cy+0.5)*d
-	}
-	valid := func(i int) bool {
-		return !math.IsNaN(xs[i]) && !math.IsNaN(ys[i]) && !math.IsInf(xs[i], 0) && !math.IsInf(ys[i], 0)
 	}
 	occupied := func(d float64) int { // stops counting past limit
 		seen := map[int64]struct{}{}

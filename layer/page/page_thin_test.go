@@ -13,6 +13,7 @@ import (
 
 	"drygrid/internal/layertest"
 	"drygrid/internal/reftest"
+	"drygrid/layer"
 )
 
 // pageManyStations invents n stations over the fixture's grid (a fixed
@@ -75,7 +76,7 @@ func TestPageThinsStations(t *testing.T) {
 	if n > DefaultMaxStations || n < DefaultMaxStations/4 || doc.Type != "FeatureCollection" || doc.Date != "2026-11-30" {
 		t.Errorf("embedded %d stations (want %d..%d), type %q, date %q", n, DefaultMaxStations/4, DefaultMaxStations, doc.Type, doc.Date)
 	}
-	for _, want := range []string{pageGroup(strconv.Itoa(n)) + " of 500,000 stations shown", `<a href="stations.geojson">stations.geojson</a>`, in.Produced} {
+	for _, want := range []string{layer.GroupThousands(strconv.Itoa(n)) + " of 500,000 stations shown", `<a href="stations.geojson">stations.geojson</a>`, in.Produced} {
 		if !strings.Contains(page, want) {
 			t.Errorf("page lacks %q", want)
 		}
@@ -106,22 +107,13 @@ func TestPageThinnedInChromium(t *testing.T) {
 	}
 	page, _ := os.ReadFile(file)
 	shown := strings.Count(string(page), `"type":"Point"`)
-	dom, logs := pageChromium(t, chromium, file, "--dump-dom")
-	a := pageBodyAttrs(t, dom)
-	for k, want := range map[string]string{
+	dom, a, logs := pageDumpDOM(t, chromium, file)
+	pageWantBody(t, a, map[string]string{
 		"data-rendered": "1", "data-errors": "0", "data-csp-violations": "0", "data-resources": "0",
 		"data-stations-drawn": strconv.Itoa(shown),
-	} {
-		if a[k] != want {
-			t.Errorf("body %s = %q, want %q (last error %q)", k, a[k], want, a["data-last-error"])
-		}
-	}
+	})
 	if shown > DefaultMaxStations || !strings.Contains(dom, `href="stations.geojson"`) {
 		t.Errorf("%d stations embedded; link in the DOM: %v", shown, strings.Contains(dom, `href="stations.geojson"`))
 	}
-	for _, ln := range strings.Split(logs, "\n") {
-		if strings.Contains(ln, "CONSOLE") || strings.Contains(ln, "Refused to") || strings.Contains(ln, "Content Security Policy") {
-			t.Errorf("chromium console: %s", ln)
-		}
-	}
+	pageQuietConsole(t, logs)
 }

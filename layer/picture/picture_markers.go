@@ -1,6 +1,7 @@
 package picture
 
 import (
+	"drygrid/layer"
 	"fmt"
 	"image"
 	"math"
@@ -149,31 +150,14 @@ func picThin(all []picMarker, size int) []picMarker {
 	return out
 }
 
-// picGroup writes n with thousands separators: 20000 -> "20,000".
-func picGroup(n int) string {
-	s := strconv.Itoa(n)
-	neg := ""
-	if n < 0 {
-		neg, s = "-", s[1:]
-	}
-	var b []byte
-	for i := range s {
-		if i > 0 && (len(s)-i)%3 == 0 {
-			b = append(b, ',')
-		}
-		b = append(b, s[i])
-	}
-	return neg + string(b)
-}
-
 // picStationLabel labels the station symbol with the count drawn and, when
 // fewer than all are marked, the count inside the grid.
 func picStationLabel(drawn, inside int) string {
 	switch {
 	case drawn < inside:
-		return fmt.Sprintf("Stations (%s of %s shown)", picGroup(drawn), picGroup(inside))
+		return fmt.Sprintf("Stations (%s of %s shown)", layer.GroupThousands(strconv.Itoa(drawn)), layer.GroupThousands(strconv.Itoa(inside)))
 	case drawn == 1:
 		return "Station (1)"
 	}
-	return fmt.Sprintf("Stations (%s)", picGroup(drawn))
+	return fmt.Sprintf("Stations (%s)", layer.GroupThousands(strconv.Itoa(drawn)))
 }

@@ -1,6 +1,7 @@
 package picture
 
 import (
+	"drygrid/layer"
 	"image"
 	"image/draw"
 	"math"
@@ -58,7 +59,7 @@ func picNiceKm(kmPerPx, maxPx float64) float64 {
 // picKmText writes a length in km without trailing zeros (0.5, 20, 1000).
 func picKmText(v float64) string {
 	if v >= 1000 {
-		return picGroup(int(math.Round(v)))
+		return layer.GroupThousands(strconv.Itoa(int(math.Round(v))))
 	}
 	return strconv.FormatFloat(v, 'f', -1, 64)
 }
