@@ -128,10 +128,7 @@ func WriteIndexBandsRows(indexPath, bandsPath string, spec grid.Spec, nodata flo
 	if err := publish.WriteFile(bandsPath, func(w *bufio.Writer) error { return tiffWrite(w, st.bimg, opt) }); err != nil {
 		return err
 	}
-	return publish.WriteFile(bandsPath+".aux.xml", func(w *bufio.Writer) error {
-		_, err := w.WriteString(CategoryAux(s, 0))
-		return err
-	})
+	return writeAux(bandsPath, s, 0)
 }
 
 // tiffIndexImage is the image description of an index raster on spec
