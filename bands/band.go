@@ -1,7 +1,6 @@
 package bands
 
 import (
-	"fmt"
 	"image/color"
 	"math"
 	"strconv"
@@ -68,23 +67,9 @@ func parseHexColor(s string) (color.RGBA, bool) {
 	return color.RGBA{v[0], v[1], v[2], 255}, true
 }
 
-// Range describes the band's z interval, e.g. "-2.0 < z <= -1.5".
-func (b Band) Range() string {
-	lo, hi := "<", "<"
-	if b.MinInclusive {
-		lo = "<="
-	}
-	if b.MaxInclusive {
-		hi = "<="
-	}
-	switch {
-	case math.IsInf(b.Min, -1):
-		return fmt.Sprintf("z %s %s", hi, cutText(b.Max))
-	case math.IsInf(b.Max, 1):
-		return fmt.Sprintf("z %s %s", map[string]string{"<": ">", "<=": ">="}[lo], cutText(b.Min))
-	}
-	return fmt.Sprintf("%s %s z %s %s", cutText(b.Min), lo, hi, cutText(b.Max))
-}
+// Range describes the band's z interval, e.g. "-2.0 < z <= -1.5" ("any z"
+// for a band open at both ends).
+func (b Band) Range() string { return rangeText(b, "z", cutText) }
 
 // cutText prints a cut point with at least one decimal ("-2.0") and as many
 // as it needs ("-1.25"), so a legend never rounds a custom cut away.

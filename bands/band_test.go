@@ -210,3 +210,15 @@ func TestPercentileIntoBands(t *testing.T) {
 		}
 	}
 }
+
+// TestRangeOpenBothEnds: a band open at both ends is described as any
+// value, in every unit.
+func TestRangeOpenBothEnds(t *testing.T) {
+	b := Band{Min: math.Inf(-1), Max: math.Inf(1)}
+	if got, want := b.Range(), "any z"; got != want {
+		t.Errorf("Range: %q, want %q", got, want)
+	}
+	if got, want := b.RangeIn(UnitPercentile), "any p"; got != want {
+		t.Errorf("RangeIn(percentile): %q, want %q", got, want)
+	}
+}

@@ -111,9 +111,15 @@ func WriteBands(path string, r *grid.Uint8, s *bands.Scheme, opt Options) error 
 	if err := publish.WriteFile(path, func(w *bufio.Writer) error { return EncodeBands(w, r, s, opt) }); err != nil {
 		return err
 	}
-	aux := path + ".aux.xml"
-	return publish.WriteFile(aux, func(w *bufio.Writer) error {
-		_, err := w.WriteString(CategoryAux(s, r.NoData))
+	return writeAux(path, s, r.NoData)
+}
+
+// writeAux writes the GDAL PAM sidecar of the band raster at path
+// (path+".aux.xml", CategoryAux) through a temporary file renamed at the
+// end.
+func writeAux(path string, s *bands.Scheme, nodata uint8) error {
+	return publish.WriteFile(path+".aux.xml", func(w *bufio.Writer) error {
+		_, err := w.WriteString(CategoryAux(s, nodata))
 		return err
 	})
 }

@@ -2,8 +2,9 @@ package geotiff
 
 import (
 	"fmt"
-	"runtime"
 	"time"
+
+	"drygrid/internal/pool"
 
 	"github.com/klauspost/compress/zlib"
 )
@@ -98,9 +99,7 @@ func tiffNormalize(opt Options) (Options, error) {
 	if opt.Level < zlib.BestSpeed || opt.Level > zlib.BestCompression {
 		return opt, fmt.Errorf("geotiff: deflate level %d must be between 1 and 9", opt.Level)
 	}
-	if opt.Workers <= 0 {
-		opt.Workers = runtime.GOMAXPROCS(0)
-	}
+	opt.Workers = pool.Workers(opt.Workers)
 	if opt.BigTIFF < -1 || opt.BigTIFF > 1 {
 		return opt, fmt.Errorf("geotiff: BigTIFF %d must be -1, 0 or 1", opt.BigTIFF)
 	}

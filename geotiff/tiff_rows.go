@@ -43,30 +43,11 @@ func EncodeIndexRows(w io.Writer, spec grid.Spec, nodata float32, produce RowFun
 // only when bands is. Both files are written after the last row is
 // produced, index first.
 func EncodeIndexBandsRows(index, bands io.Writer, spec grid.Spec, nodata float32, s *bands.Scheme, produce RowFunc, opt Options) error {
-	if produce == nil {
-		return errors.New("geotiff: nil row function")
-	}
-	if index == nil && bands == nil {
-		return errors.New("geotiff: no output for the rows")
-	}
-	if bands != nil && s == nil {
-		return errors.New("geotiff: a band file asked for without a scheme")
-	}
-	if err := tiffCheckSpec(spec, spec.Cols*spec.Rows); err != nil {
-		return err
-	}
-	opt, err := tiffNormalize(opt)
-	if err != nil {
-		return err
-	}
-	st, err := newTiffRowState(spec, nodata, s, index != nil, bands != nil, opt)
+	st, opt, err := runRows(index != nil, bands != nil, spec, nodata, s, produce, opt)
 	if err != nil {
 		return err
 	}
 	defer st.close()
-	if err := st.run(produce); err != nil {
-		return err
-	}
 	if index != nil {
 		if err := tiffWrite(index, st.fimg, opt); err != nil {
 			return err
@@ -76,6 +57,35 @@ func EncodeIndexBandsRows(index, bands io.Writer, spec grid.Spec, nodata float32
 		return tiffWrite(bands, st.bimg, opt)
 	}
 	return nil
+}
+
+// runRows is the row encoders' common part: it checks the arguments,
+// normalises opt and runs produce through a new tiffRowState building the
+// index image (wantIndex) and the band image (wantBands). The caller
+// writes st.fimg and st.bimg with the options returned and closes st.
+func runRows(wantIndex, wantBands bool, spec grid.Spec, nodata float32, s *bands.Scheme, produce RowFunc, opt Options) (*tiffRowState, Options, error) {
+	if produce == nil {
+		return nil, opt, errors.New("geotiff: nil row function")
+	}
+	if !wantIndex && !wantBands {
+		return nil, opt, errors.New("geotiff: no output for the rows")
+	}
+	if wantBands && s == nil {
+		return nil, opt, errors.New("geotiff: a band file asked for without a scheme")
+	}
+	if err := tiffCheckSpec(spec, spec.Cols*spec.Rows); err != nil {
+		return nil, opt, err
+	}
+	opt, err := tiffNormalize(opt)
+	if err != nil {
+		return nil, opt, err
+	}
+	st := newTiffRowState(spec, nodata, s, wantIndex, wantBands, opt)
+	if err := st.run(produce); err != nil {
+		st.close()
+		return nil, opt, err
+	}
+	return st, opt, nil
 }
 
 // WriteIndexRows writes EncodeIndexRows's output to path through a
@@ -96,30 +106,17 @@ func WriteIndexBandsRows(indexPath, bandsPath string, spec grid.Spec, nodata flo
 	if indexPath == "" && bandsPath == "" {
 		return errors.New("geotiff: no output path for the rows")
 	}
-	if bandsPath != "" && s == nil {
-		return errors.New("geotiff: a band file asked for without a scheme")
-	}
-	if err := tiffCheckSpec(spec, spec.Cols*spec.Rows); err != nil {
-		return err
-	}
-	opt, err := tiffNormalize(opt)
-	if err != nil {
-		return err
-	}
 	if opt.SpillDir == "" {
 		opt.SpillDir = filepath.Dir(indexPath)
 		if indexPath == "" {
 			opt.SpillDir = filepath.Dir(bandsPath)
 		}
 	}
-	st, err := newTiffRowState(spec, nodata, s, indexPath != "", bandsPath != "", opt)
+	st, opt, err := runRows(indexPath != "", bandsPath != "", spec, nodata, s, produce, opt)
 	if err != nil {
 		return err
 	}
 	defer st.close()
-	if err := st.run(produce); err != nil {
-		return err
-	}
 	if indexPath != "" {
 		if err := publish.WriteFile(indexPath, func(w *bufio.Writer) error { return tiffWrite(w, st.fimg, opt) }); err != nil {
 			return err
@@ -131,10 +128,7 @@ func WriteIndexBandsRows(indexPath, bandsPath string, spec grid.Spec, nodata flo
 	if err := publish.WriteFile(bandsPath, func(w *bufio.Writer) error { return tiffWrite(w, st.bimg, opt) }); err != nil {
 		return err
 	}
-	return publish.WriteFile(bandsPath+".aux.xml", func(w *bufio.Writer) error {
-		_, err := w.WriteString(CategoryAux(s, 0))
-		return err
-	})
+	return writeAux(bandsPath, s, 0)
 }
 
 // tiffIndexImage is the image description of an index raster on spec
@@ -193,7 +187,7 @@ type tiffRowState struct {
 // from the first tile.
 var tiffMemoryTiles int64 = 32 << 20
 
-func newTiffRowState(spec grid.Spec, nodata float32, s *bands.Scheme, wantIndex, wantBands bool, opt Options) (*tiffRowState, error) {
+func newTiffRowState(spec grid.Spec, nodata float32, s *bands.Scheme, wantIndex, wantBands bool, opt Options) *tiffRowState {
 	st := &tiffRowState{spec: spec, t: opt.TileSize, nodata: nodata, opt: opt, spillDir: opt.SpillDir}
 	var sizes [][2]int
 	if opt.Overviews {
@@ -223,7 +217,7 @@ func newTiffRowState(spec grid.Spec, nodata float32, s *bands.Scheme, wantIndex,
 			st.bov = append(st.bov, newTiffModeAcc(sz[0], 2<<k, st.t, m))
 		}
 	}
-	return st, nil
+	return st
 }
 
 // close removes the spill file.

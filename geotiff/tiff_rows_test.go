@@ -186,6 +186,7 @@ func TestTIFFRowsErrors(t *testing.T) {
 		EncodeIndexRows(&bytes.Buffer{}, grid.Spec{Res: 1}, -9999, ok, DefaultOptions()),
 		EncodeIndexRows(&bytes.Buffer{}, spec, -9999, ok, Options{TileSize: 17}),
 		WriteIndexBandsRows("", "", spec, -9999, nil, ok, DefaultOptions()),
+		WriteIndexRows(filepath.Join(t.TempDir(), "index.tif"), spec, -9999, nil, DefaultOptions()),
 	}
 	for i, err := range bad {
 		if err == nil {

@@ -99,14 +99,5 @@ func (ip *Interpolator) leaveBlockOut(c *cands, q Point, blockOf []int32, own in
 			kept++
 		}
 	}
-	cx, cy, cz := unitVector(q.Lon, q.Lat)
-	v, used, ok := ip.estimateAt(c, kept, q.Lon, q.Lat, cx, cy, cz)
-	r := Residual{Predicted: math.NaN(), Observed: q.Z, N: used, Counted: ok}
-	if ok {
-		r.Predicted = v
-		if classify != nil {
-			r.PredictedBand, r.ObservedBand = classify(v), classify(q.Z)
-		}
-	}
-	return r
+	return ip.residualAt(c, kept, q, classify)
 }

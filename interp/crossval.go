@@ -104,6 +104,13 @@ func (ip *Interpolator) leaveOneOut(c *cands, q Point, self int32, classify func
 			break
 		}
 	}
+	return ip.residualAt(c, m, q, classify)
+}
+
+// residualAt predicts station q from the first m candidates in c (the
+// others once q's own are taken out) and gives the residual, with the
+// bands of both values when classify is not nil.
+func (ip *Interpolator) residualAt(c *cands, m int, q Point, classify func(z float64) uint8) Residual {
 	cx, cy, cz := unitVector(q.Lon, q.Lat)
 	v, used, ok := ip.estimateAt(c, m, q.Lon, q.Lat, cx, cy, cz)
 	r := Residual{Predicted: math.NaN(), Observed: q.Z, N: used, Counted: ok}

@@ -36,16 +36,9 @@ func (ip *Interpolator) Grid(spec grid.Spec, progress func(rowsDone, rows int)) 
 // after each row as Grid documents.
 func (ip *Interpolator) rows(spec grid.Spec, row0, n int, dst []float32, progress func(rowsDone, rows int)) {
 	colLon, colCos, colSin := rowsColumns(spec)
-	works := make([]*rowWork, pool.Count(n, ip.p.Workers, 1))
 	var mu sync.Mutex
 	done := 0
-	pool.Run(n, ip.p.Workers, 1, func(wk, i, _ int) {
-		w := works[wk]
-		if w == nil {
-			w = ip.getRowWork()
-			works[wk] = w
-		}
-		_, lat := spec.Center(0, row0+i)
+	ip.eachRow(spec, row0, n, func(w *rowWork, i int, lat float64) {
 		ip.gridRow(w, lat, spec.Res, colLon, colCos, colSin, dst[i*spec.Cols:(i+1)*spec.Cols])
 		if progress != nil {
 			mu.Lock()
@@ -53,6 +46,23 @@ func (ip *Interpolator) rows(spec grid.Spec, row0, n int, dst []float32, progres
 			progress(done, n)
 			mu.Unlock()
 		}
+	})
+}
+
+// eachRow calls fn for rows row0 .. row0+n-1 of spec (i counting them from
+// 0, lat the row's centre latitude), spread over Params.Workers goroutines
+// (internal/pool), each with its own scratch space w, taken from ip.work
+// and put back at the end.
+func (ip *Interpolator) eachRow(spec grid.Spec, row0, n int, fn func(w *rowWork, i int, lat float64)) {
+	works := make([]*rowWork, pool.Count(n, ip.p.Workers, 1))
+	pool.Run(n, ip.p.Workers, 1, func(wk, i, _ int) {
+		w := works[wk]
+		if w == nil {
+			w = ip.getRowWork()
+			works[wk] = w
+		}
+		_, lat := spec.Center(0, row0+i)
+		fn(w, i, lat)
 	})
 	for _, w := range works {
 		if w != nil {

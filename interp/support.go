@@ -5,7 +5,6 @@ import (
 	"math"
 
 	"drygrid/grid"
-	"drygrid/internal/pool"
 )
 
 // MaxSupportCount is the largest station count Support writes: a cell that
@@ -49,15 +48,8 @@ func (ip *Interpolator) Support(spec grid.Spec, row0, n int, dist []float32, cou
 		return nil
 	}
 	colLon, colCos, colSin := rowsColumns(spec)
-	works := make([]*rowWork, pool.Count(n, ip.p.Workers, 1))
 	cols := spec.Cols
-	pool.Run(n, ip.p.Workers, 1, func(wk, i, _ int) {
-		w := works[wk]
-		if w == nil {
-			w = ip.getRowWork()
-			works[wk] = w
-		}
-		_, lat := spec.Center(0, row0+i)
+	ip.eachRow(spec, row0, n, func(w *rowWork, i int, lat float64) {
 		var d []float32
 		var c []uint16
 		if dist != nil {
@@ -68,11 +60,6 @@ func (ip *Interpolator) Support(spec grid.Spec, row0, n int, dist []float32, cou
 		}
 		ip.supportRow(w, lat, colLon, colCos, colSin, d, c)
 	})
-	for _, w := range works {
-		if w != nil {
-			ip.work.Put(w)
-		}
-	}
 	return nil
 }
 

@@ -18,7 +18,7 @@ func TestADStatisticSciPy(t *testing.T) {
 		idxBimodal(24, 40),
 	}
 	var ref []struct{ Shape, Scale, A2 float64 }
-	spitest.RunRef(t, spitest.Script, &ref, samples, "fit")
+	spitest.RunRef(t, &ref, samples, "fit")
 	for i, x := range samples {
 		shape, scale, err := GammaFit(x)
 		if err != nil {
@@ -48,7 +48,7 @@ func TestADCriticalValuesSciPy(t *testing.T) {
 			FittedShape float64 `json:"fitted_shape"`
 		}
 		in := map[string]any{"shape": shape, "scale": 10, "n": 100, "nmc": 2000, "seed": 100 + i}
-		spitest.RunRef(t, spitest.Script, &ref, in, "adnull")
+		spitest.RunRef(t, &ref, in, "adnull")
 		got := ADCritical5(ref.FittedShape)
 		t.Logf("shape %.3f: table 5 %% point %.3f, SciPy bootstrap %.3f", ref.FittedShape, got, ref.Crit5)
 		if math.Abs(got-ref.Crit5) > 0.04 {
@@ -74,7 +74,7 @@ func TestADCriticalValuesBootstrap(t *testing.T) {
 			SE    float64 `json:"se"`
 		} `json:"points"`
 	}
-	spitest.RunRef(t, spitest.Script, &ref, map[string]any{"shapes": shapes, "n": 100, "nmc": 20000, "seed": 2026}, "adtable")
+	spitest.RunRef(t, &ref, map[string]any{"shapes": shapes, "n": 100, "nmc": 20000, "seed": 2026}, "adtable")
 	if len(ref.Points) != len(shapes) {
 		t.Fatalf("%d points for %d shapes", len(ref.Points), len(shapes))
 	}

@@ -22,7 +22,7 @@ func TestSPISciPy(t *testing.T) {
 		{95, 50, 2, 0}, {140, 50, 2, 0.05}, {1e-3, 3, 5, 0.1},
 	}
 	var ref []float64
-	spitest.RunRef(t, spitest.Script, &ref, cases, "spi")
+	spitest.RunRef(t, &ref, cases, "spi")
 	for i, c := range cases {
 		got := SPI(c.X, c.Shape, c.Scale, c.Q)
 		if math.Abs(got-ref[i]) > 1e-9 {

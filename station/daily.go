@@ -5,6 +5,7 @@ import (
 	"math"
 	"sort"
 	"strconv"
+	"strings"
 )
 
 // Column aliases of the daily precipitation table (the station id column
@@ -118,7 +119,7 @@ func (o DailyOptions) plan() (*dailyPlan, error) {
 		return nil, fmt.Errorf("daily: units %q are not %s, %s or %s", o.Units, UnitMM, UnitTenthMM, UnitInch)
 	}
 	for _, f := range o.ExcludeFlags {
-		p.flags = append(p.flags, []byte(trimASCII(f)))
+		p.flags = append(p.flags, []byte(strings.TrimSpace(f)))
 	}
 	years := tYear - MinTotalYear + 1
 	p.ends = make([]Day, years)

@@ -24,7 +24,6 @@ type pqCol struct {
 	pages parquet.Pages
 	vr    parquet.ValueReader
 	buf   []parquet.Value
-	kind  parquet.Kind
 }
 
 // fill reads exactly len(c.buf[:n]) values.
@@ -170,16 +169,16 @@ func readDailyParquet(name string, f io.ReaderAt, size int64, p *dailyPlan, opt 
 		}
 	}
 	var idText []byte
+	vals := make([][]parquet.Value, len(used))
 	for _, rg := range pf.RowGroups() {
 		chunks := rg.ColumnChunks()
 		cols := make([]*pqCol, len(used))
 		for k := range used {
-			cols[k] = &pqCol{pages: chunks[leaf[k]].Pages(), kind: kinds[k], buf: make([]parquet.Value, dailyParquetBatch)}
+			cols[k] = &pqCol{pages: chunks[leaf[k]].Pages(), buf: make([]parquet.Value, dailyParquetBatch)}
 		}
 		n := rg.NumRows()
 		for done := int64(0); done < n; {
 			m := int(min(int64(dailyParquetBatch), n-done))
-			vals := make([][]parquet.Value, len(cols))
 			for k, c := range cols {
 				if vals[k], err = c.fill(m); err != nil {
 					return nil, fmt.Errorf("daily %s row %d column %d (%s): reading Parquet: %w", name, d.lineNo+1, used[k]+1, names[used[k]], err)

@@ -725,6 +725,3 @@ func dailyBlank(f [][]byte) bool {
 func dailyNA(b []byte) bool {
 	return len(b) <= 4 && IsMissing(string(b))
 }
-
-// trimASCII trims white space from a string.
-func trimASCII(s string) string { return strings.TrimSpace(s) }

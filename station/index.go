@@ -7,7 +7,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"runtime"
 	"sort"
 	"strconv"
 	"strings"
@@ -256,10 +255,7 @@ const idxSpecQueue = 4096
 
 func idxStartSpec(sites []idxSite, opt IndexOptions) *idxSpec {
 	sp := &idxSpec{rows: make([]IndexRow, len(sites)), fixed: opt.Year}
-	workers := opt.Workers
-	if workers <= 0 {
-		workers = runtime.GOMAXPROCS(0)
-	}
+	workers := pool.Workers(opt.Workers)
 	if workers < 2 {
 		sp.stopped = true
 		return sp

@@ -63,7 +63,7 @@ func TestIndexSciPy(t *testing.T) {
 			return r
 		}
 		var ref []idxRefRow
-		spitest.RunRef(t, spitest.Script, &ref, nil, args...)
+		spitest.RunRef(t, &ref, nil, args...)
 		refs[key] = ref
 		return ref
 	}

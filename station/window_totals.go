@@ -41,33 +41,14 @@ func FormatTotal(t WindowTotal) string {
 // (empty when missing) and then one column per window with the number of
 // days reported.
 func WriteWindowTotalsCSV(w io.Writer, r *WindowTotals) error {
-	bw := bufio.NewWriterSize(w, 64<<10)
-	cw := csv.NewWriter(bw)
-	if err := cw.Write(WindowTotalsColumns(r.Windows)); err != nil {
-		return err
-	}
 	nw := len(r.Windows)
-	rec := make([]string, 2+2*nw)
-	for i := range r.Stations {
-		s := &r.Stations[i]
-		rec[0] = s.ID
-		for y := s.FirstYear; y <= s.LastYear; y++ {
-			rec[1] = strconv.Itoa(y)
-			for k := range nw {
-				t := r.Total(s, y, k)
-				rec[2+k] = FormatTotal(t)
-				rec[2+nw+k] = strconv.Itoa(t.Reported)
-			}
-			if err := cw.Write(rec); err != nil {
-				return err
-			}
+	return writeStationYearsCSV(w, r, WindowTotalsColumns(r.Windows), func(rest []string, s *StationTotals, y int) {
+		for k := range nw {
+			t := r.Total(s, y, k)
+			rest[k] = FormatTotal(t)
+			rest[nw+k] = strconv.Itoa(t.Reported)
 		}
-	}
-	cw.Flush()
-	if err := cw.Error(); err != nil {
-		return err
-	}
-	return bw.Flush()
+	})
 }
 
 // WriteIndexTotalsCSV writes the totals of the window of n days (one of
@@ -80,18 +61,27 @@ func WriteIndexTotalsCSV(w io.Writer, r *WindowTotals, n int) error {
 	if k < 0 {
 		return fmt.Errorf("no window of %d days (the windows are %v)", n, r.Windows)
 	}
+	return writeStationYearsCSV(w, r, IndexTotalsColumns, func(rest []string, s *StationTotals, y int) {
+		rest[0] = FormatTotal(r.Total(s, y, k))
+	})
+}
+
+// writeStationYearsCSV writes header and then one row per station and
+// year of r (stations in order, years ascending): the station's id, the
+// year and the columns after them, which fill sets.
+func writeStationYearsCSV(w io.Writer, r *WindowTotals, header []string, fill func(rest []string, s *StationTotals, y int)) error {
 	bw := bufio.NewWriterSize(w, 64<<10)
 	cw := csv.NewWriter(bw)
-	if err := cw.Write(IndexTotalsColumns); err != nil {
+	if err := cw.Write(header); err != nil {
 		return err
 	}
-	rec := make([]string, 3)
+	rec := make([]string, len(header))
 	for i := range r.Stations {
 		s := &r.Stations[i]
 		rec[0] = s.ID
 		for y := s.FirstYear; y <= s.LastYear; y++ {
 			rec[1] = strconv.Itoa(y)
-			rec[2] = FormatTotal(r.Total(s, y, k))
+			fill(rec[2:], s, y)
 			if err := cw.Write(rec); err != nil {
 				return err
 			}

@@ -26,8 +26,8 @@ func Run(n, workers, chunk int, fn func(w, lo, hi int)) {
 		return
 	}
 	chunk = max(chunk, 1)
-	workers = min(Workers(workers), (n+chunk-1)/chunk)
-	if workers <= 1 {
+	workers = Count(n, workers, chunk)
+	if workers == 1 {
 		for lo := 0; lo < n; lo += chunk {
 			fn(0, lo, min(lo+chunk, n))
 		}
@@ -36,9 +36,7 @@ func Run(n, workers, chunk int, fn func(w, lo, hi int)) {
 	var next atomic.Int64
 	var wg sync.WaitGroup
 	for w := range workers {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
+		wg.Go(func() {
 			for {
 				lo := int(next.Add(int64(chunk))) - chunk
 				if lo >= n {
@@ -46,7 +44,7 @@ func Run(n, workers, chunk int, fn func(w, lo, hi int)) {
 				}
 				fn(w, lo, min(lo+chunk, n))
 			}
-		}()
+		})
 	}
 	wg.Wait()
 }

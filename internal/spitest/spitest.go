@@ -19,10 +19,10 @@ import (
 // directory of a package one level below the module's root (spi, station).
 const Script = "../testdata/spi_ref.py"
 
-// RunRef runs the SciPy reference script (testdata/spi_ref.py, given as a
-// path from the test's package) in the mode args name, with in as JSON on
-// stdin (or nothing when nil), and decodes its JSON answer into out.
-func RunRef(t *testing.T, script string, out any, in any, args ...string) {
+// RunRef runs the SciPy reference script (Script) in the mode args name,
+// with in as JSON on stdin (or nothing when nil), and decodes its JSON
+// answer into out.
+func RunRef(t *testing.T, out any, in any, args ...string) {
 	t.Helper()
 	py := reftest.Python(t, "numpy", "scipy.stats")
 	var stdin []byte
@@ -33,9 +33,9 @@ func RunRef(t *testing.T, script string, out any, in any, args ...string) {
 		}
 		stdin = b
 	}
-	b := reftest.RunPython(t, py, script, stdin, args...)
+	b := reftest.RunPython(t, py, Script, stdin, args...)
 	if err := json.Unmarshal(b, out); err != nil {
-		t.Fatalf("decoding %s output: %v\n%s", script, err, b)
+		t.Fatalf("decoding %s output: %v\n%s", Script, err, b)
 	}
 }
 
