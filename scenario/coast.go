@@ -2,6 +2,7 @@ package scenario
 
 import (
 	"bufio"
+	"encoding/json"
 	"hash/fnv"
 	"io"
 	"math"
@@ -49,7 +50,11 @@ func (s *Scenario) WriteCoastGeoJSON(w io.Writer) error {
 		if i > 0 {
 			bw.WriteString(",")
 		}
-		bw.WriteString("\n" + `{"type":"Feature","properties":{"name":` + strconv.Quote(is.Name) + `,"invented":true},"geometry":{"type":"Polygon","coordinates":[[`)
+		name, err := json.Marshal(is.Name) // JSON's string escaping (strconv.Quote is Go's)
+		if err != nil {
+			return err
+		}
+		bw.WriteString("\n" + `{"type":"Feature","properties":{"name":` + string(name) + `,"invented":true},"geometry":{"type":"Polygon","coordinates":[[`)
 		pts := is.Coast(coastPoints)
 		pts = append(pts, pts[0])
 		for k, p := range pts {
