@@ -170,18 +170,21 @@ func readDailyParquet(name string, f io.ReaderAt, size int64, p *dailyPlan, opt 
 	}
 	var idText []byte
 	vals := make([][]parquet.Value, len(used))
-	for _, rg := range pf.RowGroups() {
+	// One row group at a time, its column pages closed when it is done or
+	// fails.
+	rowGroup := func(rg parquet.RowGroup) error {
 		chunks := rg.ColumnChunks()
 		cols := make([]*pqCol, len(used))
 		for k := range used {
 			cols[k] = &pqCol{pages: chunks[leaf[k]].Pages(), buf: make([]parquet.Value, dailyParquetBatch)}
+			defer cols[k].pages.Close()
 		}
 		n := rg.NumRows()
 		for done := int64(0); done < n; {
 			m := int(min(int64(dailyParquetBatch), n-done))
 			for k, c := range cols {
 				if vals[k], err = c.fill(m); err != nil {
-					return nil, fmt.Errorf("daily %s row %d column %d (%s): reading Parquet: %w", name, d.lineNo+1, used[k]+1, names[used[k]], err)
+					return fmt.Errorf("daily %s row %d column %d (%s): reading Parquet: %w", name, d.lineNo+1, used[k]+1, names[used[k]], err)
 				}
 			}
 			for i := range m {
@@ -191,13 +194,16 @@ func readDailyParquet(name string, f io.ReaderAt, size int64, p *dailyPlan, opt 
 					flag = vals[3][i]
 				}
 				if idText, err = d.parquetRow(vals[0][i], vals[1][i], vals[2][i], flag, perDay, kinds, idText); err != nil {
-					return nil, err
+					return err
 				}
 			}
 			done += int64(m)
 		}
-		for _, c := range cols {
-			c.pages.Close()
+		return nil
+	}
+	for _, rg := range pf.RowGroups() {
+		if err := rowGroup(rg); err != nil {
+			return nil, err
 		}
 	}
 	return d.result()
